@@ -1,0 +1,26 @@
+"""ketsplit: exact and certified Schmidt decompositions of pure states of composite systems.
+
+The Python API::
+
+    import ketsplit
+    psi = ketsplit.ket("cos(t)|00> + exp(i phi) sin(t)|11>", real="t phi")
+    d = ketsplit.schmidt(psi, "1|2")
+    d.coefficients, d.rank, d.left, d.right
+    ketsplit.reduced(psi, "1")
+    ketsplit.Session().run("schmidt psi 1|2")
+"""
+
+from __future__ import annotations
+
+__version__ = "0.1.0"
+
+from .api import ket, reduced, schmidt
+from .cuts import Cut, parse_cut
+from .decomposition import Decomposition
+from .language.errors import InputError, LimitError
+from .session import Result, Session, Settings
+from .states import Parameter, State
+
+__all__ = ["ket", "schmidt", "reduced", "State", "Parameter", "Cut", "parse_cut",
+           "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
+           "__version__"]

@@ -1,0 +1,222 @@
+"""Bipartitions, coefficient matrices and reduced density matrices.
+
+A cut splits the parts of a state into a left group and a right group.  The
+coefficient matrix C has one row per basis label of the left group and one
+column per label of the right group (mixed radix, first part most
+significant), so that psi = sum_ij C_ij |i>|j>.  It is held as a sympy
+DomainMatrix (sparse) over the smallest exact domain of its entries; the
+conversions to plain sympy matrices happen at the edges.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from functools import cached_property
+
+import sympy
+from sympy.polys.matrices import DomainMatrix
+from sympy.polys.constructor import construct_domain
+
+from .language.errors import InputError, LimitError, Span
+from .states import State, simplify_real
+
+MAX_DENSE_ENTRIES = 1 << 22  # dense coefficient/density matrices larger than this are refused
+
+
+@dataclass(frozen=True)
+class Cut:
+    """0-based part indices on each side, each side sorted."""
+
+    left: tuple[int, ...]
+    right: tuple[int, ...]
+
+    def describe(self, state: State) -> str:
+        return f"{join_names(state, self.left)}|{join_names(state, self.right)}"
+
+    def swapped(self) -> "Cut":
+        return Cut(self.right, self.left)
+
+
+def join_names(state: State, parts: tuple[int, ...]) -> str:
+    names = [state.names[p] for p in parts]
+    sep = "" if all(len(n) == 1 for n in names) else ","
+    return sep.join(names)
+
+
+CUT_PATTERN = re.compile(r"^[A-Za-z0-9_,]+\|[A-Za-z0-9_,]+$")
+PARTS_PATTERN = re.compile(r"^[A-Za-z0-9_,]+$")
+
+
+def parse_parts(text: str, state: State, span: Span | None = None, source: str | None = None
+                ) -> tuple[int, ...]:
+    """Part list such as ``13``, ``1,3``, ``AC`` or ``A,C`` -> sorted 0-based indices."""
+    pieces = text.split(",") if "," in text else (
+        [text] if state.part_index(text) is not None and not text.isdigit() else list(text))
+    indices = []
+    for piece in pieces:
+        index = state.part_index(piece)
+        if index is None:
+            known = ", ".join(state.names)
+            raise InputError(f"no part named {piece!r}; this state has parts {known}", span, source)
+        if index in indices:
+            raise InputError(f"part {piece!r} is named twice", span, source)
+        indices.append(index)
+    return tuple(sorted(indices))
+
+
+def parse_cut(text: str | None, state: State, span: Span | None = None,
+              source: str | None = None) -> Cut:
+    """``1|2``, ``13|2``, ``1,3|2``, ``A|BC``; ``None`` for a two-part state."""
+    if text is None:
+        if state.nparts == 2:
+            return Cut((0,), (1,))
+        raise InputError(f"this state has {state.nparts} parts: name a cut such as "
+                         f"{join_names(state, (0,))}|{join_names(state, tuple(range(1, state.nparts)))}",
+                         span, source)
+    if not CUT_PATTERN.match(text):
+        raise InputError(f"expected a cut such as 1|2 or A|BC, found {text!r}", span, source)
+    left_text, right_text = text.split("|")
+    left = parse_parts(left_text, state, span, source)
+    right = parse_parts(right_text, state, span, source)
+    both = set(left) & set(right)
+    if both:
+        raise InputError(f"part {state.names[min(both)]} stands on both sides of the cut", span, source)
+    missing = set(range(state.nparts)) - set(left) - set(right)
+    if missing:
+        names = ", ".join(state.names[m] for m in sorted(missing))
+        raise InputError(f"the cut leaves out part(s) {names}; every part must be on one side",
+                         span, source)
+    return Cut(left, right)
+
+
+def side_index(label: tuple[int, ...], parts: tuple[int, ...], dims: tuple[int, ...]) -> int:
+    index = 0
+    for p in parts:
+        index = index * dims[p] + label[p]
+    return index
+
+
+def side_dimension(state: State, parts: tuple[int, ...]) -> int:
+    total = 1
+    for p in parts:
+        total *= state.dims[p]
+    return total
+
+
+def side_label(index: int, parts: tuple[int, ...], dims: tuple[int, ...]) -> tuple[int, ...]:
+    """Inverse of the mixed-radix index: the labels of ``parts`` for row/column ``index``."""
+    labels = []
+    for p in reversed(parts):
+        index, digit = divmod(index, dims[p])
+        labels.append(digit)
+    return tuple(reversed(labels))
+
+
+class CoefficientMatrix:
+    """The matrix C of a state across a cut, over its exact domain (sparse)."""
+
+    def __init__(self, state: State, cut: Cut):
+        self.state = state
+        self.cut = cut
+        self.shape = (side_dimension(state, cut.left), side_dimension(state, cut.right))
+        self.entries: dict[tuple[int, int], sympy.Expr] = {}
+        for label, amp in state.amplitudes.items():
+            key = (side_index(label, cut.left, state.dims), side_index(label, cut.right, state.dims))
+            self.entries[key] = amp
+
+    @cached_property
+    def domain_matrix(self) -> DomainMatrix:
+        """Sparse DomainMatrix over the smallest exact domain (EX when symbolic)."""
+        keys = list(self.entries)
+        values = [self.entries[k] for k in keys]
+        try:
+            domain, elements = construct_domain(values, extension=True)
+        except (NotImplementedError, sympy.polys.polyerrors.PolificationFailed):
+            domain, elements = construct_domain(values, field=True)
+        rows: dict[int, dict[int, object]] = {}
+        for (i, j), element in zip(keys, elements):
+            rows.setdefault(i, {})[j] = element
+        return DomainMatrix(rows, self.shape, domain)
+
+    def to_Matrix(self) -> sympy.Matrix:
+        """A dense sympy matrix; refused above the dense-size limit."""
+        check_dense(self.shape[0] * self.shape[1], "coefficient matrix")
+        matrix = sympy.zeros(*self.shape)
+        for (i, j), value in self.entries.items():
+            matrix[i, j] = value
+        return matrix
+
+    def blocks(self) -> list[tuple[list[int], list[int]]]:
+        """Connected pieces of the bipartite graph of nonzero entries: (rows, columns)."""
+        parent: dict[tuple[str, int], tuple[str, int]] = {}
+
+        def find(node):
+            while parent.setdefault(node, node) != node:
+                parent[node] = parent[parent[node]]
+                node = parent[node]
+            return node
+
+        for i, j in self.entries:
+            a, b = find(("r", i)), find(("c", j))
+            if a != b:
+                parent[a] = b
+        groups: dict[tuple[str, int], tuple[set[int], set[int]]] = {}
+        for i, j in self.entries:
+            rows, cols = groups.setdefault(find(("r", i)), (set(), set()))
+            rows.add(i)
+            cols.add(j)
+        return sorted(((sorted(r), sorted(c)) for r, c in groups.values()), key=lambda rc: rc[0])
+
+    def block_matrix(self, rows: list[int], cols: list[int]) -> sympy.Matrix:
+        check_dense(len(rows) * len(cols), "block of the coefficient matrix")
+        row_at = {r: k for k, r in enumerate(rows)}
+        col_at = {c: k for k, c in enumerate(cols)}
+        block = sympy.zeros(len(rows), len(cols))
+        for (i, j), value in self.entries.items():
+            if i in row_at and j in col_at:
+                block[row_at[i], col_at[j]] = value
+        return block
+
+
+def check_dense(entries: int, what: str) -> None:
+    if entries > MAX_DENSE_ENTRIES:
+        raise LimitError(f"the {what} would have {entries} dense entries; the limit is "
+                         f"{MAX_DENSE_ENTRIES} (ketsplit.cuts.MAX_DENSE_ENTRIES). Use a cut with a "
+                         "smaller side, or a sparser state")
+
+
+def coefficient_matrix(state: State, cut: Cut) -> CoefficientMatrix:
+    return CoefficientMatrix(state, cut)
+
+
+def reduced(state: State, keep: tuple[int, ...] | str) -> sympy.Matrix:
+    """Exact reduced density matrix of the normalised state on the parts ``keep``.
+
+    The partial trace over the other parts is rho = C C^dagger with C the
+    coefficient matrix across keep|rest; it is built from the sparse entries,
+    pairing amplitudes that agree on the traced-out labels.
+    """
+    if isinstance(keep, str):
+        keep = parse_parts(keep, state)
+    keep = tuple(sorted(keep))
+    rest = tuple(p for p in range(state.nparts) if p not in keep)
+    normal = state.normalised()
+    size = side_dimension(state, keep)
+    check_dense(size * size, "reduced density matrix")
+    by_rest: dict[int, list[tuple[int, sympy.Expr]]] = {}
+    for label, amp in normal.amplitudes.items():
+        by_rest.setdefault(side_index(label, rest, state.dims), []).append(
+            (side_index(label, keep, state.dims), amp))
+    sums: dict[tuple[int, int], list[sympy.Expr]] = {}
+    for entries in by_rest.values():
+        for i, a in entries:
+            for j, b in entries:
+                sums.setdefault((i, j), []).append(a * sympy.conjugate(b))
+    rho = sympy.zeros(size, size)
+    for (i, j), products in sums.items():
+        if i <= j:
+            value = simplify_real(sympy.Add(*products)) if i == j else sympy.simplify(sympy.Add(*products))
+            rho[i, j] = value
+            rho[j, i] = sympy.conjugate(value) if i != j else value
+    return rho

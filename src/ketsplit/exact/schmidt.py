@@ -1,0 +1,172 @@
+"""Exact Schmidt decomposition across a cut.
+
+The coefficient matrix is first split into independent blocks (connected
+pieces of the bipartite graph of its nonzero entries); each block is then
+decomposed on its own, so the cost follows the structure of the state.
+
+For a block B (rows on the left, columns on the right) the work happens on
+the smaller side.  With rho = B B^dagger:
+
+- a 1 x n or rank-one block gives one coefficient sqrt(sum |b_ij|^2);
+- a 2 x n block has eigenvalues (w +- sqrt(w^2 - 4 D)) / 2, where w = tr rho
+  and D = det rho = sum of |2x2 minors|^2 (Cauchy-Binet), which stays short
+  for symbolic states;
+- larger blocks go through the factored characteristic polynomial
+  (:mod:`ketsplit.exact.eigen`).
+
+Left vectors u_k are orthonormal eigenvectors of rho; right vectors are
+w_k = B^T conj(u_k) / sigma_k, so that B = sum_k sigma_k u_k w_k^T and
+psi = sum_k sigma_k |u_k>|w_k>.
+"""
+
+from __future__ import annotations
+
+from itertools import combinations
+
+import sympy
+
+from ..cuts import CoefficientMatrix, Cut
+from ..states import State, abs_squared, simplify_real
+from .eigen import eigenvalues
+
+Vector = sympy.Matrix
+Piece = tuple[sympy.Expr, Vector, Vector]  # (sigma, left vector, right vector) of one block
+
+
+def decompose_block(block: sympy.Matrix) -> list[Piece]:
+    """Schmidt pieces of one block, with vectors in the block's own coordinates."""
+    if block.rows > block.cols:
+        return [(s, u, w) for s, w, u in decompose_block(block.T)]
+    if block.rows == 1 or is_rank_one(block):
+        return [rank_one_piece(block)]
+    rho = hermitian_product(block)
+    if block.rows == 2:
+        spectrum = two_by_two_spectrum(block, rho)
+    else:
+        spectrum = eigenvalues(rho)
+    pieces: list[Piece] = []
+    for value, multiplicity in spectrum:
+        if is_zero(value):
+            continue
+        sigma = simplify_sigma(value)
+        for u in eigenvectors(rho, value, multiplicity):
+            w = (block.T * u.conjugate()) / sigma
+            pieces.append((sigma, u, w.applyfunc(sympy.simplify)))
+    return pieces
+
+
+def hermitian_product(block: sympy.Matrix) -> sympy.Matrix:
+    """rho = B B^dagger with simplified, exactly Hermitian entries."""
+    m = block.rows
+    rho = sympy.zeros(m, m)
+    for i in range(m):
+        for j in range(i, m):
+            value = sum((block[i, k] * sympy.conjugate(block[j, k]) for k in range(block.cols)),
+                        sympy.Integer(0))
+            value = simplify_real(value) if i == j else sympy.simplify(value)
+            rho[i, j] = value
+            rho[j, i] = sympy.conjugate(value)
+    return rho
+
+
+def two_by_two_spectrum(block: sympy.Matrix, rho: sympy.Matrix) -> list[tuple[sympy.Expr, int]]:
+    weight = simplify_real(rho[0, 0] + rho[1, 1])
+    det = simplify_real(sum((abs_squared(block[0, a] * block[1, b] - block[0, b] * block[1, a])
+                             for a, b in combinations(range(block.cols), 2)), sympy.Integer(0)))
+    disc = simplify_real(weight ** 2 - 4 * det)
+    if is_zero(disc):
+        return [(weight / 2, 2)]
+    root = sympy.sqrt(disc)
+    return [(simplify_real((weight + root) / 2), 1), (simplify_real((weight - root) / 2), 1)]
+
+
+def is_zero(value: sympy.Expr) -> bool:
+    if value.is_zero is not None:
+        return bool(value.is_zero)
+    return sympy.simplify(value) == 0
+
+
+def is_rank_one(block: sympy.Matrix) -> bool:
+    """Every 2x2 minor vanishes identically (rows proportional)."""
+    pivot_row = next(i for i in range(block.rows) if any(block[i, j] != 0 for j in range(block.cols)))
+    pivot_col = next(j for j in range(block.cols) if block[pivot_row, j] != 0)
+    for i in range(block.rows):
+        for j in range(block.cols):
+            minor = block[i, j] * block[pivot_row, pivot_col] - block[i, pivot_col] * block[pivot_row, j]
+            if not is_zero(sympy.expand(minor)):
+                return False
+    return True
+
+
+def rank_one_piece(block: sympy.Matrix) -> Piece:
+    """B = x y^T: sigma = |x||y|, u = x/|x|, w = y/|y|."""
+    pivot_row = next(i for i in range(block.rows) if any(block[i, j] != 0 for j in range(block.cols)))
+    pivot_col = next(j for j in range(block.cols) if block[pivot_row, j] != 0)
+    y = block[pivot_row, :].T
+    x = block[:, pivot_col] / block[pivot_row, pivot_col]
+    x_norm = sympy.sqrt(simplify_real(sum((abs_squared(v) for v in x), sympy.Integer(0))))
+    y_norm = sympy.sqrt(simplify_real(sum((abs_squared(v) for v in y), sympy.Integer(0))))
+    sigma = simplify_sigma(simplify_real(sum((abs_squared(v) for v in block), sympy.Integer(0))))
+    u = (x / x_norm).applyfunc(sympy.simplify)
+    w = (y / y_norm).applyfunc(sympy.simplify)
+    if block.rows == 1:  # keep any phase on the right vector: the left one is then |i>
+        u, w = sympy.Matrix([[1]]), (block.T / sigma).applyfunc(sympy.simplify)
+    return sigma, u, w
+
+
+def simplify_sigma(eigenvalue: sympy.Expr) -> sympy.Expr:
+    """sqrt of a nonnegative eigenvalue, denested and simplified."""
+    sigma = sympy.sqrt(eigenvalue)
+    if not sigma.free_symbols:
+        sigma = sympy.sqrtdenest(sympy.radsimp(sigma))
+    simplified = sympy.simplify(sigma)
+    return simplified if sympy.count_ops(simplified) <= sympy.count_ops(sigma) else sigma
+
+
+def eigenvectors(rho: sympy.Matrix, value: sympy.Expr, multiplicity: int) -> list[Vector]:
+    """An orthonormal basis of the eigenspace of ``value`` (Gram-Schmidt, Hermitian product)."""
+    shifted = (rho - value * sympy.eye(rho.rows)).applyfunc(sympy.simplify)
+    basis = shifted.nullspace(simplify=True)
+    if len(basis) < multiplicity:
+        basis = adjugate_columns(shifted) if multiplicity == 1 else basis
+    if len(basis) < multiplicity:
+        raise ArithmeticError(f"eigenspace of {value} has dimension {len(basis)}, "
+                              f"expected {multiplicity}")
+    return orthonormalise(basis[:multiplicity])
+
+
+def adjugate_columns(shifted: sympy.Matrix) -> list[Vector]:
+    """A nonzero column of adj(rho - lambda I): an eigenvector when the eigenvalue is simple."""
+    adjugate = shifted.adjugate()
+    for j in range(adjugate.cols):
+        column = adjugate[:, j].applyfunc(sympy.simplify)
+        if any(not is_zero(v) for v in column):
+            return [column]
+    return []
+
+
+def orthonormalise(vectors: list[Vector]) -> list[Vector]:
+    done: list[Vector] = []
+    for v in vectors:
+        for u in done:
+            v = v - u * (u.H * v)[0]
+        norm = sympy.sqrt(simplify_real(sum((abs_squared(x) for x in v), sympy.Integer(0))))
+        done.append((v / norm).applyfunc(sympy.simplify))
+    return done
+
+
+def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]]:
+    """All pieces of the normalised state, vectors embedded in the full side spaces."""
+    matrix = CoefficientMatrix(state, cut)
+    pieces: list[Piece] = []
+    for rows, cols in matrix.blocks():
+        for sigma, u, w in decompose_block(matrix.block_matrix(rows, cols)):
+            pieces.append((sigma, embed(u, rows, matrix.shape[0]), embed(w, cols, matrix.shape[1])))
+    return pieces, matrix.shape
+
+
+def embed(vector: Vector, positions: list[int], size: int) -> Vector:
+    full = sympy.zeros(size, 1)
+    for k, p in enumerate(positions):
+        full[p] = vector[k]
+    return full

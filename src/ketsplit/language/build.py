@@ -1,0 +1,291 @@
+"""From syntax tree to values, by explicit construction of sympy objects.
+
+Nothing here hands user text to ``sympify``, ``parse_expr``, ``eval`` or
+``exec``: every number, name and function is mapped by a table.
+
+A value is a scalar (sympy expression), a :class:`KetValue` (sparse sum of
+basis kets) or a sympy matrix.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from fractions import Fraction
+from typing import Callable, Mapping, Protocol
+
+import sympy
+
+from .errors import InputError, LimitError, Span
+from .syntax import Binary, Call, KetLiteral, MatrixLiteral, Name, Negate, Node, Number, Sum
+
+MAX_EXPONENT = 1000
+MAX_SUM_TERMS = 100_000
+MAX_TERMS = 1 << 20
+
+
+@dataclass
+class KetValue:
+    """A sparse sum of basis kets; ``terms`` maps labels to coefficients."""
+
+    terms: dict[tuple[int, ...], sympy.Expr]
+    nparts: int
+    dims: tuple[int, ...] | None = None  # known dimensions (from a bound state)
+
+    def scaled(self, factor: sympy.Expr) -> "KetValue":
+        return KetValue({k: v * factor for k, v in self.terms.items()}, self.nparts, self.dims)
+
+
+Value = sympy.Expr | KetValue | sympy.MatrixBase
+
+SCALAR_FUNCTIONS: dict[str, Callable[[sympy.Expr], sympy.Expr]] = {
+    "sqrt": sympy.sqrt, "exp": sympy.exp, "sin": sympy.sin, "cos": sympy.cos,
+    "tan": sympy.tan, "sinh": sympy.sinh, "cosh": sympy.cosh, "tanh": sympy.tanh,
+    "log": sympy.log, "conj": sympy.conjugate, "abs": sympy.Abs,
+}
+
+# functions that build kets from integer arguments, registered by other modules
+KET_FUNCTIONS: dict[str, Callable[..., "KetValue"]] = {}
+
+CONSTANTS: dict[str, sympy.Expr] = {"i": sympy.I, "pi": sympy.pi}
+
+
+class Scope(Protocol):
+    """What the builder needs from a session: names and the declared space."""
+
+    def lookup(self, name: str) -> object | None: ...
+    def undeclared(self, name: str) -> sympy.Symbol: ...
+    def space_dims(self) -> tuple[int, ...] | None: ...
+
+
+@dataclass
+class Builder:
+    scope: Scope
+    source: str
+    bound: dict[str, int] = field(default_factory=dict)  # summation variables
+
+    def fail(self, message: str, node: Node) -> None:
+        raise InputError(message, node.span, self.source)
+
+    def build(self, node: Node) -> Value:
+        method = getattr(self, "_" + type(node).__name__)
+        return method(node)
+
+    def scalar(self, node: Node, what: str = "a number") -> sympy.Expr:
+        value = self.build(node)
+        if isinstance(value, KetValue) or isinstance(value, sympy.MatrixBase):
+            self.fail(f"expected {what}, found a {kind_of(value)}", node)
+        return value
+
+    # -- leaves --------------------------------------------------------
+    def _Number(self, node: Number) -> sympy.Expr:
+        mantissa, _, exponent = node.text.lower().partition("e")
+        if exponent and abs(int(exponent)) > MAX_EXPONENT:
+            raise LimitError(f"exponent {exponent} is beyond the limit of {MAX_EXPONENT} "
+                             "(ketsplit.language.build.MAX_EXPONENT)", node.span, self.source)
+        fraction = Fraction(mantissa)  # exact decimal, parsed by the standard library
+        value = sympy.Rational(fraction.numerator, fraction.denominator)
+        return value * sympy.Integer(10) ** int(exponent) if exponent else value
+
+    def _Name(self, node: Name) -> Value:
+        if node.name in self.bound:
+            return sympy.Integer(self.bound[node.name])
+        if node.name in CONSTANTS:
+            return CONSTANTS[node.name]
+        if node.name in SCALAR_FUNCTIONS or node.name in KET_FUNCTIONS:
+            self.fail(f"{node.name} is a function: write {node.name}(...)", node)
+        found = self.scope.lookup(node.name)
+        if found is None:
+            return self.scope.undeclared(node.name)
+        return as_value(found)
+
+    def _KetLiteral(self, node: KetLiteral) -> KetValue:
+        dims = self.scope.space_dims()
+        if dims is not None and len(dims) != len(node.labels):
+            self.fail(f"this ket has {len(node.labels)} part(s) but the declared space has "
+                      f"{len(dims)}", node)
+        factors: list[dict[int, sympy.Expr]] = []
+        for position, label in enumerate(node.labels):
+            factor = self._label(label, node)
+            if dims is not None and max(factor) >= dims[position]:
+                self.fail(f"label {max(factor)} of part {position + 1} is outside its declared "
+                          f"dimension {dims[position]}", node)
+            factors.append(factor)
+        terms: dict[tuple[int, ...], sympy.Expr] = {(): sympy.Integer(1)}
+        for factor in factors:
+            terms = {k + (level,): v * a for k, v in terms.items() for level, a in factor.items()}
+        return KetValue(terms, len(node.labels))
+
+    def _label(self, label: str, node: Node) -> dict[int, sympy.Expr]:
+        half = 1 / sympy.sqrt(2)
+        if label == "+":
+            return {0: half, 1: half}
+        if label == "-":
+            return {0: half, 1: -half}
+        if label.isdigit():
+            return {int(label): sympy.Integer(1)}
+        if label in self.bound:
+            if self.bound[label] < 0:
+                self.fail(f"ket label {label} = {self.bound[label]} is negative", node)
+            return {self.bound[label]: sympy.Integer(1)}
+        self.fail(f"ket label {label!r} is not a level: use digits, '+', '-', or a summation "
+                  "variable of an enclosing sum(...)", node)
+        raise AssertionError
+
+    def _MatrixLiteral(self, node: MatrixLiteral) -> sympy.Matrix:
+        return sympy.Matrix([[self.scalar(e, "a matrix entry") for e in row] for row in node.rows])
+
+    # -- operations ----------------------------------------------------
+    def _Negate(self, node: Negate) -> Value:
+        return scale(self.build(node.operand), sympy.Integer(-1))
+
+    def _Binary(self, node: Binary) -> Value:
+        left, right = self.build(node.left), self.build(node.right)
+        if node.op in "+-":
+            return self._add(left, right if node.op == "+" else scale(right, -1), node)
+        if node.op == "^":
+            return self._power(left, right, node)
+        if node.op == "/":
+            if not is_scalar(right):
+                self.fail(f"cannot divide by a {kind_of(right)}", node)
+            if right == 0:
+                self.fail("division by zero", node)
+            return scale(left, 1 / right)
+        if node.op == "⊗" and not (isinstance(left, KetValue) and isinstance(right, KetValue)):
+            self.fail("⊗ joins two kets", node)
+        return self._multiply(left, right, node)
+
+    def _add(self, left: Value, right: Value, node: Binary) -> Value:
+        if is_scalar(left) and is_scalar(right):
+            return left + right
+        if isinstance(left, KetValue) and isinstance(right, KetValue):
+            if left.nparts != right.nparts:
+                self.fail(f"cannot add a ket of {left.nparts} part(s) to one of {right.nparts}", node)
+            terms = dict(left.terms)
+            for k, v in right.terms.items():
+                terms[k] = terms.get(k, 0) + v
+            return KetValue(terms, left.nparts, merge_dims(left.dims, right.dims))
+        if isinstance(left, sympy.MatrixBase) and isinstance(right, sympy.MatrixBase):
+            if left.shape != right.shape:
+                self.fail(f"cannot add a {left.shape} matrix to a {right.shape} one", node)
+            return left + right
+        self.fail(f"cannot add a {kind_of(left)} and a {kind_of(right)}", node)
+        raise AssertionError
+
+    def _multiply(self, left: Value, right: Value, node: Binary) -> Value:
+        if is_scalar(left):
+            return scale(right, left)
+        if is_scalar(right):
+            return scale(left, right)
+        if isinstance(left, KetValue) and isinstance(right, KetValue):
+            if len(left.terms) * len(right.terms) > MAX_TERMS:
+                raise LimitError(f"the product would have more than {MAX_TERMS} terms "
+                                 "(ketsplit.language.build.MAX_TERMS)", node.span, self.source)
+            terms = {a + b: x * y for a, x in left.terms.items() for b, y in right.terms.items()}
+            dims = left.dims + right.dims if left.dims and right.dims else None
+            return KetValue(terms, left.nparts + right.nparts, dims)
+        self.fail(f"cannot multiply a {kind_of(left)} by a {kind_of(right)}", node)
+        raise AssertionError
+
+    def _power(self, base: Value, exponent: Value, node: Binary) -> sympy.Expr:
+        if not (is_scalar(base) and is_scalar(exponent)):
+            self.fail("only numbers and parameters can be raised to a power", node)
+        if exponent.is_number and exponent.is_real and abs(exponent) > MAX_EXPONENT:
+            raise LimitError(f"exponent {exponent} is beyond the limit of {MAX_EXPONENT} "
+                             "(ketsplit.language.build.MAX_EXPONENT)", node.span, self.source)
+        if base == 0 and exponent.is_number and exponent.is_real and exponent < 0:
+            self.fail("division by zero", node)
+        return base ** exponent
+
+    def _Call(self, node: Call) -> Value:
+        if node.function in SCALAR_FUNCTIONS:
+            if len(node.args) != 1:
+                self.fail(f"{node.function} takes one argument, found {len(node.args)}", node)
+            argument = self.scalar(node.args[0], f"a number inside {node.function}(...)")
+            if node.function == "log" and argument == 0:
+                self.fail("log(0) is not a number", node)
+            return SCALAR_FUNCTIONS[node.function](argument)
+        if node.function in KET_FUNCTIONS:
+            args = [self._integer(a, f"an integer argument of {node.function}") for a in node.args]
+            try:
+                return KET_FUNCTIONS[node.function](*args)
+            except (TypeError, ValueError) as err:
+                self.fail(f"{node.function}: {err}", node)
+        found = self.scope.lookup(node.function)
+        if found is not None and len(node.args) == 1:
+            return self._multiply(as_value(found), self.build(node.args[0]), node)
+        known = ", ".join(sorted(list(SCALAR_FUNCTIONS) + list(KET_FUNCTIONS) + ["sum"]))
+        self.fail(f"unknown function {node.function!r}; known functions: {known} "
+                  f"(for a product, put a space: {node.function} (...))", node)
+        raise AssertionError
+
+    def _integer(self, node: Node, what: str) -> int:
+        value = self.scalar(node, what)
+        if not (value.is_Integer):
+            self.fail(f"expected {what}, found {value}", node)
+        return int(value)
+
+    def _Sum(self, node: Sum) -> Value:
+        low = self._integer(node.low, "an integer lower limit")
+        high = self._integer(node.high, "an integer upper limit")
+        if high - low + 1 > MAX_SUM_TERMS:
+            raise LimitError(f"the sum has {high - low + 1} terms; the limit is {MAX_SUM_TERMS}",
+                             node.span, self.source)
+        if high < low:
+            self.fail(f"the sum runs from {low} up to {high}: it has no terms", node)
+        total: Value | None = None
+        saved = self.bound.get(node.variable)
+        try:
+            for n in range(low, high + 1):
+                self.bound[node.variable] = n
+                term = self.build(node.body)
+                total = term if total is None else self._add(total, term, node)  # type: ignore[arg-type]
+        finally:
+            if saved is None:
+                self.bound.pop(node.variable, None)
+            else:
+                self.bound[node.variable] = saved
+        return total  # type: ignore[return-value]
+
+
+def is_scalar(value: Value) -> bool:
+    return not isinstance(value, (KetValue, sympy.MatrixBase))
+
+
+def kind_of(value: Value) -> str:
+    if isinstance(value, KetValue):
+        return "ket"
+    if isinstance(value, sympy.MatrixBase):
+        return "matrix"
+    return "number"
+
+
+def scale(value: Value, factor) -> Value:
+    if isinstance(value, KetValue):
+        return value.scaled(factor)
+    return value * factor
+
+
+def merge_dims(a: tuple[int, ...] | None, b: tuple[int, ...] | None) -> tuple[int, ...] | None:
+    if a is None:
+        return b
+    if b is None:
+        return a
+    return tuple(max(x, y) for x, y in zip(a, b))
+
+
+def as_value(found: object) -> Value:
+    """A session binding (State, scalar, matrix, Parameter) as a builder value."""
+    from ..states import Parameter, State
+    if isinstance(found, Parameter):
+        return found.symbol
+    if isinstance(found, State):
+        return KetValue(dict(found.amplitudes), found.nparts, found.dims)
+    return found  # type: ignore[return-value]
+
+
+def evaluate(text: str, scope: Scope, line: int = 1,
+             bound: Mapping[str, int] | None = None) -> tuple[Value, Span]:
+    """Parse and build one expression."""
+    from .grammar import parse_expression
+    node = parse_expression(text, line)
+    return Builder(scope, text, dict(bound or {})).build(node), node.span

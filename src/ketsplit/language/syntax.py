@@ -1,0 +1,58 @@
+"""Syntax tree of the state language: small immutable nodes, each with its span."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .errors import Span
+
+
+@dataclass(frozen=True)
+class Node:
+    span: Span
+
+
+@dataclass(frozen=True)
+class Number(Node):
+    text: str
+
+
+@dataclass(frozen=True)
+class Name(Node):
+    name: str
+
+
+@dataclass(frozen=True)
+class KetLiteral(Node):
+    labels: tuple[str, ...]  # one entry a part: digits, '+', '-', or a sum variable
+
+
+@dataclass(frozen=True)
+class Call(Node):
+    function: str
+    args: tuple[Node, ...]
+
+
+@dataclass(frozen=True)
+class Binary(Node):
+    op: str  # '+', '-', '*', '/', '^', '⊗' ; juxtaposition is '*'
+    left: Node
+    right: Node
+
+
+@dataclass(frozen=True)
+class Negate(Node):
+    operand: Node
+
+
+@dataclass(frozen=True)
+class Sum(Node):
+    variable: str
+    low: Node
+    high: Node
+    body: Node
+
+
+@dataclass(frozen=True)
+class MatrixLiteral(Node):
+    rows: tuple[tuple[Node, ...], ...]

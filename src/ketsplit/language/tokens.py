@@ -1,0 +1,120 @@
+"""Tokenizer of the state language.
+
+A ket ``|...>`` is one token: inside the bars the characters are labels, not
+operators, so ``|0,1,10>`` and ``|+->`` never reach the expression grammar.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from enum import Enum
+
+from .errors import InputError, Span
+
+MAX_INPUT_LENGTH = 200_000
+
+
+class Kind(Enum):
+    NUMBER = "number"
+    NAME = "name"
+    KET = "ket"
+    OP = "operator"
+    END = "end of input"
+
+
+@dataclass(frozen=True)
+class Token:
+    kind: Kind
+    text: str
+    span: Span
+    spaced: bool = False  # whitespace stood right before this token
+
+    def describe(self) -> str:
+        return "end of input" if self.kind is Kind.END else repr(self.text)
+
+
+# longest first, so that ".." wins over "."
+OPERATORS = ("..", "**", "+", "-", "*", "/", "^", "(", ")", "[", "]", ",", "=", "~",
+             "⊗", "·", "√", ":", ";")
+UNICODE_NAMES = {"π": "pi"}
+KET_CHARS = set("0123456789+-,abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ_ ")
+
+
+def _is_name_start(ch: str) -> bool:
+    return ch.isascii() and (ch.isalpha() or ch == "_") or ch in UNICODE_NAMES or (
+        not ch.isascii() and ch.isalpha())
+
+
+def _is_name_char(ch: str) -> bool:
+    return _is_name_start(ch) or (ch.isascii() and ch.isdigit())
+
+
+def tokenize(text: str, line: int = 1) -> list[Token]:
+    """Split one line of the state language into tokens (``#`` ends it)."""
+    if len(text) > MAX_INPUT_LENGTH:
+        from .errors import LimitError
+        raise LimitError(f"input is {len(text)} characters long; the limit is "
+                         f"{MAX_INPUT_LENGTH} (ketsplit.limits)", Span(line, 1, 1), text)
+    tokens: list[Token] = []
+    pos = 0
+    spaced = False
+    while pos < len(text):
+        ch = text[pos]
+        if ch in " \t\r\n":
+            pos += 1
+            spaced = True
+            continue
+        if ch == "#":
+            break
+        start = pos
+        if ch == "|":
+            end = text.find(">", pos + 1)
+            bad = next((k for k in range(pos + 1, end if end >= 0 else len(text))
+                        if text[k] not in KET_CHARS), None)
+            if end < 0 or bad is not None:
+                where = bad if bad is not None else len(text)
+                raise InputError("a ket opened with '|' must close with '>' and hold only "
+                                 "labels (digits, letters, '+', '-', ',')",
+                                 Span(line, where + 1, 1), text)
+            pos = end + 1
+            tokens.append(Token(Kind.KET, text[start:pos], Span(line, start + 1, pos - start), spaced))
+        elif ch.isascii() and ch.isdigit() or (ch == "." and text[pos + 1:pos + 2].isdigit()):
+            pos = _scan_number(text, pos)
+            tokens.append(Token(Kind.NUMBER, text[start:pos], Span(line, start + 1, pos - start), spaced))
+        elif _is_name_start(ch):
+            while pos < len(text) and _is_name_char(text[pos]) and text[pos] not in UNICODE_NAMES:
+                pos += 1
+            if pos == start:  # a lone unicode name such as π
+                pos += 1
+            word = UNICODE_NAMES.get(text[start:pos], text[start:pos])
+            tokens.append(Token(Kind.NAME, word, Span(line, start + 1, pos - start), spaced))
+        else:
+            op = next((o for o in OPERATORS if text.startswith(o, pos)), None)
+            if op is None:
+                raise InputError(f"unexpected character {ch!r}", Span(line, pos + 1, 1), text)
+            pos += len(op)
+            tokens.append(Token(Kind.OP, "^" if op == "**" else op,
+                                Span(line, start + 1, len(op)), spaced))
+        spaced = False
+    tokens.append(Token(Kind.END, "", Span(line, len(text.rstrip()) + 1, 1), spaced))
+    return tokens
+
+
+def _scan_number(text: str, pos: int) -> int:
+    """End of a decimal number starting at ``pos``: digits, one dot, an exponent."""
+    n = len(text)
+    while pos < n and text[pos].isdigit():
+        pos += 1
+    if pos < n and text[pos] == "." and not text.startswith("..", pos):
+        pos += 1
+        while pos < n and text[pos].isdigit():
+            pos += 1
+    if pos < n and text[pos] in "eE":
+        k = pos + 1
+        if k < n and text[k] in "+-":
+            k += 1
+        if k < n and text[k].isdigit():
+            pos = k
+            while pos < n and text[pos].isdigit():
+                pos += 1
+    return pos

@@ -1,0 +1,203 @@
+"""The one engine behind the shell, worksheets, ``ketsplit -c`` and the Python API.
+
+A :class:`Session` holds names, declarations, the declared space and settings,
+and runs statements of the state language.  Each statement is atomic: it is
+computed in full before any binding changes, so an error leaves the session
+exactly as it was.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, field, replace
+from typing import Iterator
+
+import sympy
+
+from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue, evaluate, kind_of
+from .language.errors import InputError, Span
+from .language.tokens import Kind, tokenize
+from .render.report import Report
+from .states import KINDS, Parameter, State, make_symbol
+
+MIN_DIGITS, MAX_DIGITS = 5, 10_000
+
+
+@dataclass(frozen=True)
+class Settings:
+    digits: int = 30            # certified digits shown for numeric values
+    entropy_unit: str = "bits"  # or "nats"
+    exact_budget: float = 20.0  # seconds the exact path may take before numbers are used
+
+
+@dataclass(frozen=True)
+class Space:
+    names: tuple[str, ...]
+    dims: tuple[int, ...]
+
+
+@dataclass(frozen=True)
+class Result:
+    """One statement's outcome: the statement as typed and its report."""
+
+    statement: str
+    kind: str
+    report: Report
+    line: int = 1
+
+    def text(self, pretty: bool = False) -> str:
+        from .render.text import to_text
+        return to_text(self.report, pretty)
+
+    def latex(self) -> str:
+        from .render.latex import to_latex
+        return to_latex(self.report)
+
+    def to_json(self) -> dict:
+        from .render.jsonout import to_data
+        return {"statement": self.statement, "kind": self.kind, "line": self.line,
+                **to_data(self.report)}
+
+    def __str__(self) -> str:
+        return self.text()
+
+    def __repr__(self) -> str:
+        return f"<{self.kind}: {self.statement}>\n{self.text()}"
+
+    def _repr_latex_(self) -> str:
+        return "$\\displaystyle " + self.latex().replace("\n", " ") + "$"
+
+
+@dataclass
+class Session:
+    """Names, declarations, space and settings; runs statements."""
+
+    settings: Settings = field(default_factory=Settings)
+    bindings: dict[str, object] = field(default_factory=dict)
+    params: dict[str, Parameter] = field(default_factory=dict)
+    space: Space | None = None
+
+    # -- the Scope protocol used by the builder ------------------------
+    def lookup(self, name: str) -> object | None:
+        if name in self.bindings:
+            return self.bindings[name]
+        return self.params.get(name)
+
+    def undeclared(self, name: str) -> sympy.Symbol:
+        return make_symbol(name, "complex")
+
+    def space_dims(self) -> tuple[int, ...] | None:
+        return self.space.dims if self.space else None
+
+    # -- running -------------------------------------------------------
+    def run(self, text: str) -> list[Result]:
+        """Run every statement of ``text`` (newline- or ';'-separated)."""
+        return [self.execute(statement, line) for statement, line in split_statements(text)]
+
+    def execute(self, statement: str, line: int = 1) -> Result:
+        """Run one statement; on an InputError the session is unchanged."""
+        from .commands import dispatch
+        try:
+            return dispatch(self, statement, line)
+        except InputError as err:
+            raise relocate(err, statement, line) from None
+        except RecursionError:
+            raise InputError("the statement is nested too deeply to evaluate",
+                             Span(line, 1, len(statement)), statement) from None
+
+    # -- helpers for commands ------------------------------------------
+    def evaluate(self, text: str, offset: int = 0, line: int = 1):
+        """Evaluate an expression that starts at 0-based column ``offset`` of its line."""
+        value, _ = evaluate(" " * offset + text, self, line)
+        return value
+
+    def make_state(self, value: KetValue, span: Span | None = None) -> State:
+        """A State from a built ket: dimensions from the space or inferred, parameters found."""
+        if not value.terms or all(v == 0 for v in value.terms.values()):
+            raise InputError("the state is zero: every amplitude vanishes", span)
+        inferred = tuple(max(2, 1 + max(label[p] for label in value.terms)) for p in range(value.nparts))
+        dims = self.space.dims if self.space and len(self.space.dims) == value.nparts else (
+            tuple(max(a, b) for a, b in zip(inferred, value.dims)) if value.dims else inferred)
+        names = self.space.names if self.space and len(self.space.names) == value.nparts else ()
+        amplitudes = {k: v for k, v in value.terms.items() if v != 0}
+        state = State(dims, amplitudes, names)
+        return replace_params(state, self.params)
+
+    def set_digits(self, digits: int, span: Span | None = None) -> None:
+        if not MIN_DIGITS <= digits <= MAX_DIGITS:
+            raise InputError(f"digits must be between {MIN_DIGITS} and {MAX_DIGITS}, found {digits}",
+                             span)
+        self.settings = replace(self.settings, digits=digits)
+
+    def declare(self, names: list[str], kind: str, rng: tuple[sympy.Expr, sympy.Expr] | None) -> None:
+        for name in names:
+            self.params[name] = Parameter(name, kind, rng)
+
+    def reserved(self, name: str) -> bool:
+        from .commands import COMMANDS
+        return (name in SCALAR_FUNCTIONS or name in KET_FUNCTIONS or name in CONSTANTS
+                or name in COMMANDS or name in KINDS or name in ("space", "sum", "with", "in"))
+
+
+def replace_params(state: State, declared: dict[str, Parameter]) -> State:
+    """Attach each symbol's Parameter (declared kind and range, else complex)."""
+    params = []
+    for symbol in sorted(state.symbols, key=lambda s: s.name):
+        found = declared.get(symbol.name)
+        params.append(found if found and found.symbol == symbol else Parameter(symbol.name, kind_of_symbol(symbol)))
+    return State(state.dims, state.amplitudes, state.names, tuple(params))
+
+
+def kind_of_symbol(symbol: sympy.Symbol) -> str:
+    if symbol.is_integer:
+        return "integer"
+    if symbol.is_positive:
+        return "positive"
+    if symbol.is_real:
+        return "real"
+    return "complex"
+
+
+def relocate(err: InputError, statement: str, line: int) -> InputError:
+    """Place an error raised on a lone statement at its line in the whole input."""
+    span = err.span or Span(1, 1, max(1, len(statement)))
+    return err.located(Span(line, span.column, span.length), statement)
+
+
+def split_statements(text: str) -> Iterator[tuple[str, int]]:
+    """Statements with their 1-based line numbers: split at newlines and at ';'
+    outside brackets; comments and blank statements are dropped."""
+    for number, raw in enumerate(text.splitlines() or [text], start=1):
+        code = strip_comment(raw)
+        depth, start = 0, 0
+        for k, ch in enumerate(code):
+            if ch in "([":
+                depth += 1
+            elif ch in ")]":
+                depth -= 1
+            elif ch == ";" and depth <= 0:
+                if code[start:k].strip():
+                    yield " " * start + code[start:k], number
+                start = k + 1
+        if code[start:].strip():
+            yield " " * start + code[start:], number
+
+
+def strip_comment(line: str) -> str:
+    """The line without its ``#`` comment (a '#' cannot occur inside a ket)."""
+    cut = line.find("#")
+    return line if cut < 0 else line[:cut]
+
+
+WORD = re.compile(r"\S+")
+
+
+def words_with_offsets(text: str, offset: int = 0) -> list[tuple[str, int]]:
+    return [(m.group(), m.start() + offset) for m in WORD.finditer(text)]
+
+
+def first_token_kind(text: str) -> Kind:
+    return tokenize(text)[0].kind
+
+
+__all__ = ["Session", "Settings", "Result", "Space", "kind_of"]

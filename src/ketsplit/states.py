@@ -1,0 +1,194 @@
+"""Pure states of composite systems: local dimensions, part names, sparse amplitudes.
+
+A :class:`State` is an immutable value.  Its amplitudes are a sparse mapping
+from basis labels (one integer a part) to exact sympy expressions; only
+nonzero amplitudes are stored, so a state of many parts costs what its
+support costs.  Parameters carry their assumptions and declared ranges.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from types import MappingProxyType
+from typing import Iterable, Mapping
+
+import sympy
+
+from .language.errors import InputError
+
+KINDS = ("real", "positive", "complex", "integer")
+
+
+@dataclass(frozen=True)
+class Parameter:
+    """A named symbolic parameter with its kind and optional closed range."""
+
+    name: str
+    kind: str = "complex"
+    range: tuple[sympy.Expr, sympy.Expr] | None = None
+
+    @property
+    def symbol(self) -> sympy.Symbol:
+        return make_symbol(self.name, self.kind)
+
+    @property
+    def is_real(self) -> bool:
+        return self.kind in ("real", "positive", "integer")
+
+    def describe(self) -> str:
+        where = f" in [{sympy.sstr(self.range[0])}, {sympy.sstr(self.range[1])}]" if self.range else ""
+        return f"{self.kind} {self.name}{where}"
+
+
+def make_symbol(name: str, kind: str = "complex") -> sympy.Symbol:
+    """The one sympy symbol for a parameter of this name and kind."""
+    if kind == "real":
+        return sympy.Symbol(name, real=True)
+    if kind == "positive":
+        return sympy.Symbol(name, positive=True)
+    if kind == "integer":
+        return sympy.Symbol(name, integer=True)
+    return sympy.Symbol(name, complex=True)
+
+
+def default_names(nparts: int) -> tuple[str, ...]:
+    return tuple(str(k + 1) for k in range(nparts))
+
+
+@dataclass(frozen=True, eq=False)
+class State:
+    """A (possibly unnormalised) pure state of ``len(dims)`` parts.
+
+    ``amplitudes`` maps basis labels such as ``(0, 1)`` to nonzero sympy
+    expressions.  Use :meth:`normalised` for the state that results refer to.
+    """
+
+    dims: tuple[int, ...]
+    amplitudes: Mapping[tuple[int, ...], sympy.Expr]
+    names: tuple[str, ...] = ()
+    params: tuple[Parameter, ...] = ()
+    _cache: dict = field(default_factory=dict, repr=False, compare=False)
+
+    def __post_init__(self) -> None:
+        amps = {tuple(k): sympy.sympify(v) for k, v in dict(self.amplitudes).items() if v != 0}
+        object.__setattr__(self, "amplitudes", MappingProxyType(amps))
+        object.__setattr__(self, "dims", tuple(int(d) for d in self.dims))
+        if not self.names:
+            object.__setattr__(self, "names", default_names(len(self.dims)))
+        for label in amps:
+            if len(label) != len(self.dims):
+                raise ValueError(f"label {label} does not have {len(self.dims)} parts")
+            for part, (value, dim) in enumerate(zip(label, self.dims)):
+                if not 0 <= value < dim:
+                    raise ValueError(f"label {label}: part {part + 1} outside dimension {dim}")
+
+    # -- shape ---------------------------------------------------------
+    @property
+    def nparts(self) -> int:
+        return len(self.dims)
+
+    @property
+    def dimension(self) -> int:
+        total = 1
+        for d in self.dims:
+            total *= d
+        return total
+
+    @property
+    def symbols(self) -> set[sympy.Symbol]:
+        found: set[sympy.Symbol] = set()
+        for value in self.amplitudes.values():
+            found |= value.free_symbols
+        return found
+
+    def parameter(self, name: str) -> Parameter | None:
+        return next((p for p in self.params if p.name == name), None)
+
+    def part_index(self, name: str) -> int | None:
+        """0-based index of a part given by its name or 1-based number."""
+        if name in self.names:
+            return self.names.index(name)
+        if name.isdigit() and 1 <= int(name) <= self.nparts:
+            return int(name) - 1
+        return None
+
+    def terms(self) -> list[tuple[tuple[int, ...], sympy.Expr]]:
+        """Amplitudes in lexicographic order of their labels."""
+        return sorted(self.amplitudes.items())
+
+    # -- values --------------------------------------------------------
+    def norm_squared(self) -> sympy.Expr:
+        """The exact squared norm, simplified with the parameters' assumptions."""
+        if "norm2" not in self._cache:
+            total = sympy.Add(*(abs_squared(v) for v in self.amplitudes.values()))
+            self._cache["norm2"] = simplify_real(total)
+        return self._cache["norm2"]
+
+    def is_normalised(self) -> bool:
+        return sympy.simplify(self.norm_squared() - 1) == 0
+
+    def normalised(self) -> "State":
+        """The state divided by its norm; a zero state is an InputError."""
+        if "normalised" in self._cache:
+            return self._cache["normalised"]
+        norm2 = self.norm_squared()
+        if not self.amplitudes or norm2 == 0:
+            raise InputError("the state is zero: every amplitude vanishes")
+        if self.is_normalised():
+            result = self
+        else:
+            scale = 1 / sympy.sqrt(norm2)
+            result = self.with_amplitudes({k: sympy.expand(v * scale) if not v.free_symbols
+                                           else v * scale for k, v in self.amplitudes.items()})
+        self._cache["normalised"] = result
+        return result
+
+    def with_amplitudes(self, amplitudes: Mapping[tuple[int, ...], sympy.Expr]) -> "State":
+        return State(self.dims, amplitudes, self.names, self.params)
+
+    def subs(self, mapping: Mapping) -> "State":
+        """The state at a parameter point; keys are names or symbols."""
+        table = self._substitution_table(mapping)
+        kept = tuple(p for p in self.params if p.symbol not in table)
+        amps = {k: sympy.simplify(v.subs(table)) if v.free_symbols & set(table) else v
+                for k, v in self.amplitudes.items()}
+        return State(self.dims, amps, self.names, kept)
+
+    def _substitution_table(self, mapping: Mapping) -> dict:
+        by_name = {s.name: s for s in self.symbols}
+        by_name.update({p.name: p.symbol for p in self.params})
+        table = {}
+        for key, value in mapping.items():
+            name = key if isinstance(key, str) else key.name
+            if name not in by_name:
+                raise InputError(f"the state has no parameter named {name!r}")
+            table[by_name[name]] = sympy.sympify(value)
+        return table
+
+    def __repr__(self) -> str:
+        from .render.ketprint import ket_text
+        return f"State({ket_text(self)}; dims={self.dims})"
+
+
+def abs_squared(value: sympy.Expr) -> sympy.Expr:
+    """|value|^2 written without Abs where the assumptions allow."""
+    product = sympy.expand(value * sympy.conjugate(value))
+    if product.is_nonnegative is True or not product.has(sympy.conjugate):
+        return product
+    return sympy.Abs(value) ** 2
+
+
+def simplify_real(expr: sympy.Expr) -> sympy.Expr:
+    """Simplify a quantity known to be real (norms, traces, eigenvalues)."""
+    if not expr.free_symbols:
+        return sympy.nsimplify(expr) if expr.is_Float else sympy.radsimp(sympy.expand(expr))
+    result = sympy.simplify(expr)
+    return sympy.factor_terms(result)
+
+
+def product_state(factors: Iterable[Mapping[int, sympy.Expr]], dims: tuple[int, ...]) -> State:
+    """The tensor product of single-part states given as {level: amplitude}."""
+    amps: dict[tuple[int, ...], sympy.Expr] = {(): sympy.Integer(1)}
+    for factor in factors:
+        amps = {k + (level,): v * a for k, v in amps.items() for level, a in factor.items()}
+    return State(dims, amps)
