@@ -172,8 +172,10 @@ class State:
 
 def abs_squared(value: sympy.Expr) -> sympy.Expr:
     """|value|^2 written without Abs where the assumptions allow."""
+    if value.is_extended_real:
+        return value ** 2
     product = sympy.expand(value * sympy.conjugate(value))
-    if product.is_nonnegative is True or not product.has(sympy.conjugate):
+    if not product.has(sympy.conjugate, sympy.im, sympy.re):
         return product
     return sympy.Abs(value) ** 2
 

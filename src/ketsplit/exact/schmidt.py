@@ -39,19 +39,59 @@ def decompose_block(block: sympy.Matrix) -> list[Piece]:
         return [(s, u, w) for s, w, u in decompose_block(block.T)]
     if block.rows == 1 or is_rank_one(block):
         return [rank_one_piece(block)]
-    rho = hermitian_product(block)
     if block.rows == 2:
-        spectrum = two_by_two_spectrum(block, rho)
-    else:
-        spectrum = eigenvalues(rho)
+        return two_row_pieces(block)
+    rho = hermitian_product(block)
     pieces: list[Piece] = []
-    for value, multiplicity in spectrum:
+    for value, multiplicity in eigenvalues(rho):
         if is_zero(value):
             continue
         sigma = simplify_sigma(value)
         for u in eigenvectors(rho, value, multiplicity):
-            w = (block.T * u.conjugate()) / sigma
-            pieces.append((sigma, u, w.applyfunc(sympy.simplify)))
+            pieces.append((sigma, u, right_vector(block, u, sigma)))
+    return pieces
+
+
+def right_vector(block: sympy.Matrix, u: Vector, sigma: sympy.Expr) -> Vector:
+    """w = B^T conj(u) / sigma, the partner of the left Schmidt vector u."""
+    return ((block.T * u.conjugate()) / sigma).applyfunc(tidy)
+
+
+def two_row_pieces(block: sympy.Matrix) -> list[Piece]:
+    """Closed form for a 2 x n block, kept short for symbolic entries.
+
+    With w = sum |b_ij|^2 and D = sum over column pairs of |2x2 minor|^2
+    (Cauchy-Binet: D = det B B^dagger), the eigenvalues of B B^dagger are
+    (w +- sqrt(w^2 - 4 D)) / 2.  For rho = [[p, q], [conj(q), r]] the vector
+    (q, lambda - p) is an eigenvector of lambda whenever q != 0.
+    """
+    weight = sum((abs_squared(v) for v in block), sympy.Integer(0))
+    det = sum((abs_squared(block[0, a] * block[1, b] - block[0, b] * block[1, a])
+               for a, b in combinations(range(block.cols), 2)), sympy.Integer(0))
+    disc = tidy(weight ** 2 - 4 * det)
+    p = sum((abs_squared(v) for v in block[0, :]), sympy.Integer(0))
+    q = sum((block[0, k] * sympy.conjugate(block[1, k]) for k in range(block.cols)), sympy.Integer(0))
+    if is_zero(disc) or is_zero(sympy.expand(q)):
+        # rho is diagonal (or a multiple of the identity): the rows are orthogonal
+        return _orthogonal_rows(block)
+    pieces: list[Piece] = []
+    for sign in (1, -1):
+        value = (weight + sign * sympy.sqrt(disc)) / 2
+        sigma = simplify_sigma(value)
+        shift = tidy(value - p)
+        norm = sympy.sqrt(abs_squared(q) + shift ** 2)
+        u = sympy.Matrix([q / norm, shift / norm]).applyfunc(tidy)
+        pieces.append((sigma, u, right_vector(block, u, sigma)))
+    return pieces
+
+
+def _orthogonal_rows(block: sympy.Matrix) -> list[Piece]:
+    """Rows orthogonal: each row is one Schmidt piece with u the standard basis vector."""
+    pieces: list[Piece] = []
+    for r in (0, 1):
+        sigma = simplify_sigma(sum((abs_squared(v) for v in block[r, :]), sympy.Integer(0)))
+        u = sympy.Matrix([1 - r, r])
+        pieces.append((sigma, u, right_vector(block, u, sigma)))
     return pieces
 
 
@@ -69,15 +109,16 @@ def hermitian_product(block: sympy.Matrix) -> sympy.Matrix:
     return rho
 
 
-def two_by_two_spectrum(block: sympy.Matrix, rho: sympy.Matrix) -> list[tuple[sympy.Expr, int]]:
-    weight = simplify_real(rho[0, 0] + rho[1, 1])
-    det = simplify_real(sum((abs_squared(block[0, a] * block[1, b] - block[0, b] * block[1, a])
-                             for a, b in combinations(range(block.cols), 2)), sympy.Integer(0)))
-    disc = simplify_real(weight ** 2 - 4 * det)
-    if is_zero(disc):
-        return [(weight / 2, 2)]
-    root = sympy.sqrt(disc)
-    return [(simplify_real((weight + root) / 2), 1), (simplify_real((weight - root) / 2), 1)]
+def tidy(value: sympy.Expr) -> sympy.Expr:
+    """A cheap simplification: full ``simplify`` only for small expressions.
+
+    Large symbolic expressions are left as built (expanding them only makes
+    them longer), so that a generic symbolic state does not spend minutes in
+    heuristic simplification.
+    """
+    if sympy.count_ops(value) <= 40:
+        return sympy.simplify(value)
+    return value if value.free_symbols else sympy.radsimp(value)
 
 
 def is_zero(value: sympy.Expr) -> bool:
@@ -107,10 +148,10 @@ def rank_one_piece(block: sympy.Matrix) -> Piece:
     x_norm = sympy.sqrt(simplify_real(sum((abs_squared(v) for v in x), sympy.Integer(0))))
     y_norm = sympy.sqrt(simplify_real(sum((abs_squared(v) for v in y), sympy.Integer(0))))
     sigma = simplify_sigma(simplify_real(sum((abs_squared(v) for v in block), sympy.Integer(0))))
-    u = (x / x_norm).applyfunc(sympy.simplify)
-    w = (y / y_norm).applyfunc(sympy.simplify)
+    u = (x / x_norm).applyfunc(tidy)
+    w = (y / y_norm).applyfunc(tidy)
     if block.rows == 1:  # keep any phase on the right vector: the left one is then |i>
-        u, w = sympy.Matrix([[1]]), (block.T / sigma).applyfunc(sympy.simplify)
+        u, w = sympy.Matrix([[1]]), (block.T / sigma).applyfunc(tidy)
     return sigma, u, w
 
 
@@ -119,13 +160,13 @@ def simplify_sigma(eigenvalue: sympy.Expr) -> sympy.Expr:
     sigma = sympy.sqrt(eigenvalue)
     if not sigma.free_symbols:
         sigma = sympy.sqrtdenest(sympy.radsimp(sigma))
-    simplified = sympy.simplify(sigma)
+    simplified = tidy(sigma)
     return simplified if sympy.count_ops(simplified) <= sympy.count_ops(sigma) else sigma
 
 
 def eigenvectors(rho: sympy.Matrix, value: sympy.Expr, multiplicity: int) -> list[Vector]:
     """An orthonormal basis of the eigenspace of ``value`` (Gram-Schmidt, Hermitian product)."""
-    shifted = (rho - value * sympy.eye(rho.rows)).applyfunc(sympy.simplify)
+    shifted = (rho - value * sympy.eye(rho.rows)).applyfunc(tidy)
     basis = shifted.nullspace(simplify=True)
     if len(basis) < multiplicity:
         basis = adjugate_columns(shifted) if multiplicity == 1 else basis
@@ -139,7 +180,7 @@ def adjugate_columns(shifted: sympy.Matrix) -> list[Vector]:
     """A nonzero column of adj(rho - lambda I): an eigenvector when the eigenvalue is simple."""
     adjugate = shifted.adjugate()
     for j in range(adjugate.cols):
-        column = adjugate[:, j].applyfunc(sympy.simplify)
+        column = adjugate[:, j].applyfunc(tidy)
         if any(not is_zero(v) for v in column):
             return [column]
     return []
@@ -151,7 +192,7 @@ def orthonormalise(vectors: list[Vector]) -> list[Vector]:
         for u in done:
             v = v - u * (u.H * v)[0]
         norm = sympy.sqrt(simplify_real(sum((abs_squared(x) for x in v), sympy.Integer(0))))
-        done.append((v / norm).applyfunc(sympy.simplify))
+        done.append((v / norm).applyfunc(tidy))
     return done
 
 
