@@ -63,6 +63,17 @@ class Decomposition:
             pieces.append(f"{text(sigma)} ({left})({right})")
         return " + ".join(pieces)
 
+    def numeric(self, digits: int = 30, at=None) -> list[mpmath.mpf]:
+        """Certified Schmidt coefficients, descending, at the point ``at`` ({"t": value}).
+
+        Computed afresh in ball arithmetic on the smaller reduced state
+        (:mod:`ketsplit.numeric.schmidt`); every digit of each returned number
+        is certain.  Raises LimitError when the rank is undecided at the
+        precision ceiling.
+        """
+        from .numeric.schmidt import certified_values
+        return certified_values(self.state, self.cut, digits, at)
+
     def __repr__(self) -> str:
         from .render.ketprint import text
         coeffs = ", ".join(text(c) for c in self.coefficients)

@@ -5,14 +5,19 @@ from __future__ import annotations
 from ..cuts import CUT_PATTERN, join_names, reduced
 from ..decomposition import Decomposition, schmidt
 from ..render.report import Field, Kets, Note, Report, Table
+from ..numeric.strategy import exact_or_certified
+from ..numeric.values import exact_cell
+from .numeric import certified_report
 from .registry import COMMANDS, CommandCall, command
 
 
-def decomposition_report(d: Decomposition, name: str) -> Report:
+def decomposition_report(d: Decomposition, name: str, digits: int | None = None) -> Report:
+    """``digits``: show each irrational constant coefficient with that many certified digits."""
     cut_text = d.cut.describe(d.state)
     rows = []
     for k, (sigma, u, w) in enumerate(zip(d.coefficients, d.left, d.right), start=1):
-        rows.append((k, sigma, Kets(tuple(d.vector_terms(u, "left"))),
+        cell = exact_cell(sigma, digits) if digits else sigma
+        rows.append((k, cell, Kets(tuple(d.vector_terms(u, "left"))),
                      Kets(tuple(d.vector_terms(w, "right")))))
     left_names = join_names(d.state, d.cut.left)
     right_names = join_names(d.state, d.cut.right)
@@ -37,7 +42,11 @@ def _subject(call: CommandCall) -> str:
          "schmidt cos(t)|00> + sin(t)|11> 1|2")
 def run_schmidt(call: CommandCall) -> Report:
     state, cut = call.state_and_cut()
-    return decomposition_report(schmidt(state, cut), _subject(call))
+    settings = call.session.settings
+    outcome = exact_or_certified(state, cut, settings.exact_budget, settings.digits)
+    if outcome.exact is None:
+        return certified_report(outcome.certified, state, cut, _subject(call)).with_notes(*outcome.notes)
+    return decomposition_report(outcome.exact, _subject(call), settings.digits)
 
 
 @command("reduce", "reduce STATE PARTS [with NAME=VALUE, ...]",

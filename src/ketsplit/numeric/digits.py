@@ -1,0 +1,149 @@
+"""Decimal text of a ball that shows only certain digits.
+
+A ball [m +- r] (python-flint ``arb``) encloses an unknown real x.  A decimal
+D with k significant digits is *certain* when every point of the ball rounds
+to D at k digits, that is when the whole ball lies strictly inside the
+rounding cell (D - u/2, D + u/2), u being one unit in D's last place.  Then D
+is the correctly rounded value of x, whatever x is inside the ball.  An exact
+ball (r = 0) is rounded half to even.
+
+The test runs on the exact binary endpoints m - r and m + r as fractions, so
+no floating-point step can make a digit look certain when it is not.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+
+from flint import arb
+
+from ..render.report import Digits
+
+SCIENTIFIC_BELOW, SCIENTIFIC_FROM = -5, 7  # decimal exponents printed without e-notation
+
+
+@dataclass(frozen=True)
+class Rounded:
+    """A certain decimal: sign, k significant digits, and the power of ten of the first."""
+
+    negative: bool
+    digits: str       # k significant digits, without a point
+    exponent: int     # value = 0.d1 d2 ... dk * 10^(exponent + 1)
+
+    def text(self) -> str:
+        sign = "-" if self.negative else ""
+        head, tail = self.digits[0], self.digits[1:]
+        if SCIENTIFIC_BELOW <= self.exponent < min(SCIENTIFIC_FROM, len(self.digits)):
+            return sign + positional(self.digits, self.exponent)
+        mantissa = head + ("." + tail if tail else "")
+        return f"{sign}{mantissa}e{self.exponent}"
+
+
+def positional(digits: str, exponent: int) -> str:
+    """digits d1..dk with d1 at 10^exponent (exponent < k), written without an exponent."""
+    if exponent < 0:
+        return "0." + "0" * (-exponent - 1) + digits
+    point = exponent + 1
+    return digits[:point] + ("." + digits[point:] if digits[point:] else "")
+
+
+def exact_fraction(x: arb) -> Fraction:
+    mantissa, exponent = x.man_exp()
+    mantissa, exponent = int(mantissa), int(exponent)
+    return Fraction(mantissa * 2 ** exponent) if exponent >= 0 else Fraction(mantissa, 2 ** -exponent)
+
+
+def endpoints(ball: arb) -> tuple[Fraction, Fraction]:
+    """The exact lower and upper ends of the ball."""
+    mid, rad = exact_fraction(ball.mid()), exact_fraction(ball.rad())
+    return mid - rad, mid + rad
+
+
+def decimal_exponent(value: Fraction) -> int:
+    """floor(log10 |value|) for a nonzero fraction, exactly."""
+    value = abs(value)
+    guess = len(str(value.numerator)) - len(str(value.denominator))
+    while Fraction(10) ** guess > value:
+        guess -= 1
+    while Fraction(10) ** (guess + 1) <= value:
+        guess += 1
+    return guess
+
+
+def round_at(lo: Fraction, hi: Fraction, significant: int) -> Rounded | None:
+    """The k-digit decimal that every point of [lo, hi] rounds to, if there is one.
+
+    Rounding to k significant digits depends on each point's own decade, so a
+    ball across a power of ten 10^E is certain only as 10^E itself.
+    """
+    if lo <= 0 <= hi:
+        return None
+    negative = hi < 0
+    lo, hi = (-hi, -lo) if negative else (lo, hi)
+    low_exponent, exponent = decimal_exponent(lo), decimal_exponent(hi)
+    if low_exponent != exponent:
+        power = Fraction(10) ** exponent
+        below, above = power / 10 ** significant / 2, power / 10 ** (significant - 1) / 2
+        if low_exponent == exponent - 1 and power - below < lo and hi < power + above:
+            return Rounded(negative, "1" + "0" * (significant - 1), exponent)
+        return None
+    unit = Fraction(10) ** (exponent - significant + 1)
+    nearest = round((lo + hi) / 2 / unit)  # round half to even, exact
+    cell = (Fraction(2 * nearest - 1, 2) * unit, Fraction(2 * nearest + 1, 2) * unit)
+    inside = (cell[0] < lo and hi < cell[1]) or (lo == hi and cell[0] <= lo <= cell[1])
+    if not inside:
+        return None
+    text = str(nearest)
+    if len(text) > significant:  # the whole ball rounds up to the next power of ten
+        text, exponent = text[:significant], exponent + 1
+    return Rounded(negative, text, exponent)
+
+
+def certain_decimal(ball: arb, digits: int) -> Rounded | None:
+    """The longest certain decimal with at most ``digits`` significant digits, or None."""
+    if not ball.is_finite():
+        return None
+    lo, hi = endpoints(ball)
+    for significant in range(digits, 0, -1):
+        found = round_at(lo, hi, significant)
+        if found is not None:
+            return found
+    return None
+
+
+def zero_bound_text(ball: arb) -> str:
+    """'|x| < 3e-85' for a ball that contains zero: an upper bound, rounded up."""
+    _, hi = endpoints(abs(ball)) if ball.is_finite() else (None, None)
+    if hi is None:
+        return "not enclosed (the enclosure is not finite)"
+    if hi == 0:
+        return "0"
+    exponent = decimal_exponent(hi)
+    lead = -(-hi // Fraction(10) ** exponent)  # ceiling of the leading digit
+    if lead == 10:
+        lead, exponent = 1, exponent + 1
+    return f"|x| < {lead}e{exponent}"
+
+
+def certain_text(ball: arb, digits: int) -> str:
+    """The ball as decimal text with only certain digits (at most ``digits`` of them).
+
+    A ball that contains zero has no certain digit: its text is an upper
+    bound on the absolute value instead, such as ``|x| < 3e-85``.
+    """
+    if ball.is_exact() and ball.is_zero():
+        return "0"
+    found = certain_decimal(ball, digits)
+    return found.text() if found is not None else zero_bound_text(ball)
+
+
+def certain_count(ball: arb, digits: int) -> int:
+    """How many significant digits of the ball are certain (at most ``digits``; 0 if none)."""
+    found = certain_decimal(ball, digits)
+    return len(found.digits) if found is not None else 0
+
+
+def digits_cell(ball: arb, digits: int, exact=None) -> Digits:
+    """A report cell: the certain digits of ``ball``, beside its exact value when known."""
+    return Digits(certain_text(ball, digits), certain_count(ball, digits), exact)

@@ -1,0 +1,49 @@
+"""Certified digits of single exact numbers (coefficients, entropies, algebraic numbers)."""
+
+from __future__ import annotations
+
+import sympy
+from flint import arb
+
+from ..language.errors import InputError
+from ..render.report import Digits
+from ..session import MAX_DIGITS, MIN_DIGITS
+from .digits import certain_count, digits_cell
+from .enclose import enclose
+
+GUARD_BITS = 32
+MAX_DOUBLINGS = 5
+
+
+def check_digits(digits: int) -> int:
+    if isinstance(digits, bool) or not isinstance(digits, int) or not MIN_DIGITS <= digits <= MAX_DIGITS:
+        raise InputError(f"digits must be a whole number from {MIN_DIGITS} to {MAX_DIGITS}, "
+                         f"found {digits!r}")
+    return digits
+
+
+def certified_real(expr: sympy.Expr, digits: int) -> arb:
+    """A ball around the real number ``expr`` tight enough for ``digits`` certain digits.
+
+    The precision doubles until the digits are certain or the ceiling is met;
+    the last ball is returned either way (its certain digits say how far it got).
+    """
+    bits = int(digits * 3.33) + GUARD_BITS
+    for _ in range(MAX_DOUBLINGS + 1):
+        ball = enclose(expr, bits)
+        if not ball.imag.contains(0):
+            raise InputError(f"{sympy.sstr(expr)} is not a real number")
+        if certain_count(ball.real, digits) == digits:
+            break
+        bits *= 2
+    return ball.real
+
+
+def exact_cell(expr: sympy.Expr, digits: int):
+    """An exact number as a report cell: itself when rational, else with its certain digits."""
+    if not isinstance(expr, sympy.Expr) or not expr.is_number or expr.is_Rational:
+        return expr
+    return digits_cell(certified_real(expr, digits), digits, exact=expr)
+
+
+__all__ = ["certified_real", "exact_cell", "check_digits", "Digits"]

@@ -1,0 +1,204 @@
+"""Certified Schmidt coefficients and proved ranks (ketsplit.numeric), checked against the outside."""
+
+import random
+
+import mpmath
+import numpy
+import pytest
+
+import ketsplit
+from ketsplit import InputError, LimitError, Session
+from ketsplit.numeric.digits import endpoints
+from ketsplit.numeric.schmidt import certified_schmidt, certified_values
+
+
+def random_state_text(rows: int, cols: int, seed: int) -> tuple[str, list[list[complex]]]:
+    """A dense state with complex integer amplitudes (labels with commas, any dimension)."""
+    rng = random.Random(seed)
+    matrix = [[complex(rng.randint(-9, 9), rng.randint(-9, 9)) for _ in range(cols)] for _ in range(rows)]
+    terms = [f"({int(z.real)} + {int(z.imag)} i)|{i},{j}>" for i, row in enumerate(matrix)
+             for j, z in enumerate(row)]
+    return " + ".join(terms), matrix
+
+
+def reference_coefficients(matrix, dps: int) -> list[mpmath.mpf]:
+    """Reference library: mpmath.svd_c at ``dps`` digits, normalised by the Frobenius norm."""
+    with mpmath.workdps(dps):
+        a = mpmath.matrix([[mpmath.mpc(z.real, z.imag) for z in row] for row in matrix])
+        values = mpmath.svd_c(a, compute_uv=False)
+        norm = mpmath.sqrt(sum(abs(a[i, j]) ** 2 for i in range(a.rows) for j in range(a.cols)))
+        return sorted((values[k] / norm for k in range(len(values))), reverse=True)
+
+
+def agrees(text: str, reference: mpmath.mpf, digits: int) -> bool:
+    """The printed decimal is the reference's rounding to ``digits`` places (within half a unit)."""
+    with mpmath.workdps(digits + 30):
+        unit = mpmath.mpf(10) ** (mpmath.floor(mpmath.log10(reference)) - digits + 1)
+        return abs(mpmath.mpf(text) - reference) <= unit / 2
+
+
+@pytest.mark.parametrize("shape,seed", [((3, 3), 1), ((4, 6), 2), ((7, 5), 3)])
+def test_random_dense_states_agree_with_mpmath_svd(shape, seed):
+    text, matrix = random_state_text(*shape, seed)
+    result = certified_schmidt(ketsplit.ket(text), "1|2", 30)
+    reference = reference_coefficients(matrix, 70)
+    assert result.rank == min(shape) and result.complete
+    for printed, ref in zip(result.texts(), reference):
+        assert agrees(printed, ref, 30)
+
+
+def test_agreement_with_numpy_in_float64():
+    # reference library: numpy's float64 SVD, accurate to ~1e-13 relative for a well-conditioned matrix
+    text, matrix = random_state_text(12, 12, 7)
+    result = certified_schmidt(ketsplit.ket(text), "1|2", 15)
+    array = numpy.array(matrix)
+    expected = numpy.linalg.svd(array / numpy.linalg.norm(array), compute_uv=False)
+    got = numpy.array([float(v) for v in result.values()])
+    assert numpy.allclose(got, expected, rtol=1e-12, atol=0)
+
+
+def test_two_mode_squeezed_vacuum_truncated():
+    # quantum optics textbook fact: the two-mode squeezed vacuum is sum_n tanh(r)^n |n,n> / cosh(r),
+    # so truncated at N its Schmidt coefficients are tanh(r)^n / sqrt(sum_{m<=N} tanh(r)^(2m))
+    state = ketsplit.ket("sum(n=0..6, tanh(r)^n |n,n>)", positive="r")
+    result = certified_schmidt(state, "1|2", 40, at={"r": "1/2"})
+    with mpmath.workdps(80):
+        t = mpmath.tanh(mpmath.mpf(1) / 2)
+        norm = mpmath.sqrt(sum(t ** (2 * m) for m in range(7)))
+        expected = [t ** n / norm for n in range(7)]
+    assert result.rank == 7
+    for printed, ref in zip(result.texts(), expected):
+        assert agrees(printed, ref, 40)
+
+
+def test_enclosures_contain_the_closed_form():
+    # fact of the trade: cos(t)|00> + sin(t)|11> has coefficients cos(t), sin(t) for 0 < t < pi/4
+    state = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t", ranges={"t": (0, "pi")})
+    result = certified_schmidt(state, "1|2", 50, at={"t": "pi/7"})
+    with mpmath.workdps(120):
+        exact = [mpmath.cos(mpmath.pi / 7), mpmath.sin(mpmath.pi / 7)]  # accurate to ~1e-120
+    with mpmath.workdps(150):
+        for ball, ref in zip(result.coefficients, exact):
+            low, high = endpoints(ball)
+            assert mpmath.mpf(low.numerator) / low.denominator <= ref
+            assert ref <= mpmath.mpf(high.numerator) / high.denominator
+
+
+def test_tiny_coefficient_is_rank_two():
+    # the issue's example: |00> + 10^(-40)|11> has rank 2, coefficients 1/sqrt(1+1e-80) and 1e-40/...
+    result = certified_schmidt(ketsplit.ket("|00> + 10^(-40)|11>"), None, 30)
+    assert result.rank == 2
+    assert result.texts()[1] == "1.00000000000000000000000000000e-40"
+
+
+def test_near_zero_coefficient_where_float64_fails():
+    # C = [[1, 1], [1, 1 + e]]: det = e, |C|^2 = 4 + 2e + e^2, so sigma1*sigma2 = e / |C|^2 and the
+    # small coefficient is about e/4 (exact: from the 2x2 eigenvalue formula, computed by mpmath)
+    e = mpmath.mpf(10) ** -30
+    result = certified_schmidt(ketsplit.ket("|00> + |01> + |10> + (1 + 10^(-30))|11>"), None, 25)
+    with mpmath.workdps(120):
+        e = mpmath.mpf(10) ** -30
+        w = 4 + 2 * e + e * e
+        small = mpmath.sqrt((1 - mpmath.sqrt(1 - 4 * e * e / (w * w))) / 2)
+    assert result.rank == 2 and agrees(result.texts()[1], small, 25)
+    float_small = numpy.linalg.svd(numpy.array([[1, 1], [1, 1 + 1e-30]]) / 2, compute_uv=False)[1]
+    assert not abs(float_small - float(small)) < 1e-3 * float(small)  # float64 cannot see it
+
+
+def test_near_degenerate_coefficients_where_float64_fails():
+    # C = [[1, e], [0, 1]]: singular values sqrt(1 + e^2/2 +- e sqrt(1 + e^2/4)), split by about e
+    result = certified_schmidt(ketsplit.ket("|00> + 10^(-25)|01> + |11>"), None, 40)
+    with mpmath.workdps(120):
+        e = mpmath.mpf(10) ** -25
+        norm = mpmath.sqrt(2 + e * e)
+        big = mpmath.sqrt(1 + e * e / 2 + e * mpmath.sqrt(1 + e * e / 4)) / norm
+        small = mpmath.sqrt(1 + e * e / 2 - e * mpmath.sqrt(1 + e * e / 4)) / norm
+    assert [agrees(t, r, 40) for t, r in zip(result.texts(), (big, small))] == [True, True]
+    assert result.texts()[0] != result.texts()[1]
+    float_pair = numpy.linalg.svd(numpy.array([[1, 1e-25], [0, 1]]), compute_uv=False)
+    assert float_pair[0] == float_pair[1]  # float64 cannot tell them apart
+
+
+def test_maximally_entangled_repeated_coefficients():
+    # fact of the trade: (|00> + |11> + |22>)/sqrt(3) rotated locally keeps three coefficients 1/sqrt(3)
+    state = ketsplit.ket("(|0>+|1>)(|0>+|1>) + (|0>-|1>)(|0>-|1>) + 2|22>")
+    result = certified_schmidt(state, None, 30)
+    with mpmath.workdps(60):
+        third = mpmath.sqrt(mpmath.mpf(1) / 3)
+    assert result.rank == 3 and all(agrees(t, third, 30) for t in result.texts())
+
+
+def test_exact_zero_is_proved_by_exact_rank():
+    # a rank-one block written as a sum of four kets: (|0>+|1>)(|0>+2|1>), plus an orthogonal term
+    result = certified_schmidt(ketsplit.ket("(|0>+|1>)(|0>+2|1>) + |22> + sqrt(2)|33>"), None, 20)
+    assert result.rank == 3 and result.zeros == 1  # the rank-one 2x2 block has one exact zero
+    dense = certified_schmidt(ketsplit.ket("(|0>+|1>+|2>)(|0>+2|1>+3|2>)"), None, 20)
+    assert dense.rank == 1
+
+
+def test_rank_one_block_with_transcendental_entries():
+    # proportional rows cos(1)(1, 1) and sin(1)(1, 1): a rank-one block, proved without exact rank
+    result = certified_schmidt(ketsplit.ket("cos(1)|00>+cos(1)|01>+sin(1)|10>+sin(1)|11>"), None, 20)
+    assert result.rank == 1
+
+
+def test_hidden_zero_is_undecided():
+    # cos(1)^2 + sin(1)^2 - 1 is zero, but not in a domain with a decidable zero test
+    result = certified_schmidt(ketsplit.ket("|00> + (cos(1)^2 + sin(1)^2 - 1)|11>"), None, 10)
+    assert result.rank is None and result.rank_bounds == (1, 2)
+    assert "undecided at this precision" in result.rank_text()
+    with pytest.raises(LimitError, match="undecided"):
+        certified_values(ketsplit.ket("|00> + (cos(1)^2 + sin(1)^2 - 1)|11>"), None, 10)
+
+
+def test_decomposition_numeric_at_a_point():
+    # fact of the trade: coefficients of cos(t)|00> + sin(t)|11> at t = pi/3 are sin, cos of pi/3
+    state = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t")
+    values = ketsplit.schmidt(state, "1|2").numeric(digits=25, at={"t": "pi/3"})
+    with mpmath.workdps(60):
+        assert abs(values[0] - mpmath.sqrt(3) / 2) < mpmath.mpf(10) ** -25
+        assert abs(values[1] - mpmath.mpf(1) / 2) < mpmath.mpf(10) ** -25
+
+
+def test_bad_points_and_digits_are_input_errors():
+    state = ketsplit.ket("cos(t)|00> + exp(i phi) sin(t)|11>", real="t phi",
+                         ranges={"t": (0, "pi/2")})
+    with pytest.raises(InputError, match="phi"):
+        certified_schmidt(state, None, 20, at={"t": "1/2"})
+    with pytest.raises(InputError, match="outside its declared range"):
+        certified_schmidt(state, None, 20, at={"t": 3, "phi": 0})
+    with pytest.raises(InputError, match="no parameter named 'x'"):
+        certified_schmidt(state, None, 20, at={"x": 1, "t": 0, "phi": 0})
+    for digits in (4, 10001):
+        with pytest.raises(InputError, match="digits"):
+            certified_schmidt(ketsplit.ket("|00>+|11>"), None, digits)
+    with pytest.raises(InputError) as err:
+        Session().run("digits 4")
+    assert err.value.line == 1 and err.value.column is not None
+
+
+def test_numeric_statement_reports_rank_and_only_certain_digits():
+    out = Session().run("numeric |00> + 10^(-40)|11> 1|2")[0].text()
+    assert "rank: 2" in out and "1.00000000000000000000000000000e-40" in out
+    undecided = Session().run("digits 8; numeric |00> + (cos(1)^2 + sin(1)^2 - 1)|11>")[1].text()
+    assert "undecided at this precision" in undecided and "|x| < " in undecided
+
+
+def test_schmidt_falls_back_to_certified_numbers_and_says_so():
+    text, _ = random_state_text(3, 3, 5)
+    session = Session()
+    results = session.run(f"budget 0\nschmidt {text}")
+    out = results[1].text()
+    assert "certified numeric" in out and "switched off" in out
+    with pytest.raises(InputError, match="budget"):
+        session.run("budget -1")
+    with pytest.raises(InputError, match="need a value for t"):
+        session.run("schmidt cos(t)|00> + sin(t)|01> + |10>")
+
+
+def test_exact_algebraic_coefficients_print_with_certified_digits():
+    # fact of the trade: sqrt(2)|00> + |11> has coefficients sqrt(2/3) and sqrt(1/3)
+    out = Session().run("schmidt sqrt(2)|00> + |11>")[0].text()
+    with mpmath.workdps(50):
+        expected = mpmath.nstr(mpmath.sqrt(mpmath.mpf(2) / 3), 30, strip_zeros=False)
+    assert f"≈ {expected}" in out
