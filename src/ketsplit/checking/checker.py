@@ -1,0 +1,45 @@
+"""The entry point: ``check(lhs, rhs)`` for text, States, matrices or numbers."""
+
+from __future__ import annotations
+
+from typing import Iterable, Mapping
+
+from ..states import Parameter
+from .decide import BUDGET, Difference, Options, decide
+from .points import domain_text
+from .sides import equality, mismatch, parameters, phase_equality, side_of
+from .verdict import Verdict
+
+
+def check(lhs, rhs, *, real: str | Iterable[str] = (), positive: str | Iterable[str] = (),
+          complex: str | Iterable[str] = (), ranges: Mapping[str, tuple] | None = None,
+          up_to_phase: bool = False, digits: int = 30, budget: float = BUDGET) -> Verdict:
+    """Does ``lhs = rhs`` hold for every value of the parameters (``up_to_phase``: lhs ~ rhs)?
+
+    Sides are state-language text (kets, numbers, matrices ``[[a, b], [c, d]]``),
+    States, sympy matrices or expressions.  Undeclared names are complex.
+    ``budget`` is in seconds; past it the verdict is undecided (holds = None).
+    """
+    from ..api import session_for
+    session = session_for(real=real, positive=positive, complex=complex, ranges=ranges)
+    values = [session.evaluate(side) if isinstance(side, str) else side for side in (lhs, rhs)]
+    declared = dict(session.params)
+    for value in values:
+        declared.update({p.name: p for p in getattr(value, "params", ())})
+    return compare_values(values[0], values[1], declared, up_to_phase, Options(digits, budget))
+
+
+def compare_values(lhs, rhs, declared: Mapping[str, Parameter], up_to_phase: bool,
+                   options: Options) -> Verdict:
+    """The verdict on two built values (KetValue, State, matrix, number)."""
+    left, right = side_of(lhs), side_of(rhs)
+    params = parameters(left.symbols() | right.symbols(), declared)
+    why = mismatch(left, right)
+    if why is not None:
+        return Verdict(False, "sizes", why, domain_text(params))
+    build = phase_equality if up_to_phase else equality
+    return decide_difference(build(left, right, params), options)
+
+
+def decide_difference(difference: Difference, options: Options) -> Verdict:
+    return decide(difference, options)

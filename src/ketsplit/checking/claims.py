@@ -1,0 +1,208 @@
+"""Claims about a state: its reduced state, its Schmidt coefficients, its Schmidt rank.
+
+Each claim becomes identities that :mod:`.decide` can test, built from the
+coefficient matrix C across the cut and G = C C^dagger on the smaller side
+(so rho = G / N with N = tr G, the squared norm: claims refer to the
+normalised state, as ``schmidt`` and ``reduce`` do).
+
+* reduced state M on the kept parts: G / N - M = 0 entry by entry;
+* Schmidt coefficients c_1..c_r (any order): tr(rho^j) = sum_k c_k^(2j) for
+  j = 1..m (m the dimension of the smaller side; by Newton's identities the
+  power sums fix the multiset of eigenvalues), and c_k - |c_k| = 0 (each
+  claimed coefficient is real and nonnegative);
+* Schmidt rank r: every (r+1)x(r+1) minor of C vanishes identically, and not
+  every r x r minor does.  Numerically e_k(G), the k-th elementary symmetric
+  function of the eigenvalues of G, is the sum of |k x k minors of C|^2
+  (Cauchy-Binet), so one certified number per point stands for all minors.
+"""
+
+from __future__ import annotations
+
+from itertools import combinations
+from math import comb
+
+import flint
+import sympy
+
+from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
+from ..language.errors import InputError
+from ..states import Parameter, State
+from .evaluation import values_at
+from .decide import Difference, Entry, Options, Point, decide
+from .sides import paired_difference
+from .verdict import Verdict
+
+MAX_EXACT_SIDE = 6       # power sums of G are tried exactly up to this side dimension
+MAX_EXACT_MINORS = 400   # minors listed exactly up to this many
+
+
+def smaller_side(state: State, cut: Cut) -> Cut:
+    """The cut with its smaller side on the left (rows of C)."""
+    if side_dimension(state, cut.left) <= side_dimension(state, cut.right):
+        return cut
+    return cut.swapped()
+
+
+def gram(state: State, cut: Cut) -> tuple[sympy.Matrix, sympy.Expr]:
+    """G = C C^dagger over the rows of ``cut.left``, unsimplified, and N = tr G."""
+    matrix = CoefficientMatrix(state, cut)
+    size = matrix.shape[0]
+    check_dense(size * size, "reduced density matrix")
+    by_column: dict[int, list[tuple[int, sympy.Expr]]] = {}
+    for (i, j), value in matrix.entries.items():
+        by_column.setdefault(j, []).append((i, value))
+    g = sympy.zeros(size, size)
+    for column in by_column.values():
+        for i, a in column:
+            for j, b in column:
+                g[i, j] += a * sympy.conjugate(b)
+    return g, sympy.Add(*(g[i, i] for i in range(size)))
+
+
+def reduced_claim(state: State, keep: tuple[int, ...], claimed: sympy.Matrix,
+                  params: tuple[Parameter, ...]) -> Difference:
+    rest = tuple(p for p in range(state.nparts) if p not in keep)
+    g, norm2 = gram(state, Cut(keep, rest))
+    pairs = [(f"entry ({i + 1}, {j + 1})", g[i, j] / norm2, claimed[i, j])
+             for i in range(g.rows) for j in range(g.cols) if g[i, j] != 0 or claimed[i, j] != 0]
+    return paired_difference(pairs, params, "rho - claimed")
+
+
+def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
+                  params: tuple[Parameter, ...]) -> Difference:
+    cut = smaller_side(state, cut)
+    g, norm2 = gram(state, cut)
+    m = g.rows
+    if len(claimed) > m:
+        raise InputError(f"{len(claimed)} coefficients are claimed, but the smaller side of the "
+                         f"cut has dimension {m}, so there are at most {m}")
+    squares = [c * sympy.conjugate(c) for c in claimed]
+    claimed_sums = [sympy.Add(*(s ** j for s in squares)) for j in range(1, m + 1)]
+    labels = ["tr(rho) - sum c^2"] + [f"tr(rho^{j}) - sum c^{2 * j}" for j in range(2, m + 1)]
+    labels += [f"c{k + 1} - |c{k + 1}| (coefficient {k + 1} must be >= 0)" for k in range(len(claimed))]
+    signs = [c - sympy.Abs(c) for c in claimed]
+    exact, skipped = _power_sum_identities(g, norm2, claimed_sums)
+    amplitudes = state.terms()
+
+    def numeric(point: Point, prec: int) -> list[Entry]:
+        values = values_at([a for _, a in amplitudes] + claimed_sums + signs, point, prec)
+        count = len(amplitudes)
+        with flint.ctx.workprec(prec):
+            rho = _numeric_rho(state, cut, dict(zip((k for k, _ in amplitudes), values[:count])))
+            sums = _power_sums(rho, m)
+            entries = [Entry(labels[j], sums[j] - values[count + j], abs(sums[j]) + abs(values[count + j]))
+                       for j in range(m)]
+            entries += [Entry(labels[m + k], values[count + m + k], flint.arb(1))
+                        for k in range(len(claimed))]
+        return entries
+
+    return Difference(tuple(exact + signs) if not skipped else (), numeric, params, "", skipped)
+
+
+def _power_sum_identities(g: sympy.Matrix, norm2: sympy.Expr, claimed_sums: list[sympy.Expr]):
+    if g.rows > MAX_EXACT_SIDE:
+        return [], f"the exact path was skipped: the smaller side has dimension {g.rows} > {MAX_EXACT_SIDE}"
+    identities, power = [], sympy.eye(g.rows)
+    for j, claimed in enumerate(claimed_sums, start=1):
+        power = (power * g).applyfunc(sympy.expand)
+        identities.append(power.trace() - norm2 ** j * claimed)
+    return identities, ""
+
+
+def _numeric_rho(state: State, cut: Cut, amplitudes: dict) -> flint.acb_mat:
+    """rho = C C^dagger / tr(C C^dagger) in balls, C on the rows of ``cut.left``."""
+    from ..cuts import side_index
+    size = side_dimension(state, cut.left)
+    by_column: dict[int, list[tuple[int, flint.acb]]] = {}
+    for label, value in amplitudes.items():
+        i = side_index(label, cut.left, state.dims)
+        by_column.setdefault(side_index(label, cut.right, state.dims), []).append((i, value))
+    g = [[flint.acb(0)] * size for _ in range(size)]
+    for column in by_column.values():
+        for i, a in column:
+            for j, b in column:
+                g[i][j] += a * b.conjugate()
+    trace = sum((g[i][i] for i in range(size)), flint.acb(0))
+    return flint.acb_mat([[g[i][j] / trace for j in range(size)] for i in range(size)])
+
+
+def _power_sums(rho: flint.acb_mat, m: int) -> list[flint.acb]:
+    sums, power = [], rho
+    for j in range(m):
+        if j:
+            power = power * rho
+        sums.append(power.trace())
+    return sums
+
+
+def elementary(rho: flint.acb_mat, k: int) -> flint.acb:
+    """e_k of the eigenvalues: (-1)^k times the coefficient of x^(m-k) in det(x - rho)."""
+    coefficients = rho.charpoly().coeffs()
+    m = rho.nrows()
+    return (-1) ** k * coefficients[m - k] if k <= m else flint.acb(0)
+
+
+def rank_claim(state: State, cut: Cut, rank: int, params: tuple[Parameter, ...],
+               options: Options) -> Verdict:
+    """Schmidt rank ``rank``: minors of size rank+1 all vanish, those of size rank do not."""
+    cut = smaller_side(state, cut)
+    m = side_dimension(state, cut.left)
+    if rank < 1 or rank > m:
+        return Verdict(False, "sizes", f"a Schmidt rank lies between 1 and {m} (the dimension of "
+                                       f"the smaller side), not {rank}")
+    above = decide(_minor_difference(state, cut, rank + 1, params), options) if rank < m else None
+    if above is not None and above.holds is not True:
+        return above if above.holds is None else _rank_above(above, rank)
+    at = decide(_minor_difference(state, cut, rank, params), options)
+    if at.holds is False:
+        point = _point_text(at)
+        if above is None:
+            return Verdict(True, "certified point", f"{rank} is the largest rank possible and "
+                                                    f"it is reached{point}", at.domain)
+        return Verdict(True, above.method, f"minors of size {rank + 1} vanish identically; "
+                                           f"those of size {rank} do not{point}", at.domain)
+    if at.holds is True:
+        return Verdict(False, at.method, f"every {rank}x{rank} minor of the coefficient matrix "
+                                         f"vanishes identically: the rank is below {rank}",
+                       at.domain)
+    return at
+
+
+def _point_text(verdict: Verdict) -> str:
+    from ..render.ketprint import text
+    values = [f"{k} = {text(v)}" for k, v in (verdict.counterexample or {}).items()
+              if isinstance(v, sympy.Basic)]
+    return f" (at {', '.join(values)})" if values else ""
+
+
+def _rank_above(verdict: Verdict, rank: int) -> Verdict:
+    return Verdict(False, verdict.method, f"the Schmidt rank exceeds {rank} at this point",
+                   verdict.domain, verdict.counterexample, verdict.digits, verdict.quantity)
+
+
+def _minor_difference(state: State, cut: Cut, size: int, params: tuple[Parameter, ...]) -> Difference:
+    matrix = CoefficientMatrix(state, cut)
+    rows = sorted({i for i, _ in matrix.entries})
+    cols = sorted({j for _, j in matrix.entries})
+    count = comb(len(rows), size) * comb(len(cols), size)
+    exact: tuple[sympy.Expr, ...] = ()
+    skipped = ""
+    if count > MAX_EXACT_MINORS:
+        skipped = f"the exact path was skipped: {count} minors of size {size}"
+    else:
+        dense = matrix.block_matrix(rows, cols)
+        exact = tuple(dense.extract(list(r), list(c)).det()
+                      for r in combinations(range(len(rows)), size)
+                      for c in combinations(range(len(cols)), size))
+        if not exact:
+            exact = (sympy.Integer(0),)
+    amplitudes = state.terms()
+    label = f"sum of |{size}x{size} minors|^2 of the normalised coefficient matrix"
+
+    def numeric(point: Point, prec: int) -> list[Entry]:
+        values = values_at([a for _, a in amplitudes], point, prec)
+        with flint.ctx.workprec(prec):
+            rho = _numeric_rho(state, cut, dict(zip((k for k, _ in amplitudes), values)))
+            return [Entry(label, elementary(rho, size), flint.arb(1))]
+
+    return Difference(exact, numeric, params, "", skipped)

@@ -1,0 +1,57 @@
+"""The answer to "does my derivation hold?": a small immutable value."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import sympy
+
+DIFFERENCE = "lhs - rhs"   # counterexample key of the certified difference (never a parameter name)
+WHERE = "at"               # counterexample key of the entry that differs
+
+
+@dataclass(frozen=True)
+class Verdict:
+    """``holds`` is True, False, or None (undecided within the budget).
+
+    ``counterexample`` maps parameter names to exact values, and the keys
+    ``"lhs - rhs"`` (the certified difference there, as text) and ``"at"``
+    (which entry differs) when a point refutes the claim.
+    """
+
+    holds: bool | None
+    method: str
+    reason: str
+    domain: str = ""                   # 'real t in [0, pi]', for the line
+    counterexample: dict | None = None
+    digits: int = 0                    # certified digits in the difference (0: exact)
+    quantity: str = DIFFERENCE         # what the difference is of, for the line
+    notes: tuple[str, ...] = field(default=())
+
+    def line(self) -> str:
+        """A verdict a user can paste into notes."""
+        if self.holds is True:
+            where = f" for all {self.domain}" if self.domain else ""
+            return f"holds{where} ({self.method})"
+        if self.holds is False:
+            return "fails" + self._failure()
+        return f"undecided: {self.reason}"
+
+    def _failure(self) -> str:
+        if not self.counterexample:
+            return f": {self.reason}"
+        point = ", ".join(f"{k} = {_value_text(v)}" for k, v in self.counterexample.items()
+                          if k not in (DIFFERENCE, WHERE))
+        at = f" at {self.counterexample[WHERE]}" if self.counterexample.get(WHERE) else ""
+        difference = self.counterexample.get(DIFFERENCE, "")
+        digits = "exact" if self.digits == 0 else f"{self.digits} digits"
+        head = f" at {point}" if point else ""
+        return f"{head}: {self.quantity}{at} = {difference} ({digits})"
+
+    def __str__(self) -> str:
+        return self.line()
+
+
+def _value_text(value) -> str:
+    from ..render.ketprint import text
+    return text(value) if isinstance(value, sympy.Basic) else str(value)

@@ -1,0 +1,216 @@
+"""ketsplit.check on identities: exact proofs, certified counterexamples, global phases.
+
+Every refutation is re-checked here independently: the counterexample point
+is fed to mpmath (a reference library, at 60 digits) with the two sides
+written out by hand, and the printed certified difference must agree with it.
+"""
+
+import re
+
+import mpmath
+import pytest
+import sympy
+
+import ketsplit
+from ketsplit.checking import Verdict, check
+from ketsplit.checking.verdict import DIFFERENCE
+
+mpmath.mp.dps = 60
+
+
+def mp_value(value):
+    """An exact sympy number (rational or Gaussian rational) as an mpmath number."""
+    re_part, im_part = sympy.sympify(value).as_real_imag()
+    real = mpmath.mpf(int(re_part.p)) / int(re_part.q)
+    imag = mpmath.mpf(int(im_part.p)) / int(im_part.q)
+    return mpmath.mpc(real, imag)
+
+
+def printed_value(text):
+    """The printed certified difference ('0.12', '-1.5 - 2.25 i', '6/49') as a number."""
+    if "/" in text and "i" not in text:
+        numerator, denominator = text.split("/")
+        return mpmath.mpf(int(numerator)) / int(denominator)
+    total = mpmath.mpc(0)
+    for sign, number, unit in re.findall(r"([+-]?)\s*([0-9.]+(?:e-?[0-9]+)?)\s*(i?)", text):
+        value = mpmath.mpf(number) * (-1 if sign == "-" else 1)
+        total += value * (1j if unit else 1)
+    return total
+
+
+def assert_refuted(verdict: Verdict, reference):
+    """The verdict fails, and mpmath's own difference at its point matches the printed one."""
+    assert verdict.holds is False, verdict.line()
+    point = {k: mp_value(v) for k, v in verdict.counterexample.items()
+             if isinstance(v, sympy.Basic)}
+    expected = reference(**point)
+    assert abs(expected) > mpmath.mpf(10) ** -40, "the reference difference must be nonzero"
+    shown = printed_value(verdict.counterexample[DIFFERENCE])
+    tolerance = mpmath.mpf(10) ** (-(verdict.digits - 1)) * abs(expected) if verdict.digits else \
+        mpmath.mpf(10) ** -50
+    assert abs(shown - expected) <= tolerance, (verdict.line(), expected)
+
+
+# -- identities that hold for real parameters only -------------------------
+
+def test_double_angle_holds_for_real_angles():
+    # cos 2t = cos^2 t - sin^2 t (double-angle formula; fact of the trade), moduli taken
+    verdict = check("abs(cos(t))^2 - abs(sin(t))^2", "cos(2t)", real="t")
+    assert verdict.holds is True and verdict.method == "exact"
+    assert verdict.line() == "holds for all real t (exact)"
+
+
+def test_double_angle_with_moduli_fails_for_complex_angles():
+    # |cos t|^2 - |sin t|^2 = cos(2 Re t) cosh... differs from cos 2t off the real axis
+    verdict = check("abs(cos(t))^2 - abs(sin(t))^2", "cos(2t)")
+    assert_refuted(verdict, lambda t: abs(mpmath.cos(t)) ** 2 - abs(mpmath.sin(t)) ** 2
+                   - mpmath.cos(2 * t))
+
+
+def test_sine_double_angle_holds_even_for_complex_angles():
+    # sin 2t = 2 sin t cos t is a polynomial identity in exp(it) (fact of the trade)
+    assert check("sin(2t)", "2 sin(t) cos(t)").holds is True
+
+
+def test_euler_conjugate_form_needs_a_real_angle():
+    # conj(exp(it)) = cos t - i sin t (Euler's formula, real t; fact of the trade)
+    assert check("conj(exp(i t))", "cos(t) - i sin(t)", real="t").holds is True
+    verdict = check("conj(exp(i t))", "cos(t) - i sin(t)")
+    assert_refuted(verdict, lambda t: mpmath.conj(mpmath.exp(1j * t))
+                   - (mpmath.cos(t) - 1j * mpmath.sin(t)))
+
+
+def test_unit_modulus_of_a_phase_needs_a_real_angle():
+    # |exp(i phi)| = 1 for real phi only (fact of the trade)
+    assert check("abs(exp(i phi))", "1", real="phi").holds is True
+    verdict = check("abs(exp(i phi))", "1")
+    assert_refuted(verdict, lambda phi: abs(mpmath.exp(1j * phi)) - 1)
+
+
+def test_euler_formula_itself_holds_for_complex_arguments():
+    # exp(iz) = cos z + i sin z for every complex z (fact of the trade)
+    verdict = check("exp(i z)", "cos(z) + i sin(z)")
+    assert verdict.holds is True and verdict.line() == "holds for all complex z (exact)"
+
+
+# -- deliberately wrong derivations ----------------------------------------
+
+def test_wrong_sign_is_refuted_with_a_point():
+    # (a + b)^2 = a^2 + b^2 is the classic slip: the difference is 2ab
+    verdict = check("(a + b)^2", "a^2 + b^2", real="a b")
+    assert_refuted(verdict, lambda a, b: 2 * a * b)
+    assert verdict.digits == 0  # a rational point of a polynomial: the difference is exact
+
+
+def test_sign_slip_in_a_state():
+    verdict = check("cos(t)|00> + sin(t)|11>", "cos(t)|00> - sin(t)|11>", real="t")
+    assert verdict.counterexample["at"] == "|11>"
+    assert_refuted(verdict, lambda t: 2 * mpmath.sin(t))
+
+
+def test_missing_sqrt2_is_refuted():
+    # the Bell state needs 1/sqrt(2): (|00>+|11>) is not normalised (fact of the trade)
+    verdict = check("(|00> + |11>)/sqrt(2)", "(|00> + |11>)/2")
+    assert verdict.holds is False and verdict.counterexample["at"] in ("|00>", "|11>")
+    assert abs(printed_value(verdict.counterexample[DIFFERENCE])
+               - (1 / mpmath.sqrt(2) - mpmath.mpf(1) / 2)) < mpmath.mpf(10) ** -29
+    assert verdict.line().startswith("fails: lhs - rhs at |00> = 0.2071067811865475244")
+
+
+def test_swapped_coefficients_are_refuted():
+    verdict = check("cos(t)|00> + sin(t)|11>", "sin(t)|00> + cos(t)|11>", real="t",
+                    ranges={"t": (0, "pi/2")})
+    assert_refuted(verdict, lambda t: mpmath.cos(t) - mpmath.sin(t))
+    t = verdict.counterexample["t"]
+    assert 0 < t < sympy.pi / 2 and t.is_Rational  # an exact point inside the declared range
+
+
+# -- global phases -----------------------------------------------------------
+
+def test_global_phase_is_ignored_by_tilde():
+    # states differing by exp(i phi), phi real, are the same ray (fact of the trade)
+    verdict = check("exp(i phi)(cos(t)|00> + sin(t)|11>)", "cos(t)|00> + sin(t)|11>",
+                    real="t phi", up_to_phase=True)
+    assert verdict.holds is True
+    assert check("exp(i phi)(|00> + |11>)", "|00> + |11>", real="phi").holds is False
+
+
+def test_minus_and_i_are_global_phases():
+    assert check("-(|01> - |10>)", "|10> - |01>", up_to_phase=True).holds is True
+    assert check("i (|0> + |1>)", "|0> + |1>", up_to_phase=True).holds is True
+
+
+def test_relative_phase_is_not_global():
+    # |+> and (|0> + i|1>)/sqrt2 are different states (fact of the trade)
+    verdict = check("|0> + |1>", "|0> + i |1>", up_to_phase=True)
+    assert verdict.holds is False and "|lhs><lhs|" in verdict.line()
+
+
+def test_phase_with_a_complex_angle_is_not_a_phase():
+    verdict = check("exp(i phi) |0>", "|0>", up_to_phase=True)
+    assert_refuted(verdict, lambda phi: abs(mpmath.exp(1j * phi)) ** 2 - 1)
+
+
+# -- the exact path gives up, the randomized path decides ------------------
+
+def test_square_root_of_a_square_needs_the_random_points():
+    # sqrt((x+1)^2) = x + 1 for x > 0: true, but not by polynomial rewriting alone
+    verdict = check("sqrt(x^2 + 2x + 1)", "x + 1", positive="x")
+    assert verdict.holds is True and verdict.method.startswith("randomized")
+    assert "remainder" in verdict.reason
+
+
+def test_the_declared_range_decides_a_branch():
+    # sqrt(1 - sin^2 t) = cos t exactly where cos t >= 0 (fact of the trade)
+    assert check("sqrt(1 - sin(t)^2)", "cos(t)", ranges={"t": (0, "pi/2")}).holds is True
+    verdict = check("sqrt(1 - sin(t)^2)", "cos(t)", ranges={"t": (0, "pi")})
+    assert_refuted(verdict, lambda t: mpmath.sqrt(1 - mpmath.sin(t) ** 2) - mpmath.cos(t))
+    assert verdict.counterexample["t"] > sympy.pi / 2
+
+
+def test_a_constant_identity_is_proved_algebraically():
+    # sqrt(2 + sqrt 3) = (sqrt 6 + sqrt 2)/2 (denesting; recalled from memory, checked by squaring)
+    assert check("sqrt(2 + sqrt(3))", "(sqrt(6) + sqrt(2))/2").method == "exact"
+    assert check("sqrt(2 + sqrt(3))", "(sqrt(6) + sqrt(3))/2").holds is False
+
+
+# -- matrices, sizes, bad input, the budget -------------------------------
+
+def test_matrices_compare_entry_by_entry():
+    # the Pauli identity X Z = -i Y written out (fact of the trade)
+    assert check("[[0, -1], [1, 0]]", "-i [[0, -i], [i, 0]]").holds is True
+    verdict = check("[[1, 2], [3, 4]]", "[[1, 2], [3, 5]]")
+    assert verdict.counterexample["at"] == "entry (2, 2)"
+    assert verdict.line() == "fails: lhs - rhs at entry (2, 2) = -1 (exact)"
+
+
+def test_a_ket_against_a_matrix_is_an_input_error():
+    with pytest.raises(ketsplit.InputError, match="cannot compare a ket"):
+        check("|0>", "[[1, 0], [0, 1]]")
+    with pytest.raises(ketsplit.InputError, match="2 part"):
+        check("|00>", "|0>")
+
+
+def test_different_dimensions_fail_with_the_reason():
+    left = ketsplit.ket("|00> + |11>", dims=(2, 2))
+    right = ketsplit.ket("|00> + |11>", dims=(2, 3))
+    verdict = check(left, right)
+    assert verdict.holds is False and "2x2 and 2x3" in verdict.line()
+    assert check("[[1, 0]]", "[[1], [0]]").holds is False
+
+
+def test_a_bad_side_reports_line_and_column():
+    with pytest.raises(ketsplit.InputError) as err:
+        check("cos(t", "1")
+    assert err.value.column is not None
+
+
+def test_no_time_gives_undecided_with_what_was_tried():
+    verdict = check("sqrt(x^2 + 2x + 1)", "x + 1", positive="x", budget=0)
+    assert verdict.holds is None
+    assert "out of time" in verdict.reason and verdict.line().startswith("undecided")
+
+
+def test_states_from_the_api_keep_their_ranges():
+    psi = ketsplit.ket("sqrt(1 - sin(t)^2)|0>", ranges={"t": (0, "pi/2")})
+    assert check(psi, "cos(t)|0>", ranges={"t": (0, "pi/2")}).holds is True
