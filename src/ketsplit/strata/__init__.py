@@ -1,0 +1,55 @@
+"""Rank strata: where a parameterised family changes Schmidt rank.
+
+``strata(state, cut)`` answers "for which parameter values inside the
+declared ranges is this family a product state, or of rank r?".  See
+:mod:`.search` for the mathematics, :mod:`.family` for the rank conditions
+and :mod:`ketsplit.exact.polyform` for the polynomial variables.
+"""
+
+from __future__ import annotations
+
+from ..cuts import CoefficientMatrix, Cut, parse_cut
+from ..exact.polyform import NoPolynomialForm, compare
+from ..language.errors import InputError
+from ..states import State
+from .budget import Budget
+from .family import Family, exact_rank
+from .model import Stratum, Strata, StrataError
+from .search import Search
+
+DEFAULT_BUDGET = 30.0  # seconds of exact algebra before the search stops and says so
+
+
+def strata(state: State, cut: Cut | str | None = None, *, budget: float = DEFAULT_BUDGET) -> Strata:
+    """Every Schmidt rank of the family across ``cut`` inside the declared ranges, generic first."""
+    if not isinstance(cut, Cut):
+        cut = parse_cut(cut, state)
+    check_ranges(state)
+    if not state.symbols:
+        return constant_strata(state, cut)
+    try:
+        family = Family.of(state, cut)
+    except NoPolynomialForm as err:
+        raise InputError(f"strata: {err}") from None
+    return Search(family, Budget(budget)).run()
+
+
+def check_ranges(state: State) -> None:
+    for param in state.params:
+        if param.range is None:
+            continue
+        if not param.is_real:
+            raise InputError(f"the complex parameter {param.name} cannot have a range")
+        lo, hi = param.range
+        if compare(lo, hi) > 0:
+            raise InputError(f"the range of {param.name} is empty: {lo} > {hi}")
+
+
+def constant_strata(state: State, cut: Cut) -> Strata:
+    matrix = CoefficientMatrix(state, cut)
+    rank = exact_rank(list(matrix.to_Matrix()), matrix.shape)
+    stratum = Stratum(rank, (), [{}], {}, f"the state has no parameters: its rank is {rank}")
+    return Strata([stratum], ("the state has no parameters, so there are no strata",))
+
+
+__all__ = ["strata", "Stratum", "Strata", "StrataError", "DEFAULT_BUDGET"]

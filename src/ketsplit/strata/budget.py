@@ -1,0 +1,50 @@
+"""A wall-clock budget shared by the steps of one strata computation.
+
+Groebner bases can grow without warning.  A :class:`Budget` carries one
+deadline for the whole search; :meth:`Budget.run` runs a step under
+:func:`ketsplit.numeric.budget.time_budget` with what is left (a timer signal
+that interrupts sympy's pure-Python loops; it is armed only in the main
+thread, elsewhere the deadline is checked between steps by
+:meth:`Budget.check`).  Running out raises :class:`BudgetExceeded`; the search
+keeps what it found before.
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field
+from typing import Callable, TypeVar
+
+from ..numeric.budget import OverBudget, time_budget
+
+T = TypeVar("T")
+
+
+class BudgetExceeded(Exception):
+    """The time budget ran out."""
+
+
+@dataclass
+class Budget:
+    seconds: float
+    start: float = field(default_factory=time.monotonic)
+
+    @property
+    def remaining(self) -> float:
+        return self.seconds - (time.monotonic() - self.start)
+
+    def exceeded(self) -> BudgetExceeded:
+        return BudgetExceeded(f"the time budget of {self.seconds:g} s was used up")
+
+    def check(self) -> None:
+        if self.remaining <= 0:
+            raise self.exceeded()
+
+    def run(self, function: Callable[..., T], *args, **kwargs) -> T:
+        """``function(*args, **kwargs)``, stopped when the budget runs out."""
+        self.check()
+        try:
+            with time_budget(max(self.remaining, 1e-3)):
+                return function(*args, **kwargs)
+        except OverBudget:
+            raise self.exceeded() from None

@@ -1,0 +1,158 @@
+"""A parameterised family across a cut, as a polynomial matrix over real variables.
+
+The coefficient matrix C of the state is rewritten in the variables of a
+:class:`~ketsplit.exact.polyform.PolyForm` and multiplied by L, the least
+common multiple of its (real) denominators, which changes no rank where the
+state is defined (L != 0).  Rows and columns that vanish identically are
+dropped.  The Schmidt rank is at most r exactly where every (r+1)-minor
+vanishes; with real variables that is where the real and imaginary parts of
+every minor vanish (:meth:`Family.rank_conditions`).
+"""
+
+from __future__ import annotations
+
+import random
+from dataclasses import dataclass
+from functools import cached_property
+from itertools import combinations
+from math import comb
+
+import sympy
+from sympy.polys.constructor import construct_domain
+from sympy.polys.matrices import DomainMatrix
+
+from ..cuts import CoefficientMatrix, Cut
+from ..exact.polyform import PolyForm, polynomial_form, split_complex
+from ..language.errors import LimitError
+from ..states import State
+
+MAX_MINORS = 20_000  # minors of one size beyond this are refused (ketsplit.strata.family)
+
+
+@dataclass(frozen=True, eq=False)
+class Family:
+    """The cleared polynomial coefficient matrix of a state across a cut."""
+
+    state: State
+    cut: Cut
+    form: PolyForm
+    entries: tuple[tuple[sympy.Expr, ...], ...]   # polynomials, complex coefficients
+    denominator: sympy.Expr                       # real polynomial, nonzero where defined
+
+    @classmethod
+    def of(cls, state: State, cut: Cut) -> "Family":
+        matrix = CoefficientMatrix(state, cut)
+        values = strip_common_denominators(dict(matrix.entries))
+        form = polynomial_form(values.values(), state.params)
+        parts = {key: form.real_equations(value) for key, value in values.items()}
+        denominator = sympy.Integer(1)
+        for _, _, d in parts.values():
+            denominator = sympy.lcm(denominator, d)
+        denominator = sympy.expand(denominator)
+        rows = sorted({i for i, _ in values})
+        cols = sorted({j for _, j in values})
+        grid = [[sympy.Integer(0)] * len(cols) for _ in rows]
+        for (i, j), (re_part, im_part, d) in parts.items():
+            factor = sympy.cancel(denominator / d)
+            grid[rows.index(i)][cols.index(j)] = sympy.expand((re_part + sympy.I * im_part) * factor)
+        if len(rows) > len(cols):
+            grid = [list(column) for column in zip(*grid)]
+        return cls(state, cut, form, tuple(tuple(r) for r in grid), denominator)
+
+    @property
+    def shape(self) -> tuple[int, int]:
+        return len(self.entries), len(self.entries[0]) if self.entries else 0
+
+    @property
+    def max_rank(self) -> int:
+        return min(self.shape)
+
+    @cached_property
+    def matrix(self) -> sympy.Matrix:
+        return sympy.Matrix(self.entries)
+
+    def minors(self, size: int) -> list[sympy.Expr]:
+        """Every size x size minor, expanded (the entries themselves for size 1)."""
+        m, n = self.shape
+        count = comb(m, size) * comb(n, size)
+        if count > MAX_MINORS:
+            raise LimitError(f"deciding rank {size - 1} needs {count} minors of size {size}; the "
+                             f"limit is {MAX_MINORS} (ketsplit.strata.family.MAX_MINORS)")
+        found = []
+        for rows in combinations(range(m), size):
+            for cols in combinations(range(n), size):
+                value = sympy.expand(self.matrix.extract(list(rows), list(cols)).det(method="berkowitz"))
+                if value != 0:
+                    found.append(value)
+        return found
+
+    def rank_conditions(self, rank: int) -> list[sympy.Expr]:
+        """Real polynomials whose common zeros are where the rank is at most ``rank``."""
+        if rank >= self.max_rank:
+            return []
+        conditions: list[sympy.Expr] = []
+        for minor in self.minors(rank + 1):
+            for part in split_complex(minor):
+                if part != 0:
+                    conditions.append(primitive(part))
+        return list(dict.fromkeys(conditions))
+
+    def rank_at(self, values: dict[sympy.Symbol, sympy.Expr]) -> int:
+        """The exact rank of the matrix at these values of the variables (L must not vanish)."""
+        numbers = [sympy.expand(e.xreplace(values)) for row in self.entries for e in row]
+        return exact_rank(numbers, self.shape)
+
+    def defined_at(self, values: dict[sympy.Symbol, sympy.Expr]) -> bool:
+        return sympy.expand(self.denominator.xreplace(values)) != 0
+
+    def random_values(self, rng: random.Random) -> dict[sympy.Symbol, sympy.Expr]:
+        """Exact values of the variables at a random point of the family (radicals consistent)."""
+        values: dict[sympy.Symbol, sympy.Expr] = {}
+        for c in self.form.coordinates:
+            if c.kind == "angle":
+                tau = sympy.Rational(rng.randint(-999, 999), rng.randint(1, 999))
+                values[c.variables[0]] = (1 - tau ** 2) / (1 + tau ** 2)
+                values[c.variables[1]] = 2 * tau / (1 + tau ** 2)
+            elif c.kind == "growth":
+                values[c.variables[0]] = sympy.Rational(rng.randint(1, 999), rng.randint(1, 999))
+            else:
+                values[c.variables[0]] = sympy.Rational(rng.randint(-999, 999), rng.randint(1, 999))
+        for r in self.form.radicals:
+            values[r.variable] = sympy.sqrt(sympy.expand(r.argument.xreplace(values)))
+        return values
+
+
+def exact_rank(numbers: list[sympy.Expr], shape: tuple[int, int]) -> int:
+    """The rank of a constant matrix over the smallest exact field of its entries."""
+    domain, elements = construct_domain(numbers, extension=True)
+    if domain.is_EX:
+        raise ArithmeticError("the matrix entries are not in an exact algebraic field")
+    m, n = shape
+    rows = [elements[k * n:(k + 1) * n] for k in range(m)]
+    return DomainMatrix(rows, shape, domain).to_field().rank()
+
+
+def primitive(poly: sympy.Expr) -> sympy.Expr:
+    """The polynomial divided by its content and made monic in sign (fewer duplicates)."""
+    _, prim = sympy.factor_terms(poly).as_coeff_Mul()
+    prim = sympy.expand(prim)
+    terms = sympy.Add.make_args(prim)
+    lead = terms[0].as_coeff_Mul()[0] if terms else 1
+    return sympy.expand(-prim) if lead.is_number and lead.is_negative else prim
+
+
+def strip_common_denominators(values: dict) -> dict:
+    """Divide every entry by the denominator factors they all share (1/sqrt(norm), ...).
+
+    A factor with a negative exponent never vanishes where it is defined, so
+    removing it from every entry changes no rank.
+    """
+    shared = None
+    for value in values.values():
+        factors = {f for f in sympy.Mul.make_args(value)
+                   if f.is_Pow and f.exp.is_negative and f.free_symbols}
+        shared = factors if shared is None else shared & factors
+    if not shared:
+        return values
+    scale = sympy.Mul(*shared)
+    return {k: v / scale for k, v in values.items()}

@@ -1,0 +1,340 @@
+"""The strata of a family: every rank the family takes inside the declared ranges.
+
+For each rank r below the generic rank R, the set {rank <= r} is the common
+zero set of the (r+1)-minors (:mod:`.family`), intersected with the relations
+of the polynomial variables and, when the entries have denominators L, with
+z L - 1 (a new variable z, so that points where the state is undefined are
+excluded).  That set is split into components (:mod:`.solve`):
+
+- finite components give points, solved exactly and mapped back to every
+  parameter value inside the ranges;
+- infinite components not contained in {rank <= r - 1} give curve (or
+  surface) strata, described by their equations and a sample point; when
+  some parameters do not occur in a component's equations, the component is
+  "these values of the other parameters, any value of those".
+
+The generic rank is found at a random exact point and proved an upper bound
+by reducing every (R+1)-minor to zero modulo the relations; so a family that
+is a product state for every parameter value is recognised as such, not
+mistaken for one that never is.  Every point and sample is checked by its
+exact rank before it is returned.
+"""
+
+from __future__ import annotations
+
+import random
+from dataclasses import dataclass, field
+from itertools import combinations
+
+import sympy
+
+from ..cuts import CoefficientMatrix, Cut
+from ..exact.polyform import Coordinate, compare, real_imag
+from ..render.ketprint import text
+from ..states import State
+from . import samples
+from .budget import Budget, BudgetExceeded
+from .family import Family, exact_rank
+from .model import Stratum, Strata, StrataError
+from .solve import Component, Point, components, groebner, is_finite, real_points
+
+
+@dataclass
+class Found:
+    """A point with its values of the polynomial variables and its exact rank."""
+
+    point: dict[sympy.Symbol, sympy.Expr]
+    values: Point
+    rank: int
+
+
+@dataclass
+class Search:
+    family: Family
+    budget: Budget
+    points: list[Found] = field(default_factory=list)
+    curves: list[tuple[Stratum, Component]] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+
+    def __post_init__(self) -> None:
+        form = self.family.form
+        self.saturator = sympy.Dummy("z") if self.family.denominator.free_symbols else None
+        self.gens = ((self.saturator,) if self.saturator else ()) + form.variables
+        self.relations = list(form.relations)
+        if self.saturator is not None:
+            self.relations.append(self.saturator * self.family.denominator - 1)
+
+    # -- the whole search ------------------------------------------------
+    def run(self) -> Strata:
+        self.notes.extend(period_notes(self.family.form.coordinates))
+        generic = self.generic_rank()
+        complete = True
+        for rank in range(generic - 1, -1, -1):
+            try:
+                self.level(rank)
+            except BudgetExceeded as err:
+                complete = False
+                self.notes.append(f"{err} while looking for the points of rank <= {rank}; the "
+                                  "strata shown were found before that and the list is incomplete")
+                break
+        return Strata(self.assemble(generic), tuple(self.notes), complete)
+
+    def generic_rank(self) -> int:
+        """The rank at a random exact point, proved to be the largest rank."""
+        rng = random.Random(20261201)
+        basis = groebner(self.family.form.relations, self.family.form.variables, self.budget)
+        for _ in range(5):
+            values = self.family.random_values(rng)
+            if not self.family.defined_at(values):
+                continue
+            rank = self.family.rank_at(values)
+            if all(reduces_to_zero(c, basis, self.family.form.variables)
+                   for c in self.family.rank_conditions(rank)):
+                return rank
+        raise StrataError("could not prove the generic rank of the family")
+
+    def level(self, rank: int) -> None:
+        """Points and curves of {rank <= r}."""
+        system = self.family.rank_conditions(rank) + self.relations
+        for component in components(system, self.gens, self.budget):
+            if component.finite:
+                for values in real_points(component.basis, component.gens, self.budget):
+                    self.add_point(self.drop_saturator(values))
+            elif not self.inside_lower(component, rank):
+                self.add_curve(component, rank)
+
+    def drop_saturator(self, values: Point) -> Point:
+        return {k: v for k, v in values.items() if k is not self.saturator}
+
+    # -- points ----------------------------------------------------------
+    def add_point(self, values: Point) -> None:
+        rank = self.family.rank_at(values)
+        for point in self.family.form.parameter_values(values):
+            if not any(same_point(point, f.point) for f in self.points):
+                self.points.append(Found(point, values, rank))
+
+    # -- curves ----------------------------------------------------------
+    def inside_lower(self, component: Component, rank: int) -> bool:
+        """Every rank-(r-1) condition vanishes on the component (ideal membership)."""
+        if rank == 0:
+            return False
+        lower = self.family.rank_conditions(rank - 1)
+        return all(reduces_to_zero(c, component.basis, component.gens) for c in lower)
+
+    def add_curve(self, component: Component, rank: int) -> None:
+        form = self.family.form
+        core = [b for b in component.basis
+                if self.saturator not in b.free_symbols and b not in form.relations]
+        free = form.free_coordinates(core)
+        free_vars = {v for c in free for v in c.variables}
+        involved = tuple(g for g in component.gens if g is not self.saturator and g not in free_vars)
+        filler = next(samples.combinations(free, limit=1), {}) if free else {}
+        basis = groebner(core, involved, self.budget) if core else ()
+        if basis and is_finite(basis, involved):
+            found = [p for values in real_points(basis, involved, self.budget)
+                     for p in self.checked({**values, **filler}, rank)]
+            if not found:
+                return
+            stratum = self.free_stratum(rank, core, found, free)
+        else:
+            sample = self.sample_on(core, involved, free, filler, rank)
+            stratum = self.curve_stratum(rank, core, sample, free)
+        self.curves.append((stratum, Component(tuple(core), involved, False)))
+
+    def checked(self, values: Point, rank: int) -> list[Found]:
+        """The parameter points of these values, if the state is defined there with this rank."""
+        if not self.family.defined_at(values) or self.family.rank_at(values) != rank:
+            return []
+        return [Found(p, values, rank) for p in self.family.form.parameter_values(values)]
+
+    def sample_on(self, core, involved, free, filler, rank) -> Found | None:
+        """A point of exact rank r on an infinite component: fix some coordinates, solve the rest."""
+        coords = [c for c in self.family.form.coordinates if c not in free]
+        for size in range(1, len(coords)):
+            for subset in combinations(coords, size):
+                for fixed in samples.combinations(subset, limit=12):
+                    self.budget.check()
+                    found = self.solve_fixed(core, involved, {**fixed, **filler}, rank)
+                    if found:
+                        return found
+        return None
+
+    def solve_fixed(self, core, involved, fixed, rank) -> Found | None:
+        rest = tuple(g for g in involved if g not in fixed)
+        system = [sympy.expand(b.xreplace(fixed)) for b in core]
+        for component in components(system, rest, self.budget):
+            if not component.finite:
+                continue
+            for values in real_points(component.basis, component.gens, self.budget):
+                found = self.checked({**values, **fixed}, rank)
+                if found:
+                    return found[0]
+        return None
+
+    # -- strata ----------------------------------------------------------
+    def free_stratum(self, rank, core, found: list[Found], free) -> Stratum:
+        names = tuple(c.parameter.name for c in free)
+        shown = [{k: v for k, v in f.point.items() if k.name not in names} for f in found]
+        places = "; ".join(point_text(p) for p in unique_points(shown))
+        equations = tuple(self.family.form.original(b) for b in core)
+        description = f"rank {rank} where {places}, for every {', '.join(dict.fromkeys(names))}"
+        return Stratum(rank, equations, None, verified_sample(self.family, found[0]), description,
+                       tuple(dict.fromkeys(names)))
+
+    def curve_stratum(self, rank, core, sample: Found | None, free) -> Stratum:
+        equations = tuple(self.family.form.original(b) for b in core)
+        shown = ", ".join(f"{text(e)} = 0" for e in equations)
+        names = tuple(dict.fromkeys(c.parameter.name for c in free))
+        extra = f", for every {', '.join(names)}" if names else ""
+        description = f"rank {rank} on {shown}{extra}"
+        if sample is None:
+            description += " (no real sample point was found on it: it may hold no real point)"
+        point = verified_sample(self.family, sample) if sample else None
+        return Stratum(rank, equations, None, point, description, names)
+
+    def assemble(self, generic: int) -> list[Stratum]:
+        result = [self.generic_stratum(generic)]
+        for rank in range(generic - 1, -1, -1):
+            curves = [(s, c) for s, c in self.curves if s.rank == rank]
+            isolated = [f for f in self.points if f.rank == rank
+                        and not any(on_component(f.values, c) for _, c in curves)]
+            if isolated:
+                result.append(self.points_stratum(rank, isolated))
+            result.extend(s for s, _ in curves)
+        return result
+
+    def points_stratum(self, rank: int, found: list[Found]) -> Stratum:
+        found = sorted(found, key=point_order)
+        for f in found:
+            verify(self.family, f)
+        equations = tuple(self.family.form.original(c) for c in self.family.rank_conditions(rank))
+        count = len(found)
+        places = "; ".join(point_text(f.point) for f in found)
+        what = "every amplitude vanishes (not a state)" if rank == 0 else f"rank {rank}"
+        description = f"{what} at {count} point{'s' if count > 1 else ''}: {places}"
+        return Stratum(rank, equations, [f.point for f in found], found[0].point, description)
+
+    def generic_stratum(self, rank: int) -> Stratum:
+        coords = self.family.form.coordinates
+        sample = None
+        for values in samples.combinations(coords):
+            self.budget.check()
+            full = with_radicals(self.family, values)
+            found = self.checked(full, rank)
+            if found:
+                sample = verified_sample(self.family, found[0])
+                break
+        if sample is None:
+            self.notes.append("no simple sample point of the generic rank was found")
+        lower = bool(self.points or self.curves)
+        if rank == 1 and not lower:
+            description = "a product state for every parameter value in the ranges"
+        else:
+            description = f"rank {rank} {'everywhere else' if lower else 'for every parameter value'}" \
+                          " in the ranges"
+        return Stratum(rank, (), None, sample, description)
+
+
+def with_radicals(family: Family, values: Point) -> Point:
+    full = dict(values)
+    for r in family.form.radicals:
+        full[r.variable] = sympy.sqrt(sympy.expand(r.argument.xreplace(full)))
+    return full
+
+
+def period_notes(coordinates: tuple[Coordinate, ...]) -> list[str]:
+    return [f"{c.parameter.name} has no declared range: answered over one period "
+            f"[0, {text(c.period)})" for c in coordinates
+            if c.kind == "angle" and c.parameter.range is None]
+
+
+def reduces_to_zero(poly: sympy.Expr, basis, gens) -> bool:
+    if not basis:
+        return sympy.expand(poly) == 0
+    return sympy.reduced(poly, list(basis), *gens, order="lex", extension=True)[1] == 0
+
+
+def same_point(a: dict, b: dict) -> bool:
+    if a.keys() != b.keys():
+        return False
+    return all(same_value(a[k], b[k]) for k in a)
+
+
+def same_value(x: sympy.Expr, y: sympy.Expr) -> bool:
+    xr, xi = real_imag(x)
+    yr, yi = real_imag(y)
+    return compare(xr, yr) == 0 and compare(xi, yi) == 0
+
+
+def unique_points(points: list[dict]) -> list[dict]:
+    kept: list[dict] = []
+    for p in points:
+        if not any(same_point(p, q) for q in kept):
+            kept.append(p)
+    return kept
+
+
+def on_component(values: Point, component: Component) -> bool:
+    return all(is_zero(b.xreplace(values)) for b in component.basis)
+
+
+def is_zero(value: sympy.Expr) -> bool:
+    value = sympy.expand(value)
+    if value == 0:
+        return True
+    try:
+        return exact_rank([value], (1, 1)) == 0
+    except ArithmeticError:
+        return sympy.simplify(value) == 0
+
+
+def point_order(found: Found) -> tuple:
+    """Points in increasing order of their parameters (by name), real part then imaginary."""
+    key = []
+    for _, value in sorted(found.point.items(), key=lambda kv: kv[0].name):
+        re_part, im_part = real_imag(value)
+        key.extend((float(sympy.N(re_part, 30)), float(sympy.N(im_part, 30))))
+    return tuple(key)
+
+
+def point_text(point: dict) -> str:
+    return ", ".join(f"{s.name} = {text(v)}" for s, v in sorted(point.items(), key=lambda kv: kv[0].name))
+
+
+def verified_sample(family: Family, found: Found) -> dict:
+    verify(family, found)
+    return found.point
+
+
+def verify(family: Family, found: Found) -> None:
+    """The rank of the state itself at the point must be the one found (exact)."""
+    rank = state_rank_at(family.state, family.cut, found.point)
+    if rank is None:
+        rank = forward_rank(family, found)
+    if rank != found.rank:
+        raise StrataError(f"the point {point_text(found.point)} has rank {rank}, not {found.rank}")
+
+
+def state_rank_at(state: State, cut: Cut, point: dict) -> int | None:
+    """The exact rank of the original state at the point, or None if not in an algebraic field."""
+    at = state.subs({s.name: v for s, v in point.items()})
+    if not at.amplitudes:
+        return 0
+    matrix = CoefficientMatrix(at, cut)
+    keys = list(matrix.entries)
+    rows = sorted({i for i, _ in keys})
+    cols = sorted({j for _, j in keys})
+    grid = [matrix.entries.get((i, j), sympy.Integer(0)) for i in rows for j in cols]
+    try:
+        return exact_rank(grid, (len(rows), len(cols)))
+    except (ArithmeticError, NotImplementedError, sympy.polys.polyerrors.PolynomialError):
+        return None
+
+
+def forward_rank(family: Family, found: Found) -> int:
+    """The rank in polynomial form, after checking that the point maps to these values."""
+    forward = family.form.forward(found.point)
+    for var, value in forward.items():
+        if var in found.values and not same_value(value, found.values[var]):
+            raise StrataError(f"the point {point_text(found.point)} does not map back to its values")
+    return family.rank_at(found.values)
