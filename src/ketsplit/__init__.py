@@ -20,7 +20,8 @@ from .decomposition import Decomposition
 from .language.errors import InputError, LimitError
 from .session import Result, Session, Settings
 from .states import Parameter, State
+from .symmetric import SymmetricState, dicke
 
 __all__ = ["ket", "schmidt", "reduced", "State", "Parameter", "Cut", "parse_cut",
            "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
-           "__version__"]
+           "dicke", "SymmetricState", "__version__"]

@@ -82,6 +82,9 @@ class Decomposition:
 
 def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     """The exact Schmidt decomposition of the normalised ``state`` across ``cut``."""
+    from .symmetric import SymmetricState, symmetric_schmidt
+    if isinstance(state, SymmetricState):
+        return symmetric_schmidt(state, cut)
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
     normal = state.normalised()

@@ -113,6 +113,10 @@ class Session:
 
     def make_state(self, value: KetValue, span: Span | None = None) -> State:
         """A State from a built ket: dimensions from the space or inferred, parameters found."""
+        from .symmetric import SymmetricKet
+        if isinstance(value, SymmetricKet):  # kept in the Dicke basis, never listed in 2^n labels
+            names = self.space.names if self.space and len(self.space.names) == value.nparts else ()
+            return value.symmetric_state(names, self.params)
         if not value.terms or all(v == 0 for v in value.terms.values()):
             raise InputError("the state is zero: every amplitude vanishes", span)
         inferred = tuple(max(2, 1 + max(label[p] for label in value.terms)) for p in range(value.nparts))

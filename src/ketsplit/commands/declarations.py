@@ -140,7 +140,10 @@ def assign(session: "Session", name: str, statement: str, start: int, line: int)
 
 
 def state_report(title: str, state: State) -> Report:
-    items = [Field("state", Kets(tuple((amp, label_text(label)[1:-1]) for label, amp in state.terms()))),
+    from ..symmetric import SymmetricState
+    shown = state.dicke_text() if isinstance(state, SymmetricState) else \
+        Kets(tuple((amp, label_text(label)[1:-1]) for label, amp in state.terms()))
+    items = [Field("state", shown),
              Field("parts", " ".join(f"{n}:{d}" for n, d in zip(state.names, state.dims)))]
     if state.params:
         items.append(Field("parameters", ", ".join(p.describe() for p in state.params)))

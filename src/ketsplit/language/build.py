@@ -34,6 +34,10 @@ class KetValue:
     def scaled(self, factor: sympy.Expr) -> "KetValue":
         return KetValue({k: v * factor for k, v in self.terms.items()}, self.nparts, self.dims)
 
+    def coefficients(self):
+        """The distinct kinds of coefficient (a symmetric ket gives its Dicke weights)."""
+        return self.terms.values()
+
 
 Value = sympy.Expr | KetValue | sympy.MatrixBase
 
@@ -160,6 +164,10 @@ class Builder:
         if isinstance(left, KetValue) and isinstance(right, KetValue):
             if left.nparts != right.nparts:
                 self.fail(f"cannot add a ket of {left.nparts} part(s) to one of {right.nparts}", node)
+            from ..symmetric import symmetric_sum  # sums of Dicke states stay in the Dicke basis
+            joined = symmetric_sum(left, right)
+            if joined is not None:
+                return joined
             terms = dict(left.terms)
             for k, v in right.terms.items():
                 terms[k] = terms.get(k, 0) + v
@@ -276,8 +284,11 @@ def merge_dims(a: tuple[int, ...] | None, b: tuple[int, ...] | None) -> tuple[in
 def as_value(found: object) -> Value:
     """A session binding (State, scalar, matrix, Parameter) as a builder value."""
     from ..states import Parameter, State
+    from ..symmetric import SymmetricState
     if isinstance(found, Parameter):
         return found.symbol
+    if isinstance(found, SymmetricState):
+        return found.ket_value()
     if isinstance(found, State):
         return KetValue(dict(found.amplitudes), found.nparts, found.dims)
     return found  # type: ignore[return-value]

@@ -32,13 +32,14 @@ def _raise(signum, frame) -> None:
 def time_budget(seconds: float) -> Iterator[bool]:
     """Run the block for at most ``seconds``; yields whether the budget is enforced.
 
-    An enclosing timer (for example an outer budget) is re-armed afterwards
-    with what is left of it.
+    An enclosing timer (for example a limit on the whole statement) that
+    would fire first is left alone; a later one is re-armed afterwards with
+    what is left of it.
     """
-    if not _can_time() or seconds <= 0:
-        yield False
+    outer_left = signal.getitimer(signal.ITIMER_REAL)[0] if _can_time() else 0.0
+    if not _can_time() or seconds <= 0 or 0 < outer_left <= seconds:
+        yield False  # an outer timer that fires first keeps its own handler
         return
-    outer_left, _ = signal.getitimer(signal.ITIMER_REAL)
     started = time.monotonic()
     previous = signal.signal(signal.SIGALRM, _raise)
     signal.setitimer(signal.ITIMER_REAL, seconds)

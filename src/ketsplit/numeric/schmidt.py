@@ -25,6 +25,7 @@ from ..cuts import CoefficientMatrix, Cut, parse_cut
 from ..language.errors import LimitError
 from ..render.report import Digits
 from ..states import State
+from ..symmetric import SymmetricState, dicke_split
 from .blocks import Block
 from .digits import certain_count, certain_text, digits_cell
 from .enclose import Encloser
@@ -97,6 +98,8 @@ def certified_schmidt(state: State, cut: Cut | str | None = None, digits: int = 
                       at: Mapping | None = None) -> CertifiedSchmidt:
     """Certified Schmidt coefficients of the normalised ``state`` across ``cut``."""
     check_digits(digits)
+    if isinstance(state, SymmetricState):
+        state, cut = dicke_split(state, cut)
     if at:
         state = at_point(state, at)
     else:
