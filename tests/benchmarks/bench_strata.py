@@ -1,0 +1,96 @@
+"""Speed of rank strata against a general-purpose reference, as ratios.
+
+Run on demand (the default test run ignores this folder):
+
+    python -m pytest tests/benchmarks/bench_strata.py -o addopts="" -s
+
+Reference: sympy's general-purpose solver on the same family's determinant
+(``solveset(det C, t, Interval)`` for one parameter, ``solve(det C, p)``
+for two), timed in the same run.  The reference answers less (det = 0 only:
+no rank of the points, no curves, no check of the points) so the ratio
+ours/reference says what the full answer costs over the bare equation.
+
+Measured on the project machine (2 cores), 2026-12-01:
+
+    family                                   ours (s)  reference (s)  ratio
+    2x2 trig cos t|00> + sin t|11> [0, pi]     0.09        0.12        0.8
+    3x3 circulant trig [0, pi]                 0.26        1.04        0.3
+    3x3 polynomial circulant (drop by two)     0.08        0.06        1.3
+    3x3 two angles diag (curves and points)    0.90        0.26        3.5
+    two phases (curve p = q)                   0.38        0.02       15.6
+    three qubits GHZ family, cut 1|23          0.11        0.08        1.4
+
+(These figures are refreshed by running the file; it prints a table.)
+"""
+
+from __future__ import annotations
+
+import time
+
+import pytest
+import sympy
+
+import ketsplit
+from ketsplit.cuts import CoefficientMatrix, parse_cut
+from ketsplit.strata import strata
+
+pytestmark = pytest.mark.benchmark
+
+CASES = [
+    ("2x2 trig cos t|00> + sin t|11> [0, pi]", "cos(t)|00> + sin(t)|11>", "1|2",
+     {"real": "t", "ranges": {"t": (0, "pi")}}, 2),
+    ("3x3 circulant trig [0, pi]",
+     "cos(t)|00> + sin(t)|01> + cos(t)|11> + sin(t)|12> + sin(t)|20> + cos(t)|22>", "1|2",
+     {"real": "t", "ranges": {"t": (0, "pi")}}, 2),
+    ("3x3 polynomial circulant (drop by two)",
+     "|00> + t|01> + t^2|02> + t|10> + t^2|11> + |12> + t^2|20> + |21> + t|22>", "1|2",
+     {"real": "t"}, 2),
+    ("3x3 two angles diag (curves and points)",
+     "cos(t)|00> + sin(t) cos(p)|11> + sin(t) sin(p)|22>", "1|2",
+     {"real": "t p", "ranges": {"t": (0, "pi/2"), "p": (0, "pi/2")}}, 6),
+    ("two phases (curve p = q)", "|00> + exp(i q)|01> + |10> + exp(i p)|11>", "1|2",
+     {"real": "p q"}, 2),
+    ("three qubits GHZ family, cut 1|23", "cos(t)|000> + sin(t)|111>", "1|23",
+     {"real": "t", "ranges": {"t": (0, "pi")}}, 2),
+]
+
+RESULTS: list[tuple[str, float, float]] = []
+
+
+@pytest.fixture(scope="module", autouse=True)
+def warm_up():
+    """One small unrelated family first, so that import and first-call costs are not timed."""
+    strata(ketsplit.ket("|00> + x|11> + cos(y)|01>", real="x y"), "1|2")
+    sympy.solveset(sympy.Symbol("x") ** 2 - 2, sympy.Symbol("x"), sympy.Interval(0, 2))
+
+
+def reference(state, cut) -> float:
+    """Time of sympy's general solver on det C (square C), or on the 2x2 minors' sum of squares."""
+    matrix = CoefficientMatrix(state, parse_cut(cut, state)).to_Matrix()
+    rows = [r for r in range(matrix.rows) if any(matrix[r, :])]
+    cols = [c for c in range(matrix.cols) if any(matrix[:, c])]
+    square = matrix.extract(rows, cols)
+    start = time.perf_counter()
+    det = square.det() if square.rows == square.cols else (square * square.H).det()
+    symbols = sorted(state.symbols, key=lambda s: s.name)
+    first = symbols[0]
+    param = state.parameter(first.name)
+    if len(symbols) == 1 and param.range is not None:
+        sympy.solveset(det, first, sympy.Interval(*param.range))
+    else:
+        sympy.solve(det, first)
+    return time.perf_counter() - start
+
+
+@pytest.mark.parametrize("name, text, cut, declarations, strata_count", CASES,
+                         ids=[c[0] for c in CASES])
+def test_strata_speed(name, text, cut, declarations, strata_count):
+    state = ketsplit.ket(text, **declarations)
+    start = time.perf_counter()
+    found = strata(state, cut)
+    ours = time.perf_counter() - start
+    theirs = reference(state, cut)
+    RESULTS.append((name, ours, theirs))
+    print(f"\n{name:42s} ours {ours:7.2f} s  reference {theirs:7.2f} s  ratio {ours / theirs:6.1f}")
+    assert found.complete and len(found) == strata_count
+    assert ours < 20.0  # "a one-parameter 3x3 trigonometric family should answer in seconds"

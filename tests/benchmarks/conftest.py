@@ -1,0 +1,16 @@
+"""Benchmarks: files named bench_*.py, collected only when this folder is run on purpose.
+
+The default run ignores this folder (pyproject's addopts); run it with
+
+    python -m pytest tests/benchmarks -o addopts="" -s
+"""
+
+from __future__ import annotations
+
+import pytest
+
+
+def pytest_collect_file(file_path, parent):
+    if file_path.suffix == ".py" and file_path.name.startswith("bench_"):
+        return pytest.Module.from_parent(parent, path=file_path)
+    return None
