@@ -20,8 +20,11 @@ from .decomposition import Decomposition
 from .language.errors import InputError, LimitError
 from .session import Result, Session, Settings
 from .states import Parameter, State
+from .figures import figures, measures, renyi  # noqa: E402  (the function shadows the module name)
+from .compare import conversion_probability, convertible, lu_equivalent
 from .symmetric import SymmetricState, dicke
 
 __all__ = ["ket", "schmidt", "reduced", "State", "Parameter", "Cut", "parse_cut",
+           "figures", "measures", "renyi", "lu_equivalent", "convertible", "conversion_probability",
            "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
            "dicke", "SymmetricState", "__version__"]

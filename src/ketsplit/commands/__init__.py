@@ -13,6 +13,7 @@ from typing import TYPE_CHECKING
 from ..language.errors import InputError, Span
 from .registry import COMMANDS, WITH_CLAUSE, CommandCall, command
 from . import core  # noqa: F401  (registers the commands)
+from . import figures  # noqa: F401
 from . import numeric  # noqa: F401
 from . import declarations
 

@@ -1,0 +1,324 @@
+"""Statements ``figures``, ``cuts``, ``compare`` and ``plot``."""
+
+from __future__ import annotations
+
+import re
+from dataclasses import replace
+
+import sympy
+
+from ..compare import compare_across, decide_sign
+from ..cuts import CUT_PATTERN, Cut, parse_cut
+from ..decomposition import schmidt
+from ..numeric.digits import digits_cell
+from ..numeric.values import certified_real
+from ..figures import (LOGARITHMIC, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
+                       unknown_figure, verdict, without_extrema)
+from ..language.errors import InputError, Span
+from ..plots import Marker, make_chart, terminal_lines, write_chart
+from ..render.report import Digits, Field, Note, Plot, Report, Table
+from ..states import State
+from .registry import CommandCall, command
+
+UNIT_WORDS = ("bits", "nats")
+RENYI = re.compile(r"^renyi\((.+)\)$")
+COEFFICIENTS = "coefficients"
+
+
+# -- options after the state: units and figure names ---------------------------
+def _is_option(word: str) -> bool:
+    return word in UNIT_WORDS or word in NAMES or bool(RENYI.match(word))
+
+
+def split_options(call: CommandCall) -> tuple[CommandCall, list[tuple[str, int]]]:
+    """The call without its trailing option words, and those words with their columns.
+
+    Options follow the cut; without a cut, trailing words that are options (or
+    unbound bare names, which can only be misspelt options) are taken.
+    """
+    words = [(m.group(), m.start()) for m in re.finditer(r"\S+", call.args)]
+    cut_at = next((k for k in range(len(words) - 1, 0, -1) if CUT_PATTERN.match(words[k][0])), None)
+    if cut_at is not None:
+        first = cut_at + 1
+    else:
+        first = len(words)
+        while first > 1 and (_is_option(words[first - 1][0]) or _unbound_name(call, words[first - 1][0])):
+            first -= 1
+    options = [(w, call.offset + at) for w, at in words[first:]]
+    end = words[first][1] if first < len(words) else len(call.args)
+    return replace(call, args=call.args[:end]), options
+
+
+def _unbound_name(call: CommandCall, word: str) -> bool:
+    return word.isidentifier() and call.session.lookup(word) is None
+
+
+def _selection(call: CommandCall, options: list[tuple[str, int]]) -> tuple[str, list[str | sympy.Expr]]:
+    """(unit, wanted figures): names, or Renyi orders as sympy numbers."""
+    unit, wanted = call.session.settings.entropy_unit, []
+    for word, column in options:
+        if word in UNIT_WORDS:
+            unit = word
+        elif word in NAMES:
+            wanted.append(word)
+        elif RENYI.match(word):
+            wanted.append(renyi_order(call, word, column))
+        else:
+            raise call.error(unknown_figure(word).message, column, len(word))
+    return unit, wanted or list(NAMES)
+
+
+def renyi_order(call: CommandCall, word: str, column: int) -> sympy.Expr:
+    inner = RENYI.match(word).group(1)
+    if inner in ("inf", "oo"):
+        return sympy.oo
+    value = call.value(inner, column + len("renyi("))
+    if not isinstance(value, sympy.Expr) or not value.is_number or not value.is_real or value < 0:
+        raise call.error(f"renyi(ALPHA) needs a real order ALPHA >= 0, found {inner!r}",
+                         column, len(word))
+    return value
+
+
+def _figure_label(name: str | sympy.Expr, unit: str) -> str:
+    label = name if isinstance(name, str) else f"renyi({sympy.sstr(name)})"
+    logarithmic = not isinstance(name, str) or name in LOGARITHMIC
+    return f"{label} ({unit})" if logarithmic else label
+
+
+def _figure_values(spectrum: Spectrum, wanted: list, unit: str) -> dict[str, sympy.Expr]:
+    names = [w for w in wanted if isinstance(w, str)]
+    named = spectrum_figures(spectrum, unit, names)
+    values = {}
+    for w in wanted:
+        values[_figure_label(w, unit)] = named[w] if isinstance(w, str) else renyi_of(spectrum, w, unit)
+    return values
+
+
+def certified(value: sympy.Expr, digits: int) -> Digits | str:
+    """The certain digits of a real constant; a note instead when it depends on parameters."""
+    if value.free_symbols:
+        return "depends on " + ", ".join(sorted(s.name for s in value.free_symbols))
+    if value.is_Rational and _terminates(value):
+        return Digits(_decimal(value), digits)
+    return digits_cell(certified_real(without_extrema(value), digits), digits)
+
+
+def _terminates(value: sympy.Rational) -> bool:
+    q = int(value.q)
+    for prime in (2, 5):
+        while q % prime == 0:
+            q //= prime
+    return q == 1
+
+
+def _decimal(value: sympy.Rational) -> str:
+    """The exact decimal expansion of a terminating rational."""
+    from decimal import Decimal, localcontext
+    with localcontext() as context:
+        context.prec = len(str(value.p)) + len(str(value.q)) + 5
+        return format((Decimal(int(value.p)) / Decimal(int(value.q))).normalize(), "f")
+
+
+def _subject(call: CommandCall) -> str:
+    return call.split_last(CUT_PATTERN)[0].strip()
+
+
+@command("figures", "figures STATE [CUT] [bits|nats] [FIGURE ...] [with NAME=VALUE, ...]",
+         "entanglement figures across a cut: entropy, Renyi, purity, concurrence, negativity, ...",
+         "figures cos(t)|00> + sin(t)|11> 1|2 nats")
+def run_figures(call: CommandCall) -> Report:
+    trimmed, options = split_options(call)
+    unit, wanted = _selection(call, options)
+    state, cut = trimmed.state_and_cut()
+    d = schmidt(state, cut)
+    values = _figure_values(Spectrum.of(d), wanted, unit)
+    digits = call.session.settings.digits
+    rows = tuple((label, value, certified(value, digits)) for label, value in values.items())
+    items = (Field("squared Schmidt coefficients", list(d.squared)),
+             Table(("figure", "exact", f"certified digits (up to {digits})"), rows))
+    return Report(f"entanglement figures of {_subject(trimmed)} across {cut.describe(d.state)}",
+                  items, d.notes)
+
+
+@command("cuts", "cuts STATE [with NAME=VALUE, ...]",
+         "every bipartition of a many-part state: Schmidt rank, entropy, and which parts split off",
+         "cuts |000> + |111>")
+def run_cuts(call: CommandCall) -> Report:
+    trimmed, options = split_options(call)
+    unit = call.session.settings.entropy_unit
+    for word, column in options:
+        if word not in UNIT_WORDS:
+            raise call.error(f"cuts: expected only bits or nats after the state, found {word!r}",
+                             column, len(word))
+        unit = word
+    state = trimmed.state()
+    found = overview(state, unit)
+    digits = call.session.settings.digits
+    rows = tuple((s.cut.describe(state), s.rank, s.entropy, certified(s.entropy, digits))
+                 for s in found.summaries)
+    notes = ("ranks are generic: they can drop at special parameter values (see 'strata')",) \
+        if found.generic else ()
+    return Report(f"every cut of {trimmed.args.strip()} ({len(rows)} bipartitions)",
+                  (Table(("cut", "rank", f"entropy ({unit})", "certified digits"), rows),
+                   Field("verdict", verdict(found, state))), notes)
+
+
+# -- compare ------------------------------------------------------------------
+def top_level_comma(text: str) -> int | None:
+    """The first comma outside brackets and kets, or None."""
+    depth, in_ket = 0, False
+    for k, ch in enumerate(text):
+        if in_ket:
+            in_ket = ch != ">"
+        elif ch == "|":
+            in_ket = True
+        elif ch in "([":
+            depth += 1
+        elif ch in ")]":
+            depth -= 1
+        elif ch == "," and depth == 0:
+            return k
+    return None
+
+
+def two_states(call: CommandCall) -> tuple[tuple[str, State], tuple[str, State], str | None, int]:
+    """Both states of ``compare A B CUT`` (or ``compare EXPR, EXPR CUT``), the cut text
+    and its column."""
+    text, cut_text, column = call.split_last(CUT_PATTERN)
+    comma = top_level_comma(text)
+    if comma is not None:
+        pieces = [(text[:comma], 0), (text[comma + 1:], comma + 1)]
+    else:
+        words = [(m.group(), m.start()) for m in re.finditer(r"\S+", text)]
+        if len(words) != 2:
+            raise call.error("compare: expected two states, as in 'compare psi chi 1|2' or "
+                             "'compare EXPR, EXPR 1|2'", call.offset, len(text) or 1)
+        pieces = words
+    states = tuple((piece.strip(), call.state(piece, call.offset + at)) for piece, at in pieces)
+    return states[0], states[1], cut_text, column
+
+
+def _yes(flag: bool) -> str:
+    return "yes" if flag else "no"
+
+
+@command("compare", "compare STATE STATE [CUT] [with NAME=VALUE, ...]",
+         "LU-equivalent? convertible by LOCC either way (majorization)? optimal probability?",
+         "compare |00> + |11>, cos(pi/8)|00> + sin(pi/8)|11> 1|2")
+def run_compare(call: CommandCall) -> Report:
+    (a_text, a), (b_text, b), cut_text, column = two_states(call)
+    a_name, b_name = (t if re.fullmatch(r"[A-Za-z_][A-Za-z0-9_]{0,11}", t) else label
+                      for t, label in ((a_text, "A"), (b_text, "B")))
+    span = Span(call.line, column + 1, len(cut_text or "x"))
+    cut_a, cut_b = (parse_cut(cut_text, s, span, call.source) for s in (a, b))
+    found = compare_across(a, cut_a, b, cut_b)
+    digits = call.session.settings.digits
+    rows = tuple((k + 1, x, y, sx, sy, _yes(decide_sign(sy - sx) >= 0))
+                 for k, (x, y, sx, sy) in enumerate(zip(found.source, found.target, found.source_sums,
+                                                        found.target_sums)))
+    items = (
+        Table(("k", f"{a_name}: p_k", f"{b_name}: p_k", f"{a_name}: sum to k", f"{b_name}: sum to k",
+               f"{a_name} sum <= {b_name} sum"), rows),
+        Field("LU-equivalent", _yes(found.lu_equivalent)),
+        Field(f"{a_name} -> {b_name} by LOCC", _yes(found.forward)),
+        Field(f"{b_name} -> {a_name} by LOCC", _yes(found.backward)),
+        Field(f"best probability {a_name} -> {b_name}", _exact_and_digits(found.p_forward, digits)),
+        Field(f"best probability {b_name} -> {a_name}", _exact_and_digits(found.p_backward, digits)),
+        Note("p_k: squared Schmidt coefficients, largest first; A -> B by LOCC exactly when every "
+             "partial sum of A is at most B's (Nielsen); best probability by Vidal's formula"),
+    )
+    notes = ("incomparable: neither converts into the other with certainty",) if found.incomparable else ()
+    named = tuple(Field(name, text) for name, text in ((a_name, a_text), (b_name, b_text)) if name != text)
+    items = named + items
+    return Report(f"comparison of {a_name} and {b_name} across {cut_a.describe(a)}", items, notes)
+
+
+def _exact_and_digits(value: sympy.Expr, digits: int):
+    """The exact value, with certified digits beside it when it is irrational."""
+    if value.is_Rational or value.free_symbols:
+        return value
+    return replace(certified(value, digits), exact=value)
+
+
+# -- plot ---------------------------------------------------------------------
+PLOT = re.compile(r"^(\s*)(\S+)(\s+)(.*?)\s+over\s+([A-Za-z_][A-Za-z0-9_]*)(?:\s+--to\s+(\S+))?\s*$")
+
+
+def plot_curves(spectrum: Spectrum, figure: str | sympy.Expr, unit: str) -> dict[str, sympy.Expr]:
+    if figure == COEFFICIENTS:
+        return {f"sigma_{k + 1}": c for k, c in enumerate(spectrum.coefficients)}
+    return _figure_values(spectrum, [figure], unit)
+
+
+def plotted_parameter(call: CommandCall, state: State, name: str, column: int):
+    """The real, ranged parameter ``name`` of the state, and a check that it is the only one."""
+    symbols = {s.name: s for s in state.symbols}
+    if name not in symbols:
+        has = ", ".join(sorted(symbols)) or "no parameters"
+        raise call.error(f"plot: the state has no parameter {name!r} (it has {has})", column, len(name))
+    param = state.parameter(name)
+    if param is None or not param.is_real:
+        raise call.error(f"plot: {name} is complex; only a real parameter can be plotted "
+                         f"(declare it: real {name} in [lo, hi])", column, len(name))
+    if param.range is None:
+        raise call.error(f"plot: {name} has no declared range; declare one, as in "
+                         f"'real {name} in [0, pi]'", column, len(name))
+    others = sorted(set(symbols) - {name})
+    if others:
+        raise call.error(f"plot: the state also depends on {', '.join(others)}; fix "
+                         f"{'them' if len(others) > 1 else 'it'} with 'with {others[0]}=...'",
+                         column, len(name))
+    return symbols[name], param.range
+
+
+def strata_markers(state: State, cut: Cut, symbol: sympy.Symbol) -> tuple[list[Marker], str | None]:
+    """Where the Schmidt rank drops, from ketsplit.strata when it is there."""
+    try:
+        from ..strata import strata
+    except ImportError:
+        return [], "rank strata are not marked (ketsplit.strata is not available)"
+    try:
+        found = strata(state, cut)
+    except (InputError, ArithmeticError, NotImplementedError) as err:
+        return [], f"rank strata are not marked: {err}"
+    markers = []
+    for stratum in found[1:]:
+        for point in stratum.points or ():
+            value = next((v for k, v in point.items() if getattr(k, "name", k) == symbol.name), None)
+            if value is not None:
+                markers.append(Marker(value, f"rank {stratum.rank} at {symbol.name} = {sympy.sstr(value)}"))
+    return markers, None
+
+
+@command("plot", "plot FIGURE STATE [CUT] over NAME [--to FILE.svg] [with NAME=VALUE, ...]",
+         "a figure (or 'coefficients') across the declared range of one real parameter",
+         "plot entropy cos(t)|00> + sin(t)|11> 1|2 over t")
+def run_plot(call: CommandCall) -> Report:
+    match = PLOT.match(call.args)
+    if match is None:
+        raise call.error("plot: expected 'plot FIGURE STATE [CUT] over NAME [--to FILE.svg]'",
+                         call.offset, len(call.args.rstrip()) or 1)
+    figure_word, figure_at = match.group(2), call.offset + match.start(2)
+    unit = call.session.settings.entropy_unit
+    figure = _plot_figure(call, figure_word, figure_at)
+    inner = replace(call, args=match.group(4), offset=call.offset + match.start(4))
+    state, cut = inner.state_and_cut()
+    symbol, bounds = plotted_parameter(call, state, match.group(5), call.offset + match.start(5))
+    d = schmidt(state, cut)
+    markers, note = strata_markers(state, cut, symbol)
+    title = f"{_figure_label(figure, unit) if figure != COEFFICIENTS else 'Schmidt coefficients'} of " \
+            f"{_subject(inner)} across {cut.describe(d.state)}"
+    chart = make_chart(title, plot_curves(Spectrum.of(d), figure, unit), symbol, bounds, markers)
+    items: tuple = (Plot(terminal_lines(chart)),)
+    if match.group(6):
+        items += (Field("written", write_chart(chart, match.group(6))),)
+    return Report(title, items, tuple(n for n in (note,) + d.notes if n))
+
+
+def _plot_figure(call: CommandCall, word: str, column: int) -> str | sympy.Expr:
+    if word == COEFFICIENTS or word in NAMES:
+        return word
+    if RENYI.match(word):
+        return renyi_order(call, word, column)
+    raise call.error(unknown_figure(word).message + f"; or {COEFFICIENTS} for every Schmidt coefficient",
+                     column, len(word))

@@ -1,0 +1,278 @@
+"""Entanglement figures of a pure state across a cut, as exact sympy expressions.
+
+Every figure is a function of the Schmidt coefficients sigma_k alone (the
+squared ones p_k = sigma_k^2 are the nonzero eigenvalues of either reduced
+state), so each is built from :attr:`Decomposition.coefficients` and
+:attr:`Decomposition.squared` and simplified with the parameters' declared
+assumptions.  Logarithmic figures (entropy, Renyi entropies, log-negativity)
+are in bits by default, or in nats.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+from typing import Callable, Sequence
+
+import sympy
+
+from .cuts import Cut
+from .decomposition import Decomposition, schmidt
+from .language.errors import InputError
+from .states import State
+
+UNITS = {"bits": sympy.log(2), "nats": sympy.Integer(1)}
+
+DESCRIPTIONS = {
+    "entropy": "von Neumann entropy of the reduced state, -sum p log p",
+    "renyi2": "Renyi-2 entropy, -log sum p^2",
+    "purity": "purity of the reduced state, tr rho^2 = sum p^2",
+    "linear_entropy": "linear entropy, 1 - tr rho^2",
+    "concurrence": "concurrence, sqrt(2 (1 - tr rho^2))",
+    "negativity": "negativity, ((sum sigma)^2 - 1)/2",
+    "log_negativity": "log-negativity, 2 log sum sigma",
+    "participation": "participation ratio, 1/tr rho^2 (effective number of Schmidt terms)",
+    "geometric": "geometric measure, 1 - max p",
+}
+NAMES = tuple(DESCRIPTIONS)
+LOGARITHMIC = frozenset({"entropy", "renyi2", "log_negativity"})
+
+
+@dataclass(frozen=True)
+class Spectrum:
+    """Schmidt coefficients sigma_k and their squares p_k of one normalised state."""
+
+    coefficients: tuple[sympy.Expr, ...]
+    squared: tuple[sympy.Expr, ...]
+
+    @property
+    def rank(self) -> int:
+        return len(self.coefficients)
+
+    @classmethod
+    def of(cls, decomposition: Decomposition) -> "Spectrum":
+        return cls(tuple(decomposition.coefficients), tuple(decomposition.squared))
+
+
+def unit_log(unit: str) -> sympy.Expr:
+    """log of the base of the unit: log 2 for bits, 1 for nats."""
+    if unit not in UNITS:
+        raise InputError(f"unknown entropy unit {unit!r}; expected one of {', '.join(UNITS)}")
+    return UNITS[unit]
+
+
+@lru_cache(maxsize=4096)
+def tidy(expr: sympy.Expr) -> sympy.Expr:
+    """A readable closed form: the shortest of the expression and its simplifications.
+
+    Logarithms are left alone (sympy folds sums of logs into powers such as
+    log(x^(1/(7 log 2)))); their arguments are tidied instead.  Max and Min of
+    tidied values are kept as they are (simplify only slows down on them).
+    """
+    expr = sympy.sympify(expr)
+    if expr.is_Rational or expr.has(sympy.Max, sympy.Min):
+        return expr
+    if expr.has(sympy.log):
+        return _tidy_logs(expr)
+    candidates = [expr, sympy.simplify(expr)]
+    if expr.has(sympy.sin, sympy.cos):
+        candidates.append(sympy.trigsimp(candidates[1]))
+    return min(candidates, key=sympy.count_ops)
+
+
+def _tidy_logs(expr: sympy.Expr) -> sympy.Expr:
+    tidied = expr.replace(lambda e: isinstance(e, sympy.log), lambda e: sympy.log(tidy(e.args[0])))
+    if tidied.free_symbols:
+        return tidied
+    # constants: every logarithm here has a positive argument, so expanding is exact
+    expanded = sympy.expand(sympy.expand_log(tidied, force=True))
+    return min((tidied, expanded), key=sympy.count_ops)
+
+
+def without_extrema(expr: sympy.Expr) -> sympy.Expr:
+    """Max and Min of real values rewritten as (a + b +- |a - b|)/2, which the
+    enclosures of :mod:`ketsplit.numeric.enclose` can evaluate."""
+    def fold(args, sign):
+        result = args[0]
+        for other in args[1:]:
+            result = (result + other + sign * sympy.Abs(result - other)) / 2
+        return result
+    return expr.replace(lambda e: isinstance(e, (sympy.Max, sympy.Min)),
+                        lambda e: fold(e.args, 1 if isinstance(e, sympy.Max) else -1))
+
+
+def _log(x: sympy.Expr) -> sympy.Expr:
+    """log x, with a rational x < 1 written as -log(1/x) so the sign shows."""
+    x = tidy(x)
+    if x.is_Rational and 0 < x < 1:
+        return -sympy.log(1 / x)
+    return sympy.log(x)
+
+
+def _entropy(p: Sequence[sympy.Expr], base: sympy.Expr) -> sympy.Expr:
+    return -sympy.Add(*(x * _log(x) for x in p if x != 1)) / base
+
+
+def _purity(p: Sequence[sympy.Expr]) -> sympy.Expr:
+    return sympy.Add(*(x ** 2 for x in p))
+
+
+def _pairs(values: Sequence[sympy.Expr]) -> sympy.Expr:
+    """sum_{i<j} x_i x_j.  With sum p = 1, 1 - sum p^2 = 2 sum_{i<j} p_i p_j, and
+    with sum sigma^2 = 1, ((sum sigma)^2 - 1)/2 = sum_{i<j} sigma_i sigma_j: the
+    pair sums give the shorter closed forms (2 sigma_1 sigma_2 for two qubits)."""
+    return sympy.Add(*(values[i] * values[j] for i in range(len(values))
+                       for j in range(i + 1, len(values))))
+
+
+def _largest(p: Sequence[sympy.Expr]) -> sympy.Expr:
+    return sympy.Max(*p) if len(p) > 1 else p[0]
+
+
+FORMULAS: dict[str, Callable[[Spectrum, sympy.Expr], sympy.Expr]] = {
+    "entropy": lambda s, base: _entropy(s.squared, base),
+    "renyi2": lambda s, base: -_log(_purity(s.squared)) / base,
+    "purity": lambda s, base: _purity(s.squared),
+    "linear_entropy": lambda s, base: 2 * _pairs(s.squared),
+    "concurrence": lambda s, base: 2 * sympy.sqrt(_pairs(s.squared)) if s.rank > 2 else
+    2 * _pairs(s.coefficients),
+    "negativity": lambda s, base: _pairs(s.coefficients),
+    "log_negativity": lambda s, base: 2 * _log(sympy.Add(*s.coefficients)) / base,
+    "participation": lambda s, base: 1 / _purity(s.squared),
+    "geometric": lambda s, base: 1 - _largest(s.squared),
+}
+
+
+def spectrum_figures(spectrum: Spectrum, unit: str = "bits",
+                     names: Sequence[str] = NAMES) -> dict[str, sympy.Expr]:
+    """The named figures of one spectrum, simplified."""
+    base = unit_log(unit)
+    unknown = [n for n in names if n not in FORMULAS]
+    if unknown:
+        raise unknown_figure(unknown[0])
+    return {name: tidy(FORMULAS[name](spectrum, base)) for name in names}
+
+
+def unknown_figure(name: str) -> InputError:
+    import difflib
+    close = difflib.get_close_matches(name, list(NAMES), n=1)
+    hint = f"; did you mean {close[0]!r}?" if close else ""
+    return InputError(f"no figure named {name!r}{hint}; the figures are {', '.join(NAMES)} "
+                      "and renyi(ALPHA)")
+
+
+def figures(state: State, cut: Cut | str | None = None, unit: str = "bits") -> dict[str, sympy.Expr]:
+    """Every entanglement figure of the normalised ``state`` across ``cut``, exactly.
+
+    Keys: entropy, renyi2, purity, linear_entropy, concurrence, negativity,
+    log_negativity, participation, geometric.  ``unit`` is "bits" or "nats"
+    and applies to the logarithmic ones.
+    """
+    return spectrum_figures(Spectrum.of(schmidt(state, cut)), unit)
+
+
+measures = figures
+
+
+def renyi_of(spectrum: Spectrum, alpha: sympy.Expr, unit: str = "bits") -> sympy.Expr:
+    """Renyi-alpha entropy log(sum p^alpha)/(1 - alpha); alpha = 1 is the von Neumann
+    entropy, alpha = 0 the log of the rank, alpha = oo the min-entropy -log max p."""
+    alpha = sympy.sympify(alpha)
+    base = unit_log(unit)
+    if not (alpha.is_real and alpha.is_nonnegative) and alpha is not sympy.oo:
+        raise InputError(f"the Renyi order must be a real number >= 0 (or oo), found {alpha}")
+    if alpha == 1:
+        return _entropy(spectrum.squared, base)
+    if alpha is sympy.oo:
+        return tidy(-_log(_largest(spectrum.squared)) / base)
+    return tidy(_log(sympy.Add(*(p ** alpha for p in spectrum.squared))) / ((1 - alpha) * base))
+
+
+def renyi(state: State, cut: Cut | str | None, alpha, unit: str = "bits") -> sympy.Expr:
+    """The Renyi-alpha entropy of the reduced state of ``state`` across ``cut``."""
+    return renyi_of(Spectrum.of(schmidt(state, cut)), alpha, unit)
+
+
+# -- every cut of a many-part state ------------------------------------------
+MAX_OVERVIEW_PARTS = 10  # 511 cuts
+
+
+@dataclass(frozen=True)
+class CutSummary:
+    cut: Cut
+    rank: int
+    entropy: sympy.Expr
+
+
+@dataclass(frozen=True)
+class Overview:
+    """Rank and entropy across every bipartition, and the finest product split.
+
+    ``groups`` are the parts that stay together: two parts share a group
+    unless some rank-one cut separates them (a state that factorises across
+    S|S' and T|T' factorises across their intersections, so the finest split
+    exists and is read off the rank-one cuts).
+    """
+
+    summaries: tuple[CutSummary, ...]
+    groups: tuple[tuple[int, ...], ...]
+    generic: bool                          # ranks are generic (the state has parameters)
+
+    @property
+    def fully_product(self) -> bool:
+        return all(len(g) == 1 for g in self.groups)
+
+    @property
+    def entangled_across_every_cut(self) -> bool:
+        return len(self.groups) == 1 and len(self.groups[0]) > 1
+
+
+def every_cut(nparts: int) -> list[Cut]:
+    """The 2^(n-1) - 1 bipartitions, each once, with the smaller side on the left
+    (part 1's side on a tie), smaller sides first."""
+    cuts = []
+    for mask in range(1 << (nparts - 1)):
+        left = (0,) + tuple(p for p in range(1, nparts) if mask >> (p - 1) & 1)
+        if len(left) < nparts:
+            cut = Cut(left, tuple(p for p in range(nparts) if p not in left))
+            cuts.append(cut.swapped() if len(cut.left) > len(cut.right) else cut)
+    return sorted(cuts, key=lambda c: (len(c.left), c.left))
+
+
+def overview(state: State, unit: str = "bits") -> Overview:
+    """Schmidt rank and entropy across every cut, and which parts split off."""
+    from .language.errors import LimitError
+    if state.nparts < 2:
+        raise InputError("a state of one part has no cuts")
+    if state.nparts > MAX_OVERVIEW_PARTS:
+        raise LimitError(f"the state has {state.nparts} parts, {2 ** (state.nparts - 1) - 1} cuts; "
+                         f"the overview stops at {MAX_OVERVIEW_PARTS} parts "
+                         "(ketsplit.figures.MAX_OVERVIEW_PARTS): ask for single cuts instead")
+    summaries = []
+    for cut in every_cut(state.nparts):
+        spectrum = Spectrum.of(schmidt(state, cut))
+        summaries.append(CutSummary(cut, spectrum.rank, spectrum_figures(spectrum, unit, ("entropy",))
+                                    ["entropy"]))
+    return Overview(tuple(summaries), product_groups(state.nparts, summaries), bool(state.symbols))
+
+
+def product_groups(nparts: int, summaries: Sequence[CutSummary]) -> tuple[tuple[int, ...], ...]:
+    """Parts kept together by every rank-one cut (the atoms of the product split)."""
+    signature = {p: tuple(p in s.cut.left for s in summaries if s.rank == 1) for p in range(nparts)}
+    groups: dict[tuple[bool, ...], list[int]] = {}
+    for p in range(nparts):
+        groups.setdefault(signature[p], []).append(p)
+    return tuple(sorted(tuple(g) for g in groups.values()))
+
+
+def verdict(overview: Overview, state: State) -> str:
+    """One line: fully product, which parts split off, or entangled across every cut."""
+    from .cuts import join_names
+    if overview.fully_product:
+        text = "fully product: every part splits off"
+    elif overview.entangled_across_every_cut:
+        text = "entangled across every cut: no part splits off"
+    else:
+        pieces = " ⊗ ".join(join_names(state, g) for g in overview.groups)
+        text = f"splits as {pieces}; entangled within each group of more than one part"
+    return text + (" (for generic parameter values)" if overview.generic else "")
