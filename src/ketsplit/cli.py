@@ -1,59 +1,156 @@
-"""Command line: ``ketsplit -c STATEMENTS``, ``ketsplit run FILE``, ``ketsplit`` (shell)."""
+"""Command line: ``ketsplit -c STATEMENTS``, ``ketsplit run|verify|export FILE``, ``ketsplit`` (shell).
+
+Exit status: 0 when everything ran (and, for ``verify``, matched); 1 when
+``verify`` finds a result that differs or a damaged worksheet; 2 when input
+could not be run (an error in a statement, a file that is not a worksheet).
+"""
 
 from __future__ import annotations
 
 import argparse
 import json
 import sys
+from pathlib import Path
 
 from .language.errors import InputError
+from .sheets.format import Sheet, SheetError, parse_sheet, read_sheet
 
 
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="ketsplit", description=(
-        "Exact and certified Schmidt decompositions of pure multipartite states."))
+        "Exact and certified Schmidt decompositions of pure multipartite states. "
+        "With no arguments, start the interactive shell."))
     parser.add_argument("-c", dest="statements", help="run statements (newline- or ';'-separated)")
-    parser.add_argument("--json", action="store_true", help="one JSON object per statement")
-    parser.add_argument("--pretty", action="store_true", help="2-D Unicode math instead of linear text")
+    output_options(parser)
     sub = parser.add_subparsers(dest="action")
-    run = sub.add_parser("run", help="run a file of statements and print the results")
+    run = sub.add_parser("run", help="run a worksheet (or a file of statements) and print the results")
     run.add_argument("file")
-    run.add_argument("--json", action="store_true", dest="json_sub")
+    output_options(run, argparse.SUPPRESS)
+    run.add_argument("--record", action="store_true",
+                     help="write this run's results into the worksheet (atomically)")
+    verify = sub.add_parser("verify", help="replay a worksheet; exit 1 where a result differs")
+    verify.add_argument("file")
+    export = sub.add_parser("export", help="a worksheet as a LaTeX fragment or as Markdown")
+    export.add_argument("file")
+    export.add_argument("--to", choices=("tex", "md"), required=True)
+    export.add_argument("-o", dest="output", help="write to this file instead of printing")
     return parser
 
 
-def emit(results, as_json: bool, pretty: bool) -> None:
-    for result in results:
-        if as_json:
-            print(json.dumps(result.to_json(), ensure_ascii=False))
-        else:
-            print(result.text(pretty))
-
-
-def run_text(text: str, as_json: bool, pretty: bool) -> int:
-    from .session import Session, split_statements
-    session = Session()
-    for statement, line in split_statements(text):
-        try:
-            emit([session.execute(statement, line)], as_json, pretty)
-        except InputError as err:
-            print(f"error: {err}", file=sys.stderr)
-            return 2
-    return 0
+def output_options(parser: argparse.ArgumentParser, default=False) -> None:
+    parser.add_argument("--json", action="store_true", default=default,
+                        help="one JSON object per statement")
+    parser.add_argument("--pretty", action="store_true", default=default,
+                        help="2-D Unicode math instead of linear text")
 
 
 def main(argv: list[str] | None = None) -> int:
     args = build_parser().parse_args(argv)
-    as_json = args.json or getattr(args, "json_sub", False)
-    if args.statements is not None:
-        return run_text(args.statements, as_json, args.pretty)
-    if args.action == "run":
-        try:
-            with open(args.file, encoding="utf-8") as handle:
-                text = handle.read()
-        except (OSError, UnicodeDecodeError) as err:
-            print(f"error: cannot read {args.file}: {err}", file=sys.stderr)
-            return 2
-        return run_text(text, as_json, args.pretty)
-    from .repl.loop import start
-    return start()
+    try:
+        if args.statements is not None:
+            sheet = parse_sheet(args.statements.encode("utf-8"), "-c")
+            return run_sheet(sheet, args, typed=True)
+        if args.action is None:
+            from .repl.loop import start
+            return start()
+        sheet = read_sheet(args.file)
+    except SheetError as err:
+        print(f"error: {err}", file=sys.stderr)
+        return 2
+    return {"run": run_file, "verify": verify_file, "export": export_file}[args.action](sheet, args)
+
+
+# -- run -------------------------------------------------------------------------
+
+def run_file(sheet: Sheet, args) -> int:
+    report_problems(sheet, args.file)
+    return run_sheet(sheet, args, typed=False)
+
+
+def run_sheet(sheet: Sheet, args, typed: bool) -> int:
+    """Run and print; statements ``typed`` after -c may save and open files, and are not echoed."""
+    from .sheets.runner import replay
+    _, outcomes = replay(sheet, files=typed)
+    failed = False
+    for outcome in outcomes:
+        if not typed and outcome.runs and not args.json:
+            print(f"» {outcome.entry.source.strip()}")
+        for result in outcome.results:
+            print(json.dumps(result.to_json(), ensure_ascii=False) if args.json
+                  else result.text(args.pretty))
+        if outcome.error:
+            failed = True
+            report_error(outcome.error, outcome.entry.source, args.json)
+    if getattr(args, "record", False):
+        record(sheet, outcomes, args.file)
+    return 2 if failed else 0
+
+
+def report_error(err: InputError, source: str, as_json: bool) -> None:
+    if as_json:
+        print(json.dumps({"statement": source.strip(), "kind": "error", "line": err.line,
+                          "column": err.column, "message": err.message}, ensure_ascii=False))
+    else:
+        print(f"error: {err}", file=sys.stderr)
+
+
+def report_problems(sheet: Sheet, name: str) -> None:
+    for problem in sheet.problems:
+        print(f"{name}: {problem}", file=sys.stderr)
+
+
+def record(sheet: Sheet, outcomes, path: str) -> None:
+    from .sheets.runner import rerecorded, save
+    try:
+        save(rerecorded(sheet, outcomes), path)
+    except OSError as err:
+        print(f"error: cannot write {path}: {err.strerror or err}; the file is unchanged",
+              file=sys.stderr)
+        return
+    print(f"recorded {sum(1 for o in outcomes if o.runs)} lines in {path}", file=sys.stderr)
+
+
+# -- verify ----------------------------------------------------------------------
+
+def verify_file(sheet: Sheet, args) -> int:
+    from .sheets.runner import differences, replay
+    if sheet.format is None:
+        print(f"error: {args.file} is not a worksheet (it has no '#! ketsplit worksheet' line), "
+              f"so it records no results; record them with 'ketsplit run {args.file} --record'",
+              file=sys.stderr)
+        return 2
+    report_problems(sheet, args.file)
+    session, outcomes = replay(sheet)
+    found = differences(outcomes, session)
+    for difference in found:
+        print(f"{args.file}, {difference.describe()}")
+    checked = sum(1 for o in outcomes if o.runs)
+    if found or sheet.problems:
+        print(f"{args.file}: {len(found)} of {checked} lines differ from the recorded results"
+              + (f"; {len(sheet.problems)} damaged lines" if sheet.problems else ""))
+        return 1
+    print(f"{args.file}: all {checked} lines give the recorded results")
+    return 0
+
+
+# -- export ----------------------------------------------------------------------
+
+def export_file(sheet: Sheet, args) -> int:
+    from .sheets.atomic import write_atomic
+    from .sheets.export import export
+    from .sheets.runner import differences, replay
+    report_problems(sheet, args.file)
+    session, outcomes = replay(sheet)
+    for difference in differences(outcomes, session) if sheet.format is not None else []:
+        print(f"warning: {args.file}, line {difference.line}: the result differs from the one "
+              "recorded; the export shows the result of this run", file=sys.stderr)
+    text = export(outcomes, args.to, Path(args.file).name)
+    if args.output is None:
+        sys.stdout.write(text)
+        return 0
+    try:
+        write_atomic(args.output, text)
+    except OSError as err:
+        print(f"error: cannot write {args.output}: {err.strerror or err}", file=sys.stderr)
+        return 2
+    return 0

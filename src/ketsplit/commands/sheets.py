@@ -1,0 +1,67 @@
+"""The statements ``save FILE`` and ``open FILE``: the session as a worksheet."""
+
+from __future__ import annotations
+
+import dataclasses
+from pathlib import Path
+
+from ..render.report import Field, Report
+from ..session import Session
+from ..sheets.format import EXTENSION, SheetError, read_sheet
+from ..sheets.runner import differences, replay, save, sheet_of_transcript
+from .registry import CommandCall, command
+
+
+def sheet_path(call: CommandCall) -> Path:
+    """The file named after the command (quotes allowed); ``.kss`` added when it has no suffix."""
+    text = call.args.strip()
+    if len(text) >= 2 and text[0] == text[-1] and text[0] in "\"'":
+        text = text[1:-1]
+    if not text:
+        raise call.error(f"{call.name}: name the worksheet file, as in '{call.name} notes{EXTENSION}'")
+    path = Path(text).expanduser()
+    return path if path.suffix else path.with_suffix(EXTENSION)
+
+
+def argument_place(call: CommandCall) -> tuple[int, int]:
+    """0-based column and length of the file argument."""
+    return call.offset + len(call.args) - len(call.args.lstrip()), len(call.args.strip())
+
+
+@command("save", "save FILE", "write the session so far as a worksheet (statements and results)",
+         "save photon-pair.kss", topic="worksheets")
+def run_save(call: CommandCall) -> Report:
+    path = sheet_path(call)
+    sheet = sheet_of_transcript(call.session.transcript, call.session.settings)
+    try:
+        save(sheet, path)
+    except OSError as err:
+        raise call.error(f"cannot write {path}: {err.strerror or err}; nothing was saved and "
+                         "the session goes on", *argument_place(call)) from None
+    return Report(f"saved {len(sheet.lines)} lines to {path}")
+
+
+@command("open", "open FILE", "replace the session by a worksheet's, replaying its statements",
+         "open photon-pair.kss", topic="worksheets")
+def run_open(call: CommandCall) -> Report:
+    path = sheet_path(call)
+    try:
+        sheet = read_sheet(path)
+    except SheetError as err:
+        raise call.error(f"{err}", *argument_place(call)) from None
+    fresh, outcomes = replay(sheet)
+    changed = differences(outcomes, fresh) if sheet.format is not None else []
+    adopt(call.session, fresh)
+    items = tuple(Field(f"{o.entry.line}  {o.entry.source.strip()}", r.text())
+                  for o in outcomes for r in o.records)
+    notes = ([f"{path}: {p}" for p in sheet.problems]
+             + [f"line {d.line}: the result differs from the one recorded" for d in changed]
+             + [f"line {o.entry.line} failed: {o.error.message}" for o in outcomes if o.error])
+    ran = sum(1 for o in outcomes if o.runs)
+    return Report(f"opened {path}: {ran} lines replayed", items, tuple(notes))
+
+
+def adopt(session: Session, fresh: Session) -> None:
+    """Make ``session`` the replayed one (bindings, declarations, settings, transcript)."""
+    for f in dataclasses.fields(Session):
+        setattr(session, f.name, getattr(fresh, f.name))

@@ -1,0 +1,73 @@
+"""A replayed worksheet as a LaTeX fragment (amsmath) or as Markdown with ``$$`` math.
+
+Comments become prose, each statement is kept (as a LaTeX comment, or as a
+code block in Markdown), and each result is rendered from its report by the
+renderers in :mod:`ketsplit.render`, so exported math is the math the
+terminal shows.
+"""
+
+from __future__ import annotations
+
+from typing import Callable
+
+from ..render.latex import escape as latex_escape
+from ..render.latex import to_latex
+from ..render.markdown import escape as markdown_escape
+from ..render.markdown import to_markdown
+from ..render.report import Field, Report, Table
+from .runner import Outcome
+
+FORMATS = ("tex", "md")
+
+
+def export(outcomes: list[Outcome], to: str, name: str) -> str:
+    """The worksheet in the format ``to`` ('tex' or 'md')."""
+    if to not in FORMATS:
+        raise ValueError(f"no export format {to!r}; choose one of {', '.join(FORMATS)}")
+    return (to_tex if to == "tex" else to_md)(outcomes, name)
+
+
+def comment_text(source: str) -> str:
+    """The words of a comment line (without its '#')."""
+    return source.strip().lstrip("#").strip()
+
+
+def blocks(outcomes: list[Outcome], prose: Callable[[str], str], statement: Callable[[str], str],
+           result: Callable[[Report], str], failure: Callable[[str], str]) -> list[str]:
+    out = []
+    for outcome in outcomes:
+        source = outcome.entry.source
+        if not outcome.runs:
+            if comment_text(source):
+                out.append(prose(comment_text(source)))
+            continue
+        out.append(statement(source.strip()))
+        out.extend(result(r.report) for r in outcome.results)
+        if outcome.error:
+            out.append(failure(outcome.error.message))
+    return out
+
+
+def to_tex(outcomes: list[Outcome], name: str) -> str:
+    head = [f"% ketsplit worksheet {name}, exported as a LaTeX fragment",
+            "% needs \\usepackage{amsmath}"]
+    body = blocks(outcomes, prose=lambda text: latex_escape(text) + "\n",
+                  statement=lambda text: f"% > {text}", result=report_tex,
+                  failure=lambda message: f"% error: {message}")
+    return "\n".join(head + body) + "\n"
+
+
+def report_tex(report: Report) -> str:
+    """The report's LaTeX; a report with no value shows its title as a display."""
+    if any(isinstance(item, (Field, Table)) for item in report.items):
+        return to_latex(report)
+    return (to_latex(report) + "\n\\begin{equation*}\n\\text{" + latex_escape(report.title)
+            + "}\n\\end{equation*}")
+
+
+def to_md(outcomes: list[Outcome], name: str) -> str:
+    head = [f"*ketsplit worksheet {markdown_escape(name)}*"]
+    body = blocks(outcomes, prose=markdown_escape,
+                  statement=lambda text: f"```\n{text}\n```", result=to_markdown,
+                  failure=lambda message: f"**error:** {markdown_escape(message)}")
+    return "\n\n".join(head + body) + "\n"

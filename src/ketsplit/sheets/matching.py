@@ -1,0 +1,92 @@
+"""Whether a result computed now agrees with the one a worksheet recorded.
+
+Lines that read the same agree.  Otherwise the two lines are cut into cells
+(``label: value``, or table columns); a pair of cells agrees when
+
+- the text outside their decimal numbers (those with a point or an exponent;
+  whole numbers such as a rank compare exactly) is the same and each pair of
+  decimals agrees to the digits printed: a certified decimal with last place u
+  is the correctly rounded value of a number within u/2 of it
+  (:mod:`ketsplit.numeric.digits`), so two of them agree when they lie within
+  half the sum of their last places (compared in exact rationals); or
+- both read, in the state language, as exact values whose difference
+  simplifies to zero (the ``equal`` callback decides; it must say False when
+  it cannot prove equality).
+
+So an exact result passes only when it is the same value, and a numeric one
+only when it is the same to every digit it certified.
+"""
+
+from __future__ import annotations
+
+import re
+from fractions import Fraction
+from typing import Callable
+
+NUMBER = re.compile(r"(?<![\w.])(-?)(\d+)(?:\.(\d+))?(?:e([-+]?\d+))?(?![\w.])")
+LABELLED = re.compile(r"^([^:]{1,80}): (.*)$")
+COLUMNS = re.compile(r"\s{2,}")
+RULE = re.compile(r"^[─\s]+$")
+
+Equal = Callable[[str, str], bool]
+
+
+def records_agree(recorded: str, fresh: str, equal: Equal) -> bool:
+    """Do two recorded results (several lines each) agree, line by line?"""
+    old, new = recorded.splitlines(), fresh.splitlines()
+    return len(old) == len(new) and all(lines_agree(a, b, equal) for a, b in zip(old, new))
+
+
+def lines_agree(recorded: str, fresh: str, equal: Equal) -> bool:
+    recorded, fresh = recorded.rstrip(), fresh.rstrip()
+    if recorded == fresh or (RULE.match(recorded) and RULE.match(fresh)):
+        return True
+    old, new = cells(recorded), cells(fresh)
+    return len(old) == len(new) and all(cells_agree(a, b, equal) for a, b in zip(old, new))
+
+
+def cells(line: str) -> list[str]:
+    """``label: value`` as [label, value]; otherwise the columns of a table row."""
+    labelled = LABELLED.match(line.strip())
+    if labelled:
+        return [labelled.group(1), labelled.group(2)]
+    return COLUMNS.split(line.strip())
+
+
+def cells_agree(recorded: str, fresh: str, equal: Equal) -> bool:
+    return recorded == fresh or decimals_agree(recorded, fresh) or equal(recorded, fresh)
+
+
+def decimals(text: str) -> list[re.Match[str]]:
+    return [m for m in NUMBER.finditer(text) if m.group(3) is not None or m.group(4) is not None]
+
+
+def skeleton(text: str, found: list[re.Match[str]]) -> str:
+    """The text with each decimal replaced by a mark."""
+    pieces, at = [], 0
+    for match in found:
+        pieces += [text[at:match.start()], "\0"]
+        at = match.end()
+    return "".join(pieces) + text[at:]
+
+
+def decimals_agree(recorded: str, fresh: str) -> bool:
+    """Same text around the decimals, and each pair of decimals equal to the digits shown."""
+    old, new = decimals(recorded), decimals(fresh)
+    if not old or len(old) != len(new) or skeleton(recorded, old) != skeleton(fresh, new):
+        return False
+    return all(2 * abs(value(a) - value(b)) <= last_place(a) + last_place(b)
+               for a, b in zip(old, new))
+
+
+def value(match: re.Match[str]) -> Fraction:
+    sign, whole, fraction, exponent = match.groups()
+    fraction = fraction or ""
+    digits = Fraction(int(whole + fraction), 10 ** len(fraction))
+    return (-1 if sign else 1) * digits * Fraction(10) ** int(exponent or 0)
+
+
+def last_place(match: re.Match[str]) -> Fraction:
+    """One unit in the last printed place."""
+    _, _, fraction, exponent = match.groups()
+    return Fraction(10) ** (int(exponent or 0) - len(fraction or ""))

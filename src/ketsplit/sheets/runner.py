@@ -1,0 +1,182 @@
+"""Run a worksheet through a Session, compare with what it recorded, re-record it.
+
+Only statements of the state language run: a worksheet line that would act on
+files (``save``, ``open``) is refused, so replaying a stranger's worksheet
+cannot write or read anything.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import datetime
+from dataclasses import dataclass
+from pathlib import Path
+
+import sympy
+
+from .. import __version__
+from ..language.build import KetValue
+from ..language.errors import InputError, Span
+from ..session import UNRECORDED, Entry, Result, Session, split_statements
+from .format import Record, Sheet, SheetLine, format_sheet
+from .matching import records_agree
+
+
+@dataclass(frozen=True)
+class Outcome:
+    """What one worksheet line gives now: its results, then the error that stopped it."""
+
+    entry: SheetLine
+    results: tuple[Result, ...] = ()
+    error: InputError | None = None
+
+    @property
+    def records(self) -> tuple[Record, ...]:
+        found = tuple(record_of(r) for r in self.results)
+        return found + ((error_record(self.error),) if self.error else ())
+
+    @property
+    def runs(self) -> bool:
+        """Does the line hold a statement (rather than only a comment)?"""
+        return any(True for _ in split_statements(self.entry.source))
+
+
+@dataclass(frozen=True)
+class Difference:
+    """A line whose result now is not the one recorded."""
+
+    line: int
+    source: str
+    recorded: tuple[Record, ...]
+    fresh: tuple[Record, ...]
+
+    def describe(self) -> str:
+        def block(records: tuple[Record, ...]) -> str:
+            text = "\n".join(r.text() for r in records) or "(nothing)"
+            return "\n".join("    " + line for line in text.splitlines())
+        return (f"line {self.line}: {self.source.strip()}\n  recorded:\n{block(self.recorded)}"
+                f"\n  now:\n{block(self.fresh)}")
+
+
+def record_of(result: Result) -> Record:
+    return Record(tuple(result.text().splitlines()) or ("",))
+
+
+def error_record(err: InputError) -> Record:
+    """An error without its line number, so that moving a line does not change it."""
+    where = f"column {err.column}: " if err.span else ""
+    caret = err.caret().splitlines()
+    return Record((f"error: {where}{err.message}", *caret))
+
+
+def replay(sheet: Sheet, files: bool = False) -> tuple[Session, list[Outcome]]:
+    """Run every line of the sheet in order in a fresh session; ``save`` and ``open``
+    run only when ``files`` allows them (statements typed by the user, not a file)."""
+    session = Session(settings=sheet.settings)
+    return session, [run_line(session, entry, files) for entry in sheet.lines]
+
+
+def run_line(session: Session, entry: SheetLine, files: bool = False) -> Outcome:
+    refused = None if files else refusal(entry)
+    if refused:
+        return Outcome(entry, (), refused)
+    before = len(session.transcript)
+    try:
+        return Outcome(entry, tuple(session.run(entry.source, entry.line)))
+    except InputError as err:
+        done = tuple(r for e in session.transcript[before:] for r in e.results)
+        return Outcome(entry, done, err)
+
+
+def refusal(entry: SheetLine) -> InputError | None:
+    from ..commands import FIRST_WORD
+    for statement, _ in split_statements(entry.source):
+        word = FIRST_WORD.match(statement)
+        if word and word.group(1) in UNRECORDED:
+            return InputError(f"a worksheet cannot run {word.group(1)!r}: worksheets hold "
+                              "computations only", Span(entry.line, word.start(1) + 1,
+                                                        len(word.group(1))), entry.source)
+    return None
+
+
+def differences(outcomes: list[Outcome], session: Session) -> list[Difference]:
+    """The lines whose results now differ from those recorded (in file order)."""
+    equal = ValueEquality(session)
+    found = []
+    for outcome in outcomes:
+        recorded, fresh = outcome.entry.records, outcome.records
+        if not outcome.runs and not recorded:
+            continue
+        same = len(recorded) == len(fresh) and all(
+            records_agree(a.text(), b.text(), equal) for a, b in zip(recorded, fresh))
+        if not same:
+            found.append(Difference(outcome.entry.line, outcome.entry.source, recorded, fresh))
+    return found
+
+
+class ValueEquality:
+    """Decides whether two cells of text are the same exact value.
+
+    The texts are read with the state language in a scratch session that knows
+    the worksheet's parameters (so symbols carry the same assumptions) and no
+    bound names."""
+
+    def __init__(self, session: Session):
+        self.scratch = Session(params=dict(session.params), space=session.space)
+
+    def __call__(self, recorded: str, fresh: str) -> bool:
+        try:
+            a, b = self.read(recorded), self.read(fresh)
+        except InputError:
+            return False
+        return same_value(a, b)
+
+    def read(self, text: str):
+        text = text.strip()
+        if text.startswith("[") and not text.startswith("[["):
+            text = f"[{text}]"  # a list of values reads as a one-row matrix
+        return self.scratch.evaluate(text)
+
+
+def same_value(a, b) -> bool:
+    if isinstance(a, KetValue) and isinstance(b, KetValue):
+        labels = set(a.terms) | set(b.terms)
+        return a.nparts == b.nparts and all(
+            is_zero(a.terms.get(k, 0) - b.terms.get(k, 0)) for k in labels)
+    if isinstance(a, sympy.MatrixBase) and isinstance(b, sympy.MatrixBase):
+        return a.shape == b.shape and all(is_zero(x - y) for x, y in zip(a, b))
+    if isinstance(a, sympy.Expr) and isinstance(b, sympy.Expr):
+        return is_zero(a - b)
+    return False
+
+
+def is_zero(expr) -> bool:
+    """Proved zero (False when sympy cannot decide)."""
+    expr = sympy.sympify(expr)
+    return expr == 0 or sympy.simplify(expr) == 0
+
+
+# -- sheets from sessions and outcomes -----------------------------------------
+
+def sheet_of_transcript(transcript: list[Entry], settings) -> Sheet:
+    """The worksheet of a session: its lines as typed with their results."""
+    start = transcript[0].settings if transcript else settings
+    lines = tuple(SheetLine(e.source, n, tuple(record_of(r) for r in e.results))
+                  for n, e in enumerate(transcript, start=1))
+    return Sheet(lines, start)
+
+
+def rerecorded(sheet: Sheet, outcomes: list[Outcome]) -> Sheet:
+    """The sheet with the results of this run in place of those it recorded."""
+    lines = tuple(dataclasses.replace(o.entry, records=o.records) for o in outcomes)
+    return Sheet(lines, sheet.settings, sheet.header, sheet.format)
+
+
+def sheet_text(sheet: Sheet) -> str:
+    return format_sheet(sheet, __version__, datetime.date.today().isoformat())
+
+
+def save(sheet: Sheet, path: str | Path) -> None:
+    """Write the worksheet atomically (OSError when the path cannot be written)."""
+    from .atomic import write_atomic
+    write_atomic(path, sheet_text(sheet))
