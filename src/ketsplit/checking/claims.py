@@ -10,6 +10,8 @@ normalised state, as ``schmidt`` and ``reduce`` do).
   j = 1..m (m the dimension of the smaller side; by Newton's identities the
   power sums fix the multiset of eigenvalues), and c_k - |c_k| = 0 (each
   claimed coefficient is real and nonnegative);
+* a Schmidt form sum_k c_k (u_k)(w_k): it equals the state, and the u_k are
+  pairwise orthogonal, and so are the w_k;
 * Schmidt rank r: every (r+1)x(r+1) minor of C vanishes identically, and not
   every r x r minor does.  Numerically e_k(G), the k-th elementary symmetric
   function of the eigenvalues of G, is the sum of |k x k minors of C|^2
@@ -20,17 +22,22 @@ from __future__ import annotations
 
 from itertools import combinations
 from math import comb
+from typing import Mapping
 
 import flint
 import sympy
 
 from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
+from ..language.build import KetValue
 from ..language.errors import InputError
 from ..states import Parameter, State
 from .evaluation import values_at
+from .checker import compare_values
 from .decide import Difference, Entry, Options, Point, decide
-from .sides import paired_difference
-from .verdict import Verdict
+from .forms import FormTerm
+from .sides import paired_difference, parameters
+from .points import domain_text
+from .verdict import Verdict, all_of
 
 MAX_EXACT_SIDE = 6       # power sums of G are tried exactly up to this side dimension
 MAX_EXACT_MINORS = 400   # minors listed exactly up to this many
@@ -69,7 +76,19 @@ def reduced_claim(state: State, keep: tuple[int, ...], claimed: sympy.Matrix,
 
 
 def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
-                  params: tuple[Parameter, ...]) -> Difference:
+                  params: tuple[Parameter, ...], options: Options) -> Verdict:
+    """The claimed coefficients have the right squares (the spectrum) and are nonnegative."""
+    spectrum = decide(_spectrum_difference(state, cut, claimed, params), options)
+    signs = [(f"c{k} - |c{k}|", c, sympy.Abs(c)) for k, c in enumerate(claimed, start=1)]
+    nonnegative = decide(paired_difference(signs, params, ""), options)
+    return all_of(((spectrum, "the squared coefficients are not the spectrum of the reduced state"),
+                   (nonnegative, "a claimed coefficient is not real and nonnegative")),
+                  domain_text(params), "the squared coefficients are the spectrum of the reduced "
+                                       "state, and each coefficient is nonnegative")
+
+
+def _spectrum_difference(state: State, cut: Cut, claimed: list[sympy.Expr],
+                         params: tuple[Parameter, ...]) -> Difference:
     cut = smaller_side(state, cut)
     g, norm2 = gram(state, cut)
     m = g.rows
@@ -79,24 +98,19 @@ def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
     squares = [c * sympy.conjugate(c) for c in claimed]
     claimed_sums = [sympy.Add(*(s ** j for s in squares)) for j in range(1, m + 1)]
     labels = ["tr(rho) - sum c^2"] + [f"tr(rho^{j}) - sum c^{2 * j}" for j in range(2, m + 1)]
-    labels += [f"c{k + 1} - |c{k + 1}| (coefficient {k + 1} must be >= 0)" for k in range(len(claimed))]
-    signs = [c - sympy.Abs(c) for c in claimed]
     exact, skipped = _power_sum_identities(g, norm2, claimed_sums)
     amplitudes = state.terms()
 
     def numeric(point: Point, prec: int) -> list[Entry]:
-        values = values_at([a for _, a in amplitudes] + claimed_sums + signs, point, prec)
+        values = values_at([a for _, a in amplitudes] + claimed_sums, point, prec)
         count = len(amplitudes)
         with flint.ctx.workprec(prec):
             rho = _numeric_rho(state, cut, dict(zip((k for k, _ in amplitudes), values[:count])))
             sums = _power_sums(rho, m)
-            entries = [Entry(labels[j], sums[j] - values[count + j], abs(sums[j]) + abs(values[count + j]))
-                       for j in range(m)]
-            entries += [Entry(labels[m + k], values[count + m + k], flint.arb(1))
-                        for k in range(len(claimed))]
-        return entries
+            return [Entry(labels[j], sums[j] - values[count + j],
+                          abs(sums[j]) + abs(values[count + j])) for j in range(m)]
 
-    return Difference(tuple(exact + signs) if not skipped else (), numeric, params, "", skipped)
+    return Difference(tuple(exact), numeric, params, "", skipped)
 
 
 def _power_sum_identities(g: sympy.Matrix, norm2: sympy.Expr, claimed_sums: list[sympy.Expr]):
@@ -206,3 +220,54 @@ def _minor_difference(state: State, cut: Cut, size: int, params: tuple[Parameter
             return [Entry(label, elementary(rho, size), flint.arb(1))]
 
     return Difference(exact, numeric, params, "", skipped)
+
+
+def schmidt_form_claim(state: State, cut: Cut, terms: list[FormTerm],
+                       declared: Mapping[str, Parameter], options: Options) -> Verdict:
+    """The form equals the state, and its left factors (and its right ones) are orthogonal."""
+    form = form_ket(state, cut, terms)
+    equal = compare_values(state, form, declared, False, options)
+    pairs = orthogonality(terms)
+    if not pairs or equal.holds is False:
+        return equal
+    symbols = set(state.symbols) | {s for t in terms for v in (t.left, t.right)
+                                    for a in v.terms.values() for s in a.free_symbols}
+    params = parameters(symbols, declared)
+    orthogonal = decide(paired_difference(pairs, params, ""), options)
+    return all_of(((equal, "the form is not the state"),
+                   (orthogonal, "the form equals the state but is not a Schmidt form")),
+                  domain_text(params), "the form equals the state and its factors on each side "
+                                       f"are orthogonal: a Schmidt form across {cut.describe(state)}")
+
+
+def form_ket(state: State, cut: Cut, terms: list[FormTerm]) -> KetValue:
+    """The sum of c (u)(w) with the labels put back in the state's order of parts."""
+    amplitudes: dict[tuple[int, ...], sympy.Expr] = {}
+    for term in terms:
+        if term.left.nparts != len(cut.left) or term.right.nparts != len(cut.right):
+            raise InputError(f"the form's factors have {term.left.nparts} and {term.right.nparts} "
+                             f"part(s), but the cut puts {len(cut.left)} and {len(cut.right)} "
+                             "on its sides")
+        for l, a in term.left.terms.items():
+            for r, b in term.right.terms.items():
+                label = [0] * state.nparts
+                for position, level in zip(cut.left + cut.right, l + r):
+                    label[position] = level
+                key = tuple(label)
+                amplitudes[key] = amplitudes.get(key, 0) + term.coefficient * a * b
+    return KetValue(amplitudes, state.nparts)
+
+
+def orthogonality(terms: list[FormTerm]) -> list[tuple[str, sympy.Expr, sympy.Expr]]:
+    """<u_a|u_b> = 0 and <w_a|w_b> = 0 for a < b, as (where, lhs, rhs) triples."""
+    pairs = []
+    for side, name in (("left", "u"), ("right", "w")):
+        vectors = [getattr(t, side) for t in terms]
+        for a in range(len(vectors)):
+            for b in range(a + 1, len(vectors)):
+                pairs.append((f"<{name}{a + 1}|{name}{b + 1}>", inner(vectors[a], vectors[b]), 0))
+    return pairs
+
+
+def inner(x: KetValue, y: KetValue) -> sympy.Expr:
+    return sympy.Add(*(sympy.conjugate(v) * y.terms[k] for k, v in x.terms.items() if k in y.terms))

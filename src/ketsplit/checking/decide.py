@@ -104,19 +104,23 @@ def _randomized(difference: Difference, options: Options, deadline: float, domai
         agreed += outcome == "zero"
         unclear += outcome == "unclear"
     if agreed >= needed:
-        return Verdict(True, _confirmation(agreed, wanted_digits, bool(difference.params)),
-                       exact_story, domain, quantity=difference.quantity)
+        method, confidence = _confirmation(agreed, wanted_digits, bool(difference.params))
+        return Verdict(True, method, f"{exact_story}; {confidence}", domain,
+                       quantity=difference.quantity)
     ran_out = " before the time budget ran out" if time.monotonic() > deadline else ""
     reason = (f"{exact_story}; {agreed} random point(s) agreed to {wanted_digits} digits and "
               f"{unclear} stayed unclear{ran_out} ({needed} agreeing points are needed)")
     return Verdict(None, "none", reason, domain, quantity=difference.quantity)
 
 
-def _confirmation(agreed: int, digits: int, has_params: bool) -> str:
+def _confirmation(agreed: int, digits: int, has_params: bool) -> tuple[str, str]:
+    """(method, confidence statement) of a randomized confirmation."""
     if not has_params:
-        return f"numerically, to {digits} certified digits; not a proof"
-    return (f"randomized: {agreed} random exact points agree to {digits} certified digits; "
-            "a nonzero difference would have to vanish at each of them")
+        return (f"numeric, {digits} digits",
+                f"the difference is below 10^-{digits} in certified arithmetic; not a proof")
+    return (f"randomized, {agreed} points, {digits} digits",
+            f"{agreed} random exact points agree to {digits} certified digits: a nonzero "
+            "difference would have to vanish to that accuracy at each of them")
 
 
 def start_precision(digits: int) -> int:

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import sympy
 
@@ -55,3 +55,17 @@ class Verdict:
 def _value_text(value) -> str:
     from ..render.ketprint import text
     return text(value) if isinstance(value, sympy.Basic) else str(value)
+
+
+def all_of(parts: tuple[tuple[Verdict, str], ...], domain: str, summary: str) -> Verdict:
+    """Holds (for ``summary``) when every part holds; else the first failure, its ``what``
+    said first; else undecided."""
+    for verdict, what in parts:
+        if verdict.holds is False:
+            return replace(verdict, reason=f"{what}: {verdict.reason}", domain=domain)
+    undecided = [v for v, _ in parts if v.holds is None]
+    if undecided:
+        return replace(undecided[0], domain=domain)
+    methods = list(dict.fromkeys(v.method for v, _ in parts))
+    method = "exact" if methods == ["exact"] else "; ".join(m for m in methods if m != "exact")
+    return Verdict(True, method, summary, domain)

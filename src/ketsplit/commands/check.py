@@ -3,20 +3,29 @@
     check LHS = RHS                   equality (kets, numbers, matrices)
     check LHS ~ RHS                   equality up to a global phase
     check schmidt STATE [CUT] = [c1, c2, ...]   claimed Schmidt coefficients, any order
+    check schmidt STATE [CUT] = FORM            claimed Schmidt form c1 (u1)(w1) + ...
+    check STATE CUT = FORM                      the same
+    check NAME = FORM                           the same, when FORM is written as products of
+                                                separate kets (the cut read off the factors)
     check reduce STATE PARTS = MATRIX           claimed reduced state
     check rank STATE [CUT] = R                  claimed (generic) Schmidt rank
 """
 
 from __future__ import annotations
 
+import re
+
 import sympy
 
 from ..checking.checker import compare_values
-from ..checking.claims import rank_claim, reduced_claim, schmidt_claim
+from ..checking.claims import rank_claim, reduced_claim, schmidt_claim, schmidt_form_claim
+from ..checking.forms import FormTerm, read_form
+from ..cuts import CUT_PATTERN, Cut
 from ..checking.decide import Options, decide
 from ..checking.sides import parameters
 from ..checking.verdict import DIFFERENCE, WHERE, Verdict
 from ..language.build import KetValue, is_scalar
+from ..language.errors import InputError
 from ..language.tokens import KET_CHARS
 from ..render.ketprint import text
 from ..render.report import Field, Report
@@ -25,6 +34,7 @@ from .declarations import split_top_level
 from .registry import CommandCall, command
 
 CLAIMS = ("schmidt", "reduce", "rank")
+FIRST_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
 
 
 @command("check", "check LHS = RHS | LHS ~ RHS | schmidt STATE CUT = [c1, ...] | "
@@ -35,10 +45,15 @@ CLAIMS = ("schmidt", "reduce", "rank")
 def run_check(call: CommandCall) -> Report:
     left, operator, right, right_offset = _split(call)
     claim = left.split(None, 1)[0] if left.strip() else ""
-    if claim in CLAIMS and operator == "=" and len(left.split(None, 1)) == 2:
-        verdict = _claim(call, claim, left, right, right_offset)
-    else:
-        verdict = _identity(call, left, right, right_offset, operator == "~")
+    try:
+        if claim in CLAIMS and operator == "=" and len(left.split(None, 1)) == 2:
+            verdict = _claim(call, claim, left, right, right_offset)
+        else:
+            verdict = _identity(call, left, right, right_offset, operator == "~")
+    except InputError as err:
+        if err.span is not None:
+            raise
+        raise call.error(err.message, right_offset, len(right.strip()) or 1) from None
     return verdict_report(verdict)
 
 
@@ -52,7 +67,9 @@ def _split(call: CommandCall) -> tuple[str, str, str, int]:
         raise call.error("check: expected one '=' or '~' between the two sides, found another",
                          call.offset + found[1])
     at = found[0]
-    return call.args[:at], call.args[at], call.args[at + 1:], call.offset + at + 1
+    right = call.args[at + 1:]
+    lead = len(right) - len(right.lstrip())
+    return call.args[:at], call.args[at], right.lstrip(), call.offset + at + 1 + lead
 
 
 def _top_level(text: str, operators: str):
@@ -81,9 +98,37 @@ def _options(call: CommandCall) -> Options:
 
 
 def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase: bool) -> Verdict:
+    sub = _sub_call(call, "check", left, call.offset)
+    text, cut_text, _ = sub.split_last(CUT_PATTERN)
+    if cut_text is not None and not phase:
+        state, cut = sub.state_and_cut()
+        return _form_claim(call, state, cut, right, right_offset, len(cut.left))
     lhs = _at_point(call, call.value(left, call.offset))
+    if not phase and FIRST_NAME.fullmatch(left.strip()) and isinstance(lhs, KetValue):
+        state = call.at_point(call.session.make_state(lhs))
+        terms = read_form(right, right_offset, call.line, call.session, None)
+        if terms is not None and 0 < terms[0].left.nparts < state.nparts:
+            n = terms[0].left.nparts
+            cut = Cut(tuple(range(n)), tuple(range(n, state.nparts)))
+            return _form_claim(call, state, cut, right, right_offset, n)
     rhs = _at_point(call, call.value(right, right_offset))
     return compare_values(lhs, rhs, call.session.params, phase, _options(call))
+
+
+def _form_claim(call: CommandCall, state: State, cut: Cut, right: str, right_offset: int,
+                left_parts: int) -> Verdict:
+    terms = read_form(right, right_offset, call.line, call.session, left_parts)
+    if terms is None:
+        raise call.error("check: expected a Schmidt form such as c1 (u1)(w1) + c2 (u2)(w2), a "
+                         "number times one ket for each side of the cut in every term",
+                         right_offset, len(right.strip()) or 1)
+    terms = [FormTerm(_at_point(call, t.coefficient), _at_point(call, t.left),
+                      _at_point(call, t.right)) for t in terms]
+    return schmidt_form_claim(state, cut, terms, _declared(call, state), _options(call))
+
+
+def _sub_call(call: CommandCall, name: str, text: str, offset: int) -> CommandCall:
+    return CommandCall(call.session, name, text, offset, call.line, call.source, call.point)
 
 
 def _at_point(call: CommandCall, value):
@@ -108,8 +153,7 @@ def _symbols(value) -> set[sympy.Symbol]:
 
 def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: int) -> Verdict:
     head = len(left) - len(left.lstrip()) + len(claim)
-    sub = CommandCall(call.session, claim, left[head:], call.offset + head, call.line, call.source,
-                      call.point)
+    sub = _sub_call(call, claim, left[head:], call.offset + head)
     if claim == "reduce":
         state, keep = sub.state_and_parts()
         claimed = call.value(right, right_offset)
@@ -125,10 +169,12 @@ def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: i
         params = _params(call, state, claimed)
         return decide(reduced_claim(state, keep, _at_point(call, claimed), params), _options(call))
     state, cut = sub.state_and_cut()
+    if claim == "schmidt" and not right.strip().startswith("["):
+        return _form_claim(call, state, cut, right, right_offset, len(cut.left))
     if claim == "schmidt":
         coefficients = [_at_point(call, c) for c in _claimed_list(call, right, right_offset)]
         params = _params(call, state, *coefficients)
-        return decide(schmidt_claim(state, cut, coefficients, params), _options(call))
+        return schmidt_claim(state, cut, coefficients, params, _options(call))
     rank = call.value(right, right_offset)
     if not (is_scalar(rank) and rank.is_Integer):
         raise call.error("check rank: the claimed rank must be a whole number", right_offset,
@@ -140,9 +186,13 @@ def _params(call: CommandCall, state: State, *claimed):
     symbols = set(state.symbols)
     for value in claimed:
         symbols |= _symbols(value)
+    return parameters(symbols, _declared(call, state))
+
+
+def _declared(call: CommandCall, state: State) -> dict:
     declared = dict(call.session.params)
     declared.update({p.name: p for p in state.params})
-    return parameters(symbols, declared)
+    return declared
 
 
 def _claimed_list(call: CommandCall, text: str, offset: int) -> list[sympy.Expr]:
@@ -157,8 +207,9 @@ def _claimed_list(call: CommandCall, text: str, offset: int) -> list[sympy.Expr]
             raise call.error("check schmidt: expected a coefficient between the commas", column)
         value = call.value(piece, column)
         if not is_scalar(value):
+            lead = len(piece) - len(piece.lstrip())
             raise call.error("check schmidt: each claimed coefficient must be a number",
-                             column, len(piece))
+                             column + lead, len(piece.strip()))
         values.append(value)
         column += len(piece) + 1
     return values
