@@ -234,3 +234,41 @@ def test_normalisation_factor_does_not_change_the_strata():
     found = strata(psi, "1|2")
     assert values_of(found[1], "t") == [0]
     check_all(found, psi, "1|2")
+
+
+def test_two_parameter_circulant_line_and_isolated_point():
+    # C = circulant(1, a, b): det = 1 + a^3 + b^3 - 3ab = (1 + a + b)(1 + a^2 + b^2 - a - b - ab)
+    # (fact of the trade: x^3 + y^3 + z^3 - 3xyz). The second factor is
+    # ((1 - a)^2 + (a - b)^2 + (b - 1)^2)/2, zero over the reals only at a = b = 1, where C is
+    # the all-ones matrix (rank 1). So: rank 2 on the line a + b = -1, rank 1 at (1, 1) only
+    # (on the line the circulant eigenvalue 1 + a + b vanishes alone: rank 2, never 1).
+    psi = ketsplit.ket("|00> + a|01> + b|02> + a|10> + b|11> + |12> + b|20> + |21> + a|22>",
+                       real="a b")
+    found = strata(psi, "1|2")
+    a, b = psi.parameter("a").symbol, psi.parameter("b").symbol
+    assert [s.rank for s in found] == [3, 2, 1]
+    assert found[1].points is None and sympy.expand(found[1].sample[a] + found[1].sample[b]) == -1
+    assert found[2].points == [{a: 1, b: 1}]
+    check_all(found, psi, "1|2")
+
+
+def test_two_angle_qutrit_curve():
+    # C = [[cos t, sin t, 0], [0, cos p, sin p], [sin t, 0, cos t]]:
+    # det = cos^2 t cos p + sin^2 t sin p, a curve in (t, p); rank 1 would need sin t = 0 (minor
+    # of rows 1, 3 and columns 1, 2) and then cos p = sin p = 0: never.
+    psi = ketsplit.ket("cos(t)|00> + sin(t)|01> + cos(p)|11> + sin(p)|12> + sin(t)|20> + cos(t)|22>",
+                       real="t p", ranges={"t": (0, "pi"), "p": (0, "pi")})
+    found = strata(psi, "1|2")
+    assert [s.rank for s in found] == [3, 2]
+    t, p = psi.parameter("t").symbol, psi.parameter("p").symbol
+    sample = found[1].sample
+    det = sympy.cos(t) ** 2 * sympy.cos(p) + sympy.sin(t) ** 2 * sympy.sin(p)
+    assert sympy.simplify(det.subs(sample)) == 0
+    check_all(found, psi, "1|2")
+
+
+def test_a_range_of_one_point_fixes_the_parameter():
+    psi = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t", ranges={"t": (0, 0)})
+    found = strata(psi, "1|2")
+    assert [s.rank for s in found] == [1]
+    assert any("fixed at 0" in n for n in found.notes)

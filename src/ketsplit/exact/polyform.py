@@ -73,6 +73,11 @@ class Coordinate:
             return c ** 2 + s ** 2 - 1
         return None
 
+    def half_angle(self, tau: sympy.Expr) -> dict[sympy.Symbol, sympy.Expr]:
+        """cos and sin of the base angle 2 atan(tau): (1 - tau^2, 2 tau) / (1 + tau^2)."""
+        c, s = self.variables
+        return {c: (1 - tau ** 2) / (1 + tau ** 2), s: 2 * tau / (1 + tau ** 2)}
+
     def original(self) -> dict[sympy.Symbol, sympy.Expr]:
         """Each variable written in the parameter (for showing equations)."""
         t = self.parameter.symbol
@@ -233,8 +238,7 @@ def _inverse(c: Coordinate, values: Mapping[sympy.Symbol, sympy.Expr]) -> list[s
     param = c.parameter
     if c.kind == "angle":
         cos_v, sin_v = (values[v] for v in c.variables)
-        base = sympy.atan2(sin_v, cos_v) / c.scale
-        return angles_in_range(base, c.period, param.range)
+        return angles_in_range(base_angle(cos_v, sin_v) / c.scale, c.period, param.range)
     if c.kind == "growth":
         e = values[c.variables[0]]
         if not _nonnegative(e) or e == 0:
@@ -243,6 +247,15 @@ def _inverse(c: Coordinate, values: Mapping[sympy.Symbol, sympy.Expr]) -> list[s
     else:
         candidates = [values[c.variables[0]]]
     return [v for v in candidates if admissible(v, param)]
+
+
+def base_angle(cos_v: sympy.Expr, sin_v: sympy.Expr) -> sympy.Expr:
+    """The angle in (-pi, pi] with this cosine and sine: atan2, or 2 atan(tan of the half
+    angle) when atan2 does not evaluate to a multiple of pi (as for roots of polynomials)."""
+    angle = sympy.atan2(sin_v, cos_v)
+    if not angle.has(sympy.atan2, sympy.atan) or cos_v == -1:
+        return angle
+    return 2 * sympy.atan(sympy.cancel(sin_v / (1 + cos_v)))
 
 
 def admissible(value: sympy.Expr, param: Parameter) -> bool:

@@ -25,13 +25,16 @@ def strata(state: State, cut: Cut | str | None = None, *, budget: float = DEFAUL
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
     check_ranges(state)
+    state, notes = fix_point_ranges(state)
     if not state.symbols:
-        return constant_strata(state, cut)
+        found = constant_strata(state, cut)
+        return Strata(found, notes + found.notes)
     try:
         family = Family.of(state, cut)
     except NoPolynomialForm as err:
         raise InputError(f"strata: {err}") from None
-    return Search(family, Budget(budget)).run()
+    found = Search(family, Budget(budget)).run()
+    return Strata(found, notes + found.notes, found.complete)
 
 
 def check_ranges(state: State) -> None:
@@ -43,6 +46,16 @@ def check_ranges(state: State) -> None:
         lo, hi = param.range
         if compare(lo, hi) > 0:
             raise InputError(f"the range of {param.name} is empty: {lo} > {hi}")
+
+
+def fix_point_ranges(state: State) -> tuple[State, tuple[str, ...]]:
+    """Parameters whose range is one point [v, v] are set to v first."""
+    fixed = {p.name: p.range[0] for p in state.params
+             if p.range is not None and compare(p.range[0], p.range[1]) == 0}
+    if not fixed:
+        return state, ()
+    notes = tuple(f"{name} is fixed at {value} by its range" for name, value in fixed.items())
+    return state.subs(fixed), notes
 
 
 def constant_strata(state: State, cut: Cut) -> Strata:

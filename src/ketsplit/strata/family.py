@@ -20,6 +20,7 @@ from math import comb
 import sympy
 from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
+from sympy.polys.polyerrors import NotInvertible
 
 from ..cuts import CoefficientMatrix, Cut
 from ..exact.polyform import PolyForm, polynomial_form, split_complex
@@ -124,12 +125,62 @@ class Family:
 
 def exact_rank(numbers: list[sympy.Expr], shape: tuple[int, int]) -> int:
     """The rank of a constant matrix over the smallest exact field of its entries."""
+    roots = set().union(*(sympy.sympify(n).atoms(sympy.CRootOf) for n in numbers))
+    if len(roots) == 1:
+        rank = rank_over_root(numbers, shape, roots.pop())
+        if rank is not None:
+            return rank
+    try:
+        return _field_rank(numbers, shape)
+    except NotInvertible:  # construct_domain can pick a reducible modulus for unsimplified radicals
+        return _field_rank([sympy.radsimp(sympy.simplify(n)) for n in numbers], shape)
+
+
+def _field_rank(numbers: list[sympy.Expr], shape: tuple[int, int]) -> int:
     domain, elements = construct_domain(numbers, extension=True)
-    if domain.is_EX:
-        raise ArithmeticError("the matrix entries are not in an exact algebraic field")
+    if not (domain.is_ZZ or domain.is_QQ or domain.is_AlgebraicField or domain.is_GaussianRing
+            or domain.is_GaussianField):
+        # EX, or a polynomial ring whose generators (such as cos(2 atan r)) are not independent
+        raise ArithmeticError(f"the matrix entries are not in an exact algebraic field ({domain})")
     m, n = shape
     rows = [elements[k * n:(k + 1) * n] for k in range(m)]
     return DomainMatrix(rows, shape, domain).to_field().rank()
+
+
+def rank_over_root(numbers: list[sympy.Expr], shape: tuple[int, int], root: sympy.CRootOf
+                   ) -> int | None:
+    """The rank when every entry is a rational function of one algebraic number (fast path).
+
+    construct_domain finds the minimal polynomial of every entry, which is slow
+    for roots of high degree; here the entries are evaluated in QQ<root> by
+    Horner's rule.  A complex matrix A + iB has twice the rank of the real
+    matrix [[A, -B], [B, A]].  None when an entry holds another irrational.
+    """
+    g = sympy.Dummy("g", real=True)
+    field = sympy.QQ.algebraic_field(root)
+    alpha = field.from_sympy(root)
+    parts = []
+    for number in numbers:
+        numer, denom = sympy.fraction(sympy.together(sympy.expand(sympy.sympify(number).xreplace({root: g}))))
+        if denom.has(sympy.I):
+            numer, denom = numer * sympy.conjugate(denom), denom * sympy.conjugate(denom)
+        try:
+            scale = _horner(sympy.expand(denom), g, field, alpha)
+            parts.append(tuple(_horner(p, g, field, alpha) / scale for p in split_complex(sympy.expand(numer))))
+        except (sympy.polys.polyerrors.PolynomialError, sympy.polys.polyerrors.CoercionFailed):
+            return None
+    m, n = shape
+    real = [[parts[i * n + j][0] for j in range(n)] for i in range(m)]
+    imag = [[parts[i * n + j][1] for j in range(n)] for i in range(m)]
+    rows = [real[i] + [-x for x in imag[i]] for i in range(m)] + [imag[i] + real[i] for i in range(m)]
+    return DomainMatrix(rows, (2 * m, 2 * n), field).rank() // 2
+
+
+def _horner(poly: sympy.Expr, g: sympy.Symbol, field, alpha):
+    value = field.zero
+    for c in sympy.Poly(poly, g, domain=sympy.QQ).all_coeffs():
+        value = value * alpha + field.convert(c, sympy.QQ)
+    return value
 
 
 def primitive(poly: sympy.Expr) -> sympy.Expr:

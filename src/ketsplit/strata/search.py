@@ -36,7 +36,7 @@ from . import samples
 from .budget import Budget, BudgetExceeded
 from .family import Family, exact_rank
 from .model import Stratum, Strata, StrataError
-from .solve import Component, Point, components, groebner, is_finite, real_points
+from .solve import Component, Point, components, groebner, is_finite, real_points, univariate_points
 
 
 @dataclass
@@ -97,6 +97,12 @@ class Search:
 
     def level(self, rank: int) -> None:
         """Points and curves of {rank <= r}."""
+        single = self.single_coordinate()
+        if single is not None:
+            for values in one_parameter_points(single, self.family.rank_conditions(rank)):
+                if self.family.defined_at(values):
+                    self.add_point(values)
+            return
         system = self.family.rank_conditions(rank) + self.relations
         for component in components(system, self.gens, self.budget):
             if component.finite:
@@ -104,6 +110,13 @@ class Search:
                     self.add_point(self.drop_saturator(values))
             elif not self.inside_lower(component, rank):
                 self.add_curve(component, rank)
+
+    def single_coordinate(self) -> Coordinate | None:
+        """The one coordinate of a one-parameter family without radicals (univariate algebra)."""
+        coords = self.family.form.coordinates
+        if len(coords) == 1 and not self.family.form.radicals:
+            return coords[0]
+        return None
 
     def drop_saturator(self, values: Point) -> Point:
         return {k: v for k, v in values.items() if k is not self.saturator}
@@ -140,8 +153,37 @@ class Search:
             stratum = self.free_stratum(rank, core, found, free)
         else:
             sample = self.sample_on(core, involved, free, filler, rank)
-            stratum = self.curve_stratum(rank, core, sample, free)
+            if sample is None and self.definite_points(core, involved, filler):
+                return
+            stratum = self.curve_stratum(rank, self.shown(component, core, rank), sample, free)
         self.curves.append((stratum, Component(tuple(core), involved, False)))
+
+    def shown(self, component: Component, core: list[sympy.Expr], rank: int) -> list[sympy.Expr]:
+        """The component's equations: its basis, or the rank conditions when they are shorter
+        and the component is the whole of {rank <= r}."""
+        if not component.whole:
+            return core
+        conditions = self.family.rank_conditions(rank)
+        return conditions if sympy.count_ops(conditions) < sympy.count_ops(core) else core
+
+    def definite_points(self, core, involved, filler) -> bool:
+        """A quadratic equation that is a sum of squares holds only at its critical points.
+
+        f = x^T A x + b^T x + c >= 0 everywhere exactly when [[A, b/2], [b^T/2, c]]
+        is positive semidefinite (or f <= 0 when negative semidefinite); then
+        the real zeros of f are the real solutions of f = 0 = grad f, which are
+        added as points.  False when f is not such a quadratic.
+        """
+        if len(core) != 1 or sympy.Poly(core[0], *involved).total_degree() != 2:
+            return False
+        if not semidefinite(core[0], involved):
+            return False
+        system = [core[0]] + [sympy.diff(core[0], v) for v in involved]
+        for piece in components(system, involved, self.budget):
+            if piece.finite:
+                for values in real_points(piece.basis, piece.gens, self.budget):
+                    self.add_point({**values, **filler})
+        return True
 
     def checked(self, values: Point, rank: int) -> list[Found]:
         """The parameter points of these values, if the state is defined there with this rank."""
@@ -236,6 +278,48 @@ class Search:
         return Stratum(rank, (), None, sample, description)
 
 
+def semidefinite(quadratic: sympy.Expr, gens) -> bool:
+    """The homogenised matrix of a quadratic is positive or negative semidefinite (exactly)."""
+    h = sympy.Dummy("h")
+    homogeneous = sympy.expand(quadratic.xreplace({g: g / h for g in gens}) * h ** 2)
+    variables = list(gens) + [h]
+    matrix = sympy.hessian(homogeneous, variables) / 2
+    for sign in (1, -1):
+        signed = sign * matrix
+        if all(compare(signed.extract(list(rows), list(rows)).det(), sympy.Integer(0)) >= 0
+               for size in range(1, len(variables) + 1)
+               for rows in combinations(range(len(variables)), size)):
+            return True
+    return False
+
+
+def one_parameter_points(coordinate: Coordinate, conditions: list[sympy.Expr]) -> list[Point]:
+    """Values where every condition vanishes, for a family of one real coordinate.
+
+    An angle goes through the tangent of its half angle, tau = tan(theta/2):
+    cos = (1 - tau^2)/(1 + tau^2), sin = 2 tau/(1 + tau^2) turn the conditions
+    into polynomials in tau, whose gcd holds every solution but theta = pi
+    (tau infinite), which is checked on its own.
+    """
+    if coordinate.kind != "angle":
+        var = coordinate.variables[0]
+        return [{var: root} for root in univariate_points(conditions, var)]
+    tau = sympy.Dummy("tau", real=True)
+    substituted = coordinate.half_angle(tau)
+    numerators = [sympy.numer(sympy.together(c.xreplace(substituted))) for c in conditions]
+    points = [{k: tidy(v.subs(tau, root)) for k, v in substituted.items()}
+              for root in univariate_points(numerators, tau)]
+    opposite = dict(zip(coordinate.variables, (sympy.Integer(-1), sympy.Integer(0))))
+    if all(sympy.expand(c.xreplace(opposite)) == 0 for c in conditions):
+        points.append(opposite)
+    return points
+
+
+def tidy(value: sympy.Expr) -> sympy.Expr:
+    """Radicals with rational denominators; roots of polynomials are left as they are."""
+    return value if value.has(sympy.CRootOf) else sympy.radsimp(sympy.simplify(value))
+
+
 def with_radicals(family: Family, values: Point) -> Point:
     full = dict(values)
     for r in family.form.radicals:
@@ -318,7 +402,9 @@ def verify(family: Family, found: Found) -> None:
 
 def state_rank_at(state: State, cut: Cut, point: dict) -> int | None:
     """The exact rank of the original state at the point, or None if not in an algebraic field."""
-    at = state.subs({s.name: v for s, v in point.items()})
+    table = {s.symbol: point[s.symbol] for s in state.params if s.symbol in point}
+    amplitudes = {k: sympy.expand_trig(v.xreplace(table)) for k, v in state.amplitudes.items()}
+    at = state.with_amplitudes(amplitudes)
     if not at.amplitudes:
         return 0
     matrix = CoefficientMatrix(at, cut)

@@ -21,7 +21,7 @@ Systems here are real polynomials in real variables (see
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Sequence
 
 import sympy
@@ -40,6 +40,7 @@ class Component:
     basis: tuple[sympy.Expr, ...]
     gens: tuple[sympy.Symbol, ...]
     finite: bool
+    whole: bool = True   # False for a piece split off along a factorisation
 
 
 def groebner(polys: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget: Budget
@@ -83,7 +84,8 @@ def components(polys: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget
             for factor, monomials in zip(factors, squares):
                 budget.check()
                 extra = monomials or [factor]
-                pieces.extend(components(list(basis) + extra, gens, budget, depth + 1))
+                pieces.extend(replace(piece, whole=False) for piece in
+                              components(list(basis) + extra, gens, budget, depth + 1))
             return outermost(pieces)
     return [Component(basis, tuple(gens), False)]
 
@@ -134,6 +136,14 @@ def real_points(basis: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budge
                 extended.append({**point, var: root})
         points = extended
     return points
+
+
+def univariate_points(polys: Sequence[sympy.Expr], var: sympy.Symbol) -> list[sympy.Expr]:
+    """The real common roots of univariate polynomials (the gcd's real roots), exactly."""
+    values = [sympy.expand(p) for p in polys if sympy.expand(p) != 0]
+    if not values:
+        raise ArithmeticError(f"every condition vanishes identically in {var}")
+    return real_roots(common_factor(values, var), var)
 
 
 def common_factor(values: list[sympy.Expr], var: sympy.Symbol) -> sympy.Poly:
