@@ -250,3 +250,35 @@ def test_overview_finds_the_finest_split():
     assert found.groups == ((0, 3), (1,), (2, 4))
     assert len(found.summaries) == 15
     assert all(s.rank in (1, 2, 4) for s in found.summaries)
+
+
+def test_figures_statement_table_and_certified_digits():
+    # W state across 1|23: entropy log2(3) - 2/3 = 0.918295834054489514787... (fact of the
+    # trade; digits from mpmath at 60 digits as the reference library).
+    import mpmath
+    session = ketsplit.Session()
+    session.run("digits 20")
+    result = session.run("figures |001> + |010> + |100> 1|23 entropy renyi(2) negativity")[0]
+    rows = {row[0]: row for row in result.report.items[1].rows}
+    assert set(rows) == {"entropy (bits)", "renyi(2) (bits)", "negativity"}
+    with mpmath.workdps(60):
+        reference = mpmath.log(3, 2) - mpmath.mpf(2) / 3
+        assert rows["entropy (bits)"][2].text == mpmath.nstr(reference, 20, strip_zeros=False)
+    nats = session.run("figures |00> + |11> nats entropy")[0]
+    assert "entropy (nats)" in nats.text()
+
+
+def test_figures_statement_bad_input():
+    session = ketsplit.Session()
+    with pytest.raises(ketsplit.InputError, match="the figures are entropy, renyi2"):
+        session.run("figures |00> + |11> 1|2 entropie")
+    with pytest.raises(ketsplit.InputError, match="renyi"):
+        session.run("figures |00> + |11> 1|2 renyi(-1)")
+
+
+def test_cuts_statement():
+    session = ketsplit.Session()
+    result = session.run("cuts |000> + |111>")[0]
+    assert len(result.report.items[0].rows) == 3
+    assert "entangled across every cut" in result.text()
+    assert "splits as 1 ⊗ 23" in session.run("cuts |0>(|00> + |11>)")[0].text()

@@ -194,8 +194,15 @@ def two_states(call: CommandCall) -> tuple[tuple[str, State], tuple[str, State],
             raise call.error("compare: expected two states, as in 'compare psi chi 1|2' or "
                              "'compare EXPR, EXPR 1|2'", call.offset, len(text) or 1)
         pieces = words
-    states = tuple((piece.strip(), call.state(piece, call.offset + at)) for piece, at in pieces)
-    return states[0], states[1], cut_text, column
+    bare = replace(call, point={})
+    states = tuple(bare.state(piece, call.offset + at) for piece, at in pieces)
+    unused = set(call.point) - {s.name for state in states for s in state.symbols}
+    if unused:
+        raise call.error(f"neither state has a parameter named {sorted(unused)[0]!r}")
+    placed = tuple(replace(call, point={k: v for k, v in call.point.items()
+                                        if k in {s.name for s in state.symbols}}).at_point(state)
+                   for state in states)
+    return ((pieces[0][0].strip(), placed[0]), (pieces[1][0].strip(), placed[1]), cut_text, column)
 
 
 def _yes(flag: bool) -> str:

@@ -1,0 +1,138 @@
+"""Local-unitary equivalence, Nielsen's majorization criterion and Vidal's probability."""
+
+from __future__ import annotations
+
+import pytest
+import sympy
+
+import ketsplit
+from ketsplit.compare import compare, majorized, vidal_probability
+
+R = sympy.Rational
+
+
+def schmidt_form(*squares) -> ketsplit.State:
+    """sum_k sqrt(p_k)|kk>: a state whose squared Schmidt coefficients are the p_k."""
+    n = len(squares)
+    return ketsplit.State((n, n), {(k, k): sympy.sqrt(sympy.sympify(p)) for k, p in enumerate(squares)})
+
+
+def test_maximally_entangled_converts_to_any_state_of_its_dimension():
+    # Nielsen, PRL 83, 436 (1999): (1/d, ..., 1/d) is majorized by every vector of
+    # length d, so the maximally entangled state converts to any state; not back,
+    # unless the target is maximally entangled too.
+    maximal = ketsplit.ket("|00> + |11> + |22>")
+    for target in (schmidt_form(R(1, 2), R(1, 3), R(1, 6)), ketsplit.ket("|00> + 2|01> + |11> + |22>"),
+                   ketsplit.State((3, 3), {(0, 0): sympy.Integer(1)})):
+        assert ketsplit.convertible(maximal, target)
+        assert not ketsplit.convertible(target, maximal)
+    assert ketsplit.convertible(maximal, ketsplit.ket("|01> + |12> + |20>"))
+
+
+def test_conversion_towards_less_entanglement_only():
+    # Two qubits: psi -> phi exactly when psi's largest p is at most phi's (Nielsen, PRL 83, 436).
+    weak = schmidt_form(R(9, 10), R(1, 10))
+    strong = schmidt_form(R(3, 5), R(2, 5))
+    assert ketsplit.convertible(strong, weak)
+    assert not ketsplit.convertible(weak, strong)
+
+
+def test_catalysis_example_of_jonathan_and_plenio():
+    # Jonathan & Plenio, PRL 83, 3566 (1999), their example (recalled from memory):
+    # psi = (0.4, 0.4, 0.1, 0.1) and phi = (0.5, 0.25, 0.25, 0) are incomparable,
+    # but with the catalyst chi = (0.6, 0.4), psi chi -> phi chi. Verified here.
+    psi = schmidt_form(R(2, 5), R(2, 5), R(1, 10), R(1, 10))
+    phi = ketsplit.State((4, 4), {(0, 0): sympy.sqrt(R(1, 2)), (1, 1): R(1, 2), (2, 2): R(1, 2)})
+    assert not ketsplit.convertible(psi, phi) and not ketsplit.convertible(phi, psi)
+    session = ketsplit.Session()
+    session.run("psi = sqrt(2/5)(|00> + |11>) + sqrt(1/10)(|22> + |33>)\n"
+                "phi = sqrt(1/2)|00> + (|11> + |22>)/2\n"
+                "chi = sqrt(3/5)|00> + sqrt(2/5)|11>\n"
+                "space A:4 B:4 C:2 D:2")
+    with_catalyst = session.run("compare psi chi, phi chi AC|BD")[0]
+    data = with_catalyst.to_json()
+    assert data["fields"]["A -> B by LOCC"]["text"] == "yes"
+    assert data["fields"]["B -> A by LOCC"]["text"] == "no"
+
+
+def test_catalysed_spectra_by_hand():
+    # The products of the catalysis example, sorted by hand (Jonathan & Plenio's example,
+    # recalled from memory): psi chi = (.24,.24,.16,.16,.06,.06,.04,.04),
+    # phi chi = (.30,.20,.15,.15,.10,.10,0,0); partial sums .24<=.30, .48<=.50, .64<=.65, ...
+    x = tuple(R(v, 100) for v in (24, 24, 16, 16, 6, 6, 4, 4))
+    y = tuple(R(v, 100) for v in (30, 20, 15, 15, 10, 10))
+    assert majorized(x, y) and not majorized(y, x)
+
+
+def test_vidal_probability_worked_by_hand():
+    # Vidal, PRL 83, 1046 (1999): P(psi -> phi) = min_l E_l(psi)/E_l(phi), E_l the tail
+    # sum from the l-th largest p.  By hand for psi = (.4,.4,.1,.1), phi = (.5,.25,.25):
+    # l=1: 1/1; l=2: .6/.5 = 6/5; l=3: .2/.25 = 4/5; l=4: phi's tail is empty.  P = 4/5.
+    # Back: l=4 gives E_4(phi)/E_4(psi) = 0/.1, so P(phi -> psi) = 0 (the rank cannot grow).
+    psi = schmidt_form(R(2, 5), R(2, 5), R(1, 10), R(1, 10))
+    phi = ketsplit.State((4, 4), {(0, 0): sympy.sqrt(R(1, 2)), (1, 1): R(1, 2), (2, 2): R(1, 2)})
+    assert ketsplit.conversion_probability(psi, phi) == R(4, 5)
+    assert ketsplit.conversion_probability(phi, psi) == 0
+
+
+def test_vidal_probability_of_distilling_a_bell_pair():
+    # By hand from Vidal's formula with phi = (1/2, 1/2): l=2 gives p_2/(1/2), so a
+    # single copy of cos(pi/8)|00> + sin(pi/8)|11> gives a Bell pair with probability
+    # 2 sin^2(pi/8) = 1 - sqrt(2)/2; the Bell pair converts to it with certainty.
+    bell = ketsplit.ket("|00> + |11>")
+    weak = ketsplit.ket("cos(pi/8)|00> + sin(pi/8)|11>")
+    assert sympy.simplify(ketsplit.conversion_probability(weak, bell) - (1 - sympy.sqrt(2) / 2)) == 0
+    assert ketsplit.conversion_probability(bell, weak) == 1
+    assert vidal_probability((R(1),), (R(1, 2), R(1, 2))) == 0
+
+
+def test_lu_equivalence():
+    # Same Schmidt coefficients <=> related by local unitaries (fact of the trade).
+    assert ketsplit.lu_equivalent(ketsplit.ket("|01> - |10>"), ketsplit.ket("|00> + |11>"))
+    assert ketsplit.lu_equivalent(ketsplit.ket("|00> + 2|11>"), ketsplit.ket("2|01> + i|10>"))
+    assert not ketsplit.lu_equivalent(ketsplit.ket("|00> + 2|11>"), ketsplit.ket("|00> + 3|11>"))
+    family = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t")
+    swapped = ketsplit.ket("sin(t)|01> + exp(i phi) cos(t)|10>", real="t phi")
+    assert ketsplit.lu_equivalent(family, swapped)
+    assert not ketsplit.lu_equivalent(family, ketsplit.ket("cos(2 t)|00> + sin(2 t)|11>", real="t"))
+
+
+def test_cuts_of_different_shapes_are_refused():
+    with pytest.raises(ketsplit.InputError, match="different shapes"):
+        ketsplit.lu_equivalent(ketsplit.ket("|00> + |11>"), ketsplit.ket("|00> + |12>"))
+
+
+def test_parameter_dependent_order_is_an_input_error():
+    family = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t")
+    with pytest.raises(ketsplit.InputError, match="with t="):
+        ketsplit.convertible(family, ketsplit.ket("|00>"))
+
+
+def test_compare_statement_prints_sorted_vectors_and_partial_sums():
+    session = ketsplit.Session()
+    session.run("psi = |00> + |11>\nchi = |00>")
+    result = session.run("compare chi psi")[0]
+    rows = result.report.items[0].rows
+    assert [r[1] for r in rows] == [1, 0] and [r[2] for r in rows] == [R(1, 2), R(1, 2)]
+    assert [r[3] for r in rows] == [1, 1] and [r[4] for r in rows] == [R(1, 2), 1]
+    assert [r[5] for r in rows] == ["no", "yes"]
+    text = result.text()
+    assert "psi -> chi by LOCC: yes" in text and "chi -> psi by LOCC: no" in text
+    with_point = ketsplit.Session()
+    with_point.run("real t\npsi = cos(t)|00> + sin(t)|11>")
+    assert "best probability" in with_point.run("compare psi, |00> + |11> with t=pi/3")[0].text()
+
+
+def test_compare_bad_input():
+    session = ketsplit.Session()
+    session.run("psi = |00> + |11>")
+    with pytest.raises(ketsplit.InputError, match="two states"):
+        session.run("compare psi 1|2")
+    with pytest.raises(ketsplit.InputError, match="different shapes"):
+        session.run("compare psi, |00> + |12>")
+
+
+def test_comparison_value():
+    found = compare(schmidt_form(R(1, 2), R(1, 2)), schmidt_form(R(3, 4), R(1, 4)))
+    assert found.forward and not found.backward and not found.incomparable
+    assert found.p_backward == R(1, 2)
