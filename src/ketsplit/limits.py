@@ -1,0 +1,206 @@
+"""Every resource limit of ketsplit, in one place, with the way to change it.
+
+A request beyond a limit is refused up front with a :class:`LimitError` whose
+message names the limit, so that nobody waits for a computation that was
+never going to finish (or for memory that was never going to be there).
+
+=================  ==========  ==================================================
+limit              default     what it bounds
+=================  ==========  ==================================================
+input_length       200000      characters of one statement
+nesting            100         depth of brackets, signs and powers in an expression
+exponent           1000        size of a numeric exponent (``x^e``, ``1e-40``)
+number_digits      2000        decimal digits of an exact number (numerator or
+                               denominator); Python refuses to print integers of
+                               more than 4300 digits, so keep this below that
+sum_terms          100000      terms of one ``sum(n=a..b, ...)``
+terms              1048576     basis kets of one ket expression
+parts              64          parts of one state
+part_dimension     10000       dimension of one part (and so its largest label)
+dimension          2^64        total dimension of a state (the product of the
+                               parts' dimensions); states are stored sparsely,
+                               so this bounds the labels, not the memory
+dense_entries      4194304     entries of a dense coefficient or density matrix
+min_digits         5           smallest precision accepted by ``digits``
+max_digits         10000       largest precision accepted by ``digits``
+seconds            600         wall-clock seconds one statement may run before it
+                               is stopped (0 switches the limit off)
+=================  ==========  ==================================================
+
+How to change them (the limits are process-wide):
+
+- in the state language: ``limits`` lists them, ``limits parts=128 seconds=60``
+  sets some;
+- from Python: ``ketsplit.limits.set_limits(parts=128)`` (returns the limits it
+  replaced), or for a block ``with ketsplit.limits.limits_set(parts=128): ...``;
+- from the environment, read once at import:
+  ``KETSPLIT_LIMITS="parts=128,seconds=60"``.
+"""
+
+from __future__ import annotations
+
+import os
+import warnings
+from contextlib import contextmanager
+from dataclasses import asdict, dataclass, fields, replace
+from typing import Iterator
+
+from .language.errors import LimitError, Span
+
+ENVIRONMENT = "KETSPLIT_LIMITS"
+
+
+@dataclass(frozen=True)
+class Limits:
+    """The resource limits in force; see the module docstring for each one."""
+
+    input_length: int = 200_000
+    nesting: int = 100
+    exponent: int = 1000
+    number_digits: int = 2000
+    sum_terms: int = 100_000
+    terms: int = 1 << 20
+    parts: int = 64
+    part_dimension: int = 10_000
+    dimension: int = 1 << 64
+    dense_entries: int = 1 << 22
+    min_digits: int = 5
+    max_digits: int = 10_000
+    seconds: float = 600.0
+
+    def __post_init__(self) -> None:
+        for item in fields(self):
+            value = getattr(self, item.name)
+            if isinstance(value, bool) or not isinstance(value, (int, float)) or value < 0:
+                raise ValueError(f"limit {item.name} must be a nonnegative number, found {value!r}")
+            if item.type == "int" and not isinstance(value, int):
+                raise ValueError(f"limit {item.name} must be a whole number, found {value!r}")
+        if self.min_digits > self.max_digits:
+            raise ValueError(f"min_digits {self.min_digits} exceeds max_digits {self.max_digits}")
+
+    def as_dict(self) -> dict[str, int | float]:
+        return asdict(self)
+
+
+NAMES = tuple(item.name for item in fields(Limits))
+
+MEANINGS = {  # one line each, for the 'limits' table
+    "input_length": "characters of one statement",
+    "nesting": "depth of brackets, signs and powers",
+    "exponent": "size of a numeric exponent",
+    "number_digits": "digits of an exact number",
+    "sum_terms": "terms of one sum(...)",
+    "terms": "basis kets of one ket expression",
+    "parts": "parts of one state",
+    "part_dimension": "dimension of one part",
+    "dimension": "total dimension of a state",
+    "dense_entries": "entries of a dense matrix",
+    "min_digits": "smallest precision for 'digits'",
+    "max_digits": "largest precision for 'digits'",
+    "seconds": "seconds one statement may run (0: no limit)",
+}
+
+
+def shown(value: int | float) -> str:
+    """A limit's value as text: whole numbers in full, seconds in short form."""
+    return f"{value:g}" if isinstance(value, float) else str(value)
+
+_current = Limits()
+
+
+def current() -> Limits:
+    """The limits in force now."""
+    return _current
+
+
+def set_limits(**changes: int | float) -> Limits:
+    """Change some limits (by name); returns the limits that were in force before."""
+    global _current
+    unknown = sorted(set(changes) - set(NAMES))
+    if unknown:
+        raise ValueError(f"no limit named {unknown[0]!r}; the limits are {', '.join(NAMES)}")
+    previous = _current
+    _current = replace(_current, **changes)
+    return previous
+
+
+@contextmanager
+def limits_set(**changes: int | float) -> Iterator[Limits]:
+    """Run a block with some limits changed, restoring the previous ones after it."""
+    previous = set_limits(**changes)
+    try:
+        yield _current
+    finally:
+        _set_whole(previous)
+
+
+def _set_whole(limits: Limits) -> None:
+    global _current
+    _current = limits
+
+
+def how_to_change(name: str) -> str:
+    """The words every refusal ends with: which limit, its value, and how to change it."""
+    return f"the limit {name} = {shown(getattr(_current, name))} (change it with 'limits {name}=N')"
+
+
+def refuse(what: str, name: str, span: Span | None = None, source: str | None = None) -> LimitError:
+    """A LimitError saying what was asked for and which limit stands in the way."""
+    return LimitError(f"{what} is beyond {how_to_change(name)}", span, source)
+
+
+def check(value: int | float, name: str, what: str, span: Span | None = None,
+          source: str | None = None) -> None:
+    """Refuse when ``value`` exceeds the limit ``name``; ``what`` describes the request."""
+    if value > getattr(_current, name):
+        raise refuse(what, name, span, source)
+
+
+def check_shape(dims: tuple[int, ...], span: Span | None = None, source: str | None = None) -> None:
+    """Refuse a state whose number of parts, part dimension or total dimension is too large."""
+    check(len(dims), "parts", f"a state of {len(dims)} parts", span, source)
+    check(max(dims, default=1), "part_dimension", f"a part of dimension {max(dims, default=1)}",
+          span, source)
+    total = 1
+    for d in dims:
+        total *= d
+    check(total, "dimension", f"a state of total dimension {total}", span, source)
+
+
+def parse_assignments(text: str) -> dict[str, int | float]:
+    """``"parts=128, seconds=60"`` -> {"parts": 128, "seconds": 60.0}; ValueError if malformed."""
+    changes: dict[str, int | float] = {}
+    for piece in text.replace(",", " ").split():
+        name, equals, value = piece.partition("=")
+        if not equals or name not in NAMES:
+            raise ValueError(f"expected NAME=VALUE with NAME one of {', '.join(NAMES)}, "
+                             f"found {piece!r}")
+        changes[name] = parse_value(name, value)
+    return changes
+
+
+def parse_value(name: str, text: str) -> int | float:
+    """A limit's value from text: whole numbers, ``2^64`` powers, and decimals for seconds."""
+    base, caret, power = text.partition("^")
+    if caret and base.isdigit() and power.isdigit() and len(power) <= 3:
+        value = int(base) ** int(power)
+        if value.bit_length() <= 1024:
+            return value
+    if text.isdigit():
+        return int(text)
+    if name == "seconds" and text.replace(".", "", 1).isdigit():
+        return float(text)
+    raise ValueError(f"limit {name}: expected a whole number, found {text!r}")
+
+
+def _from_environment() -> None:
+    text = os.environ.get(ENVIRONMENT, "").strip()
+    if not text:
+        return
+    try:
+        set_limits(**parse_assignments(text))
+    except ValueError as err:
+        warnings.warn(f"{ENVIRONMENT} ignored: {err}", stacklevel=2)
+
+
+_from_environment()

@@ -1,0 +1,230 @@
+"""Resource limits: each refused up front, with a message naming the limit, and settable.
+
+The limits are our own design (ketsplit.limits); the checks here are that a
+request beyond each one is an InputError (a LimitError) raised before the
+work starts, that the message names the limit and how to change it, that a
+request at the limit still works, and that the three ways of changing the
+limits (statement, Python, environment) take effect.
+"""
+
+from __future__ import annotations
+
+import os
+import subprocess
+import sys
+import time
+
+import pytest
+
+import ketsplit
+from ketsplit import InputError, LimitError, Session, limits
+
+
+@pytest.fixture(autouse=True)
+def restore_limits():
+    """Each test starts from, and leaves, the limits in force before it."""
+    with limits.limits_set():
+        yield
+
+
+def refusal(text: str, session: Session | None = None) -> LimitError:
+    """The LimitError that running ``text`` raises, timed: it must come up front."""
+    started = time.monotonic()
+    with pytest.raises(LimitError) as info:
+        (session or Session()).run(text)
+    assert time.monotonic() - started < 5, f"the refusal of {text[:60]!r} was not up front"
+    return info.value
+
+
+def assert_names(err: LimitError, name: str) -> None:
+    assert f"limit {name} = " in err.message and f"'limits {name}=N'" in err.message, err.message
+    assert err.line is not None and err.column is not None
+
+
+# -- each limit: beyond it refused, at it accepted ---------------------------------------------
+
+def test_input_length():
+    with limits.limits_set(input_length=50):
+        assert_names(refusal("x = " + "|0>+" * 20 + "|1>"), "input_length")
+        Session().run("x = " + "|0>+" * 10 + "|1>")
+
+
+def test_nesting_depth():
+    with limits.limits_set(nesting=10):
+        err = refusal("(" * 11 + "1" + ")" * 11)
+        assert_names(err, "nesting")
+        assert err.column == 11  # the parenthesis that goes one level too deep
+        Session().run("(" * 8 + "1" + ")" * 8)
+
+
+@pytest.mark.parametrize("text", ["x^1001", "2^(-1001)", "1e1001", "1e-1001", "t^(10^10)"])
+def test_exponent(text):
+    assert_names(refusal(text), "exponent")
+
+
+def test_exponent_at_the_limit_is_accepted():
+    Session().run("x^1000 |0> + |1>")
+    Session().run("1e-1000 |0> + |1>")
+
+
+@pytest.mark.parametrize("text", [
+    "9" * 2001,                          # written out
+    "(10^1000)^3",                       # refused before the power is computed
+    "((10^1000)^1000)^1000",             # would need about 10^9 digits of memory
+    "10^999 * 10^999 * 10^999",          # grows step by step
+    "(10^900 |0>)(10^900 |0>)(10^900 |0>)",  # inside ket amplitudes
+    "1e-1000 1e-1000 1e-1000",           # denominators too
+])
+def test_number_digits(text):
+    assert_names(refusal(text), "number_digits")
+
+
+def test_number_digits_limit_is_settable():
+    with limits.limits_set(number_digits=10):
+        assert_names(refusal("12345678901 |0>"), "number_digits")
+        Session().run("1234567890 |0>")
+
+
+def test_a_label_too_long_for_python_to_read_is_refused_not_crashed():
+    # CPython refuses int() of more than 4300 digits (sys.get_int_max_str_digits)
+    assert_names(refusal("|0," + "9" * 5000 + ">"), "part_dimension")
+    assert_names(refusal("1e" + "9" * 5000), "exponent")
+    assert_names(refusal("space A:" + "9" * 5000), "part_dimension")
+
+
+def test_sum_terms():
+    assert_names(refusal("sum(n=0..100000, |n>)"), "sum_terms")
+    assert_names(refusal("sum(n=0..10^900, |n>)"), "sum_terms")
+    with limits.limits_set(sum_terms=3):
+        assert_names(refusal("sum(n=0..3, |n>)"), "sum_terms")
+        assert len(Session().run("sum(n=0..2, |n>)")) == 1
+
+
+def test_terms_of_a_product():
+    with limits.limits_set(terms=16):
+        assert_names(refusal("(|0>+|1>)(|0>+|1>)(|0>+|1>)(|0>+|1>)(|0>+|1>)"), "terms")
+        Session().run("(|0>+|1>)(|0>+|1>)(|0>+|1>)(|0>+|1>)")
+
+
+def test_parts():
+    assert_names(refusal("|" + "0" * 65 + ">"), "parts")          # one ket
+    assert_names(refusal("|0>" * 65), "parts")                    # a product
+    assert_names(refusal("space " + "2 " * 65), "parts")          # a declared space
+    Session().run("|" + "0" * 64 + "> + |" + "1" * 64 + ">")      # GHZ of 64 qubits is fine
+
+
+def test_part_dimension():
+    assert_names(refusal("|0,10000>"), "part_dimension")
+    assert_names(refusal("space A:10001"), "part_dimension")
+    Session().run("|0,9999> + |1,0>")
+
+
+def test_total_dimension():
+    with limits.limits_set(dimension=1000):
+        assert_names(refusal("|9,9,9,1>"), "dimension")           # 10 * 10 * 10 * 2 = 2000
+        assert_names(refusal("space 10 10 10 2"), "dimension")
+        Session().run("|9,9,9>")                                    # 1000 exactly
+
+
+def test_dense_entries():
+    with limits.limits_set(dense_entries=64):
+        err = refusal("reduce |0,0> + |9,9> 1")                    # a 10 x 10 density matrix
+        assert_names(err, "dense_entries")
+        Session().run("reduce |0,0> + |7,7> 1")                    # 8 x 8 = 64
+
+
+@pytest.mark.parametrize("text, name", [("digits 4", "min_digits"), ("digits 10001", "max_digits"),
+                                        ("digits " + "9" * 5000, "max_digits")])
+def test_digits(text, name):
+    err = refusal(text)
+    assert name in err.message
+
+
+def test_digits_inside_the_limits():
+    session = Session()
+    session.run("digits 5; digits 10000")
+    assert session.settings.digits == 10000
+
+
+def test_a_statement_over_its_time_limit_is_stopped_and_changes_nothing():
+    session = Session()
+    session.run("x = |00> + |11>")
+    before = dict(session.bindings)
+    with limits.limits_set(seconds=1):
+        started = time.monotonic()
+        with pytest.raises(LimitError) as info:
+            # a 100000-term polynomial built term by term and then simplified: far beyond 1 s
+            session.run("x = sum(n=0..99999, t^n |0>) + |1>")
+        assert time.monotonic() - started < 10
+    assert_names(info.value, "seconds")
+    assert "stopped after 1 s" in info.value.message
+    assert session.bindings == before
+    assert session.run("rank x")[0].report.items[0].value == 2
+
+
+# -- changing the limits -------------------------------------------------------------------------
+
+def test_the_limits_statement_lists_every_limit():
+    text = Session().run("limits")[0].text()
+    for name in limits.NAMES:
+        assert name in text
+
+
+def test_the_limits_statement_sets_limits():
+    Session().run("limits parts=3 seconds=2.5 dimension=2^70")
+    now = limits.current()
+    assert (now.parts, now.seconds, now.dimension) == (3, 2.5, 2 ** 70)
+    assert_names(refusal("|0000>"), "parts")
+
+
+@pytest.mark.parametrize("text, fragment", [
+    ("limits parts", "expected NAME=VALUE"),
+    ("limits colour=3", "expected NAME=VALUE"),
+    ("limits parts=-3", "expected a whole number"),
+    ("limits parts=1.5", "expected a whole number"),
+    ("limits min_digits=20000", "exceeds max_digits"),
+])
+def test_bad_limits_statements_are_input_errors(text, fragment):
+    with pytest.raises(InputError) as info:
+        Session().run(text)
+    assert fragment in info.value.message and info.value.column == 8
+    assert limits.current() == limits.Limits()
+
+
+def test_set_limits_from_python_returns_the_previous_ones():
+    previous = limits.set_limits(parts=5)
+    assert previous.parts == 64 and limits.current().parts == 5
+    with pytest.raises(ValueError):
+        limits.set_limits(colour=3)
+    with pytest.raises(ValueError):
+        limits.set_limits(parts=-1)
+
+
+def test_limits_set_restores_on_the_way_out():
+    with limits.limits_set(parts=3):
+        assert limits.current().parts == 3
+    assert limits.current().parts == 64
+
+
+def run_child(code: str, environment: str) -> subprocess.CompletedProcess:
+    env = dict(os.environ, KETSPLIT_LIMITS=environment)
+    return subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env,
+                          timeout=120)
+
+
+def test_limits_from_the_environment():
+    done = run_child("import ketsplit.limits as l; print(l.current().parts, l.current().seconds)",
+                     "parts=7, seconds=30")
+    assert done.stdout.split() == ["7", "30"], done.stderr
+
+
+def test_a_malformed_environment_is_ignored_with_a_warning():
+    done = run_child("import ketsplit.limits as l; print(l.current().parts)", "parts=lots")
+    assert done.stdout.split() == ["64"]
+    assert "KETSPLIT_LIMITS ignored" in done.stderr
+
+
+def test_the_api_refuses_too_many_parts_as_well():
+    with limits.limits_set(parts=4):
+        with pytest.raises(LimitError):
+            ketsplit.ket("|00000>")
