@@ -8,8 +8,6 @@ math renderers; fact of the trade).
 
 from __future__ import annotations
 
-import re
-
 import pytest
 
 from ketsplit.render.markdown import to_markdown
@@ -17,6 +15,7 @@ from ketsplit.render.report import Field, Note, Report
 from ketsplit.sheets.export import export
 from ketsplit.sheets.format import parse_sheet
 from ketsplit.sheets.runner import replay
+from wellformed import assert_balanced_latex, markdown_displays, without_comments
 
 SHEET = """#! ketsplit worksheet 1
 # Two qubits & a qutrit: 100% of the {braces} and $ signs must be escaped_
@@ -37,29 +36,6 @@ def exported(to: str) -> str:
     return export(outcomes, to, "two_qubits.kss")
 
 
-def without_comments(latex: str) -> str:
-    return "\n".join(re.sub(r"(?<!\\)%.*", "", line) for line in latex.splitlines())
-
-
-def assert_balanced_latex(latex: str) -> None:
-    stack: list[str] = []
-    for match in re.finditer(r"\\(begin|end)\{([^}]*)\}", latex):
-        if match.group(1) == "begin":
-            stack.append(match.group(2))
-        else:
-            assert stack and stack.pop() == match.group(2), f"unbalanced \\end{{{match.group(2)}}}"
-    assert stack == [], f"unclosed environments {stack}"
-    depth = 0
-    for token in re.finditer(r"\\[{}]|[{}]", latex):
-        if token.group() == "{":
-            depth += 1
-        elif token.group() == "}":
-            depth -= 1
-        assert depth >= 0, "a closing brace without an opening one"
-    assert depth == 0, "unclosed braces"
-    assert len(re.findall(r"\\left\b", latex)) == len(re.findall(r"\\right\b", latex))
-
-
 def test_latex_export_is_balanced_and_keeps_each_statement_as_a_comment():
     latex = exported("tex")
     body = without_comments(latex)
@@ -77,28 +53,6 @@ def test_latex_export_escapes_the_prose():
     prose = next(line for line in latex.splitlines() if line.startswith("Two qubits"))
     assert r"\&" in prose and r"100\%" in prose and r"\{braces\}" in prose and r"\$" in prose
     assert r"escaped\_" in prose
-
-
-def markdown_displays(markdown: str) -> list[str]:
-    """The bodies of the $$ displays; asserts that each is well formed."""
-    lines = markdown.splitlines()
-    fences = [k for k, line in enumerate(lines) if line.startswith("```")]
-    assert len(fences) % 2 == 0, "unclosed code fence"
-    inside_code = set()
-    for a, b in zip(fences[::2], fences[1::2]):
-        inside_code.update(range(a, b + 1))
-    marks = [k for k, line in enumerate(lines) if "$$" in line and k not in inside_code]
-    assert all(lines[k] == "$$" for k in marks), "a $$ that is not on a line of its own"
-    assert len(marks) % 2 == 0, "an unclosed $$ display"
-    bodies = []
-    for a, b in zip(marks[::2], marks[1::2]):
-        body = lines[a + 1:b]
-        assert body and all(line.strip() for line in body), "an empty line inside a display"
-        bodies.append("\n".join(body))
-    outside = [line for k, line in enumerate(lines) if k not in inside_code and k not in marks
-               and not any(a < k < b for a, b in zip(marks[::2], marks[1::2]))]
-    assert all(re.search(r"(?<!\\)\$", line) is None for line in outside), "a stray $ in the text"
-    return bodies
 
 
 def test_markdown_export_has_valid_display_math():
