@@ -2,23 +2,45 @@
 
 The text goes to a temporary file in the same directory (so that the final
 rename stays on one file system), is flushed and fsynced, and then replaces
-the target with ``os.replace``, which is atomic.  On any failure the
-temporary file is removed and the target is untouched.
+the target with ``os.replace``, which is atomic: a process killed at any
+moment leaves the old file or the new one, never half of either.  On any
+failure the temporary file is removed and the target is untouched.
+
+A target that cannot be written (read-only file or directory, full disk,
+missing directory) is a :class:`WriteError`: an InputError with a sentence a
+person can act on, and also an OSError (``strerror`` holds the short reason),
+so that callers catching OSError keep working.
 """
 
 from __future__ import annotations
 
 import contextlib
+import errno
 import os
 import tempfile
 from pathlib import Path
 
+from ..language.errors import InputError
+
+
+class WriteError(InputError, OSError):
+    """The file could not be written; the target, if it existed, is unchanged."""
+
+    def __init__(self, path: Path, reason: str, code: int | None = None):
+        outcome = "the file was left as it was" if path.exists() else "nothing was written"
+        super().__init__(f"cannot write {path}: {reason}; {outcome}")
+        self.errno, self.strerror, self.filename = code, reason, str(path)
+
 
 def write_atomic(path: str | Path, text: str) -> None:
-    """Write ``text`` (UTF-8) to ``path`` atomically; OSError when it cannot be written."""
+    """Write ``text`` (UTF-8) to ``path`` atomically; WriteError when it cannot be written."""
     target = Path(path)
-    directory = target.parent
-    handle, temporary = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".part", dir=directory)
+    refuse_read_only(target)
+    try:
+        handle, temporary = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".part",
+                                             dir=target.parent)
+    except OSError as err:
+        raise WriteError(target, reason(err, target), err.errno) from None
     try:
         with os.fdopen(handle, "w", encoding="utf-8", newline="\n") as out:
             out.write(text)
@@ -26,11 +48,39 @@ def write_atomic(path: str | Path, text: str) -> None:
             os.fsync(out.fileno())
         os.chmod(temporary, file_mode(target))
         os.replace(temporary, target)
-    except BaseException:
+    except BaseException as err:
         with contextlib.suppress(FileNotFoundError):
             os.unlink(temporary)
+        if isinstance(err, OSError):
+            raise WriteError(target, reason(err, target), err.errno) from None
         raise
-    sync_directory(directory)
+    sync_directory(target.parent)
+
+
+def refuse_read_only(target: Path) -> None:
+    """A file marked read-only is not replaced, although its directory would allow it."""
+    if target.is_dir():
+        raise WriteError(target, "it is a directory", errno.EISDIR)
+    if target.exists() and (not os.access(target, os.W_OK) or not target.stat().st_mode & 0o222):
+        raise WriteError(target, "the file is read-only", errno.EACCES)
+
+
+def reason(err: OSError, target: Path) -> str:
+    """What went wrong, in words that say what to do about it."""
+    directory = target.parent.resolve()
+    if err.errno in (errno.ENOSPC, errno.EDQUOT):
+        return "the disk is full (or the quota is used up)"
+    if err.errno == errno.EFBIG:
+        return "the file would be larger than this process may write"
+    if err.errno == errno.EROFS:
+        return f"the file system holding {directory} is mounted read-only"
+    if err.errno in (errno.EACCES, errno.EPERM):
+        return f"the directory {directory} is not writable (permission denied)"
+    if err.errno == errno.ENOENT:
+        return f"the directory {directory} does not exist"
+    if err.errno == errno.ENOTDIR:
+        return f"{target.parent} is not a directory"
+    return err.strerror or str(err)
 
 
 def file_mode(target: Path) -> int:
