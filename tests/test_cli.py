@@ -6,6 +6,7 @@ import json
 import subprocess
 import sys
 
+import mpmath
 import pytest
 
 from ketsplit.cli import main
@@ -44,6 +45,18 @@ def test_c_json_gives_one_object_per_statement(capsys):
     assert schmidt["line"] == 2
     assert schmidt["fields"]["coefficients"]["text"] == "[sqrt(3)/2, 1/2]"
     assert r"\frac{\sqrt{3}}{2}" in schmidt["fields"]["coefficients"]["latex"]
+
+
+def test_json_carries_the_certified_digits_of_numeric_results(capsys):
+    assert main(["-c", "digits 25; numeric |00> + 2|11>", "--json"]) == 0
+    numeric = json.loads(capsys.readouterr().out.splitlines()[1])
+    cells = [row[1] for row in numeric["tables"][0]["rows"]]
+    # |00> + 2|11> normalised has Schmidt coefficients 2/sqrt(5) and 1/sqrt(5) (fact of the trade);
+    # the reference digits come from mpmath
+    with mpmath.workdps(50):
+        expected = [mpmath.nstr(2 / mpmath.sqrt(5), 25), mpmath.nstr(1 / mpmath.sqrt(5), 25)]
+    assert [c["digits"] for c in cells] == [25, 25]
+    assert [c["value"] for c in cells] == expected
 
 
 def test_an_error_names_line_and_column_and_exits_2_without_a_traceback(capsys):

@@ -130,6 +130,18 @@ def test_a_worksheet_cannot_save_or_open(tmp_path):
     assert "cannot run 'save'" in outcomes[1].error.message
 
 
+def test_a_worksheet_cannot_write_files_or_raise_the_limits(tmp_path):
+    target = tmp_path / "chart.svg"
+    sheet = parse_sheet(("#! ketsplit worksheet 1\nreal t in [0, pi]\n"
+                         f"plot entropy cos(t)|00> + sin(t)|11> over t --to {target}\n"
+                         "limits seconds=100000\nlimits\n#! end: 4 lines\n").encode())
+    _, outcomes = replay(sheet)
+    assert not target.exists()
+    assert [o.error is not None for o in outcomes] == [False, True, True, False]
+    assert "cannot write files" in outcomes[1].error.message
+    assert "resource limits" in outcomes[2].error.message
+
+
 def test_save_to_a_path_that_cannot_be_written_keeps_the_session(tmp_path):
     session = Session()
     session.run("psi = |00> + |11>")
@@ -138,6 +150,16 @@ def test_save_to_a_path_that_cannot_be_written_keeps_the_session(tmp_path):
     assert caught.value.line == 1 and caught.value.column == 6
     assert "psi" in session.bindings
     assert [e.source for e in session.transcript] == ["psi = |00> + |11>"]
+
+
+def test_save_does_not_replace_a_file_that_is_not_a_worksheet(tmp_path):
+    notes = tmp_path / "notes.txt"
+    notes.write_text("my own notes\n", encoding="utf-8")
+    session = Session()
+    session.run("psi = |00> + |11>")
+    with pytest.raises(InputError, match="not a worksheet"):
+        session.run(f"save {notes}")
+    assert notes.read_text(encoding="utf-8") == "my own notes\n"
 
 
 def test_open_of_a_file_from_a_later_version_leaves_the_session_alone(tmp_path):

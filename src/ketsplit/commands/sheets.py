@@ -7,8 +7,8 @@ from pathlib import Path
 
 from ..render.report import Field, Report
 from ..session import Session
-from ..sheets.format import EXTENSION, SheetError, read_sheet
-from ..sheets.runner import differences, replay, save, sheet_of_transcript
+from ..sheets.format import EXTENSION, MAGIC, SheetError, read_sheet
+from ..sheets.runner import Outcome, differences, replay, save, sheet_of_transcript
 from .registry import CommandCall, command
 
 
@@ -32,6 +32,9 @@ def argument_place(call: CommandCall) -> tuple[int, int]:
          "save photon-pair.kss", topic="worksheets")
 def run_save(call: CommandCall) -> Report:
     path = sheet_path(call)
+    if path.exists() and not is_worksheet(path):
+        raise call.error(f"{path} exists and is not a worksheet; it was left alone: choose "
+                         "another name", *argument_place(call))
     sheet = sheet_of_transcript(call.session.transcript, call.session.settings)
     try:
         save(sheet, path)
@@ -39,6 +42,15 @@ def run_save(call: CommandCall) -> Report:
         raise call.error(f"cannot write {path}: {err.strerror or err}; nothing was saved and "
                          "the session goes on", *argument_place(call)) from None
     return Report(f"saved {len(sheet.lines)} lines to {path}")
+
+
+def is_worksheet(path: Path) -> bool:
+    """Does the file start with the worksheet format line (so that replacing it loses nothing)?"""
+    try:
+        with path.open("rb") as handle:
+            return handle.read(len(MAGIC)) == MAGIC.encode()
+    except OSError:
+        return False
 
 
 @command("open", "open FILE", "replace the session by a worksheet's, replaying its statements",
@@ -52,13 +64,21 @@ def run_open(call: CommandCall) -> Report:
     fresh, outcomes = replay(sheet)
     changed = differences(outcomes, fresh) if sheet.format is not None else []
     adopt(call.session, fresh)
-    items = tuple(Field(f"{o.entry.line}  {o.entry.source.strip()}", r.text())
-                  for o in outcomes for r in o.records)
+    items = tuple(item for o in outcomes for item in replayed_items(o))
     notes = ([f"{path}: {p}" for p in sheet.problems]
              + [f"line {d.line}: the result differs from the one recorded" for d in changed]
              + [f"line {o.entry.line} failed: {o.error.message}" for o in outcomes if o.error])
     ran = sum(1 for o in outcomes if o.runs)
     return Report(f"opened {path}: {ran} lines replayed", items, tuple(notes))
+
+
+def replayed_items(outcome: Outcome) -> list[Field]:
+    """One field a result: its line (numbered when the line gave several), the statement, the text."""
+    statements = [r.statement for r in outcome.results] + [outcome.entry.source.strip()]
+    records = outcome.records
+    return [Field(f"line {outcome.entry.line}" + (f" #{k}" if len(records) > 1 else ""),
+                  f"» {statement}\n{record.text()}")
+            for k, (statement, record) in enumerate(zip(statements, records), start=1)]
 
 
 def adopt(session: Session, fresh: Session) -> None:

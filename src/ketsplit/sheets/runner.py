@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import dataclasses
 import datetime
+import re
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -20,6 +21,8 @@ from ..language.errors import InputError, Span
 from ..session import UNRECORDED, Entry, Result, Session, split_statements
 from .format import Record, Sheet, SheetLine, format_sheet
 from .matching import records_agree
+
+FILE_OPTION = re.compile(r"\s--to\s")  # the option by which a statement names a file to write
 
 
 @dataclass(frozen=True)
@@ -89,14 +92,27 @@ def run_line(session: Session, entry: SheetLine, files: bool = False) -> Outcome
 
 
 def refusal(entry: SheetLine) -> InputError | None:
+    """Why a line may not run from a file: it would read or write files, or change
+    the process-wide resource limits that protect the reader from the file."""
     from ..commands import FIRST_WORD
     for statement, _ in split_statements(entry.source):
         word = FIRST_WORD.match(statement)
-        if word and word.group(1) in UNRECORDED:
-            return InputError(f"a worksheet cannot run {word.group(1)!r}: worksheets hold "
-                              "computations only", Span(entry.line, word.start(1) + 1,
-                                                        len(word.group(1))), entry.source)
+        name = word.group(1) if word else ""
+        option = FILE_OPTION.search(statement)
+        if name in UNRECORDED:
+            return refused(entry, f"a worksheet cannot run {name!r}: worksheets hold computations "
+                                  "only", word.start(1), len(name))
+        if name == "limits" and statement[word.end():].strip():
+            return refused(entry, "a worksheet cannot change the resource limits; set them in "
+                                  "the shell before opening it", word.start(1), len(name))
+        if option:
+            return refused(entry, "a worksheet cannot write files: run this line without "
+                                  f"'{option.group().strip()}'", option.start() + 1, 4)
     return None
+
+
+def refused(entry: SheetLine, message: str, column: int, length: int) -> InputError:
+    return InputError(message, Span(entry.line, column + 1, length), entry.source)
 
 
 def differences(outcomes: list[Outcome], session: Session) -> list[Difference]:
