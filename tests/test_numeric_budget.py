@@ -1,0 +1,59 @@
+"""Exact first within a time budget, then certified numbers (ketsplit.numeric.budget/strategy)."""
+
+import signal
+import time
+
+import mpmath
+import pytest
+import sympy
+
+from ketsplit import Session
+from ketsplit.numeric.budget import OverBudget, time_budget
+from ketsplit.numeric.values import exact_cell
+
+
+def test_budget_interrupts_a_long_computation():
+    started = time.monotonic()
+    with pytest.raises(OverBudget):
+        with time_budget(0.2):
+            while True:
+                time.sleep(0.01)
+    assert time.monotonic() - started < 2
+    assert signal.getitimer(signal.ITIMER_REAL)[0] == 0  # the timer is disarmed afterwards
+
+
+def test_budget_does_not_fire_when_the_work_ends_in_time():
+    with time_budget(5):
+        total = sum(range(1000))
+    assert total == 499500 and signal.getitimer(signal.ITIMER_REAL)[0] == 0
+
+
+def test_schmidt_over_budget_falls_back_and_says_why():
+    # a 4x4 tridiagonal integer state whose exact path takes far longer than 0.3 s here;
+    # reference library: mpmath.svd_r of the same matrix, normalised
+    session = Session()
+    results = session.run("budget 0.3\nschmidt |00> + |01> + 2|11> + |12> + 3|22> + |23> + 5|33>")
+    out = results[1].text()
+    assert "within the budget of 0.3 s" in out and "certified numeric" in out
+    with mpmath.workdps(50):
+        m = mpmath.matrix([[1, 1, 0, 0], [0, 2, 1, 0], [0, 0, 3, 1], [0, 0, 0, 5]])
+        values = mpmath.svd_r(m, compute_uv=False)
+        largest = max(values) / mpmath.sqrt(42)
+        assert mpmath.nstr(largest, 30, strip_zeros=False) in out
+
+
+def test_root_of_prints_with_certified_digits():
+    # reference library: mpmath.polyroots; x^5 - x - 1 has one real root (about 1.1673, recalled
+    # from memory and checked here by mpmath)
+    x = sympy.Symbol("x")
+    root = sympy.CRootOf(x ** 5 - x - 1, 0)
+    cell = exact_cell(sympy.sqrt(root), 30)
+    with mpmath.workdps(60):
+        real_root = [r for r in mpmath.polyroots([1, 0, 0, 0, -1, -1], maxsteps=200, extraprec=200)
+                     if abs(mpmath.im(r)) < mpmath.mpf(10) ** -40][0]
+        expected = mpmath.nstr(mpmath.sqrt(mpmath.re(real_root)), 30, strip_zeros=False)
+    assert cell.text == expected and cell.digits == 30 and cell.exact == sympy.sqrt(root)
+
+
+def test_rational_coefficients_stay_plain():
+    assert exact_cell(sympy.Rational(1, 2), 30) == sympy.Rational(1, 2)
