@@ -152,25 +152,20 @@ def test_save_to_a_path_that_cannot_be_written_keeps_the_session(tmp_path):
     assert [e.source for e in session.transcript] == ["psi = |00> + |11>"]
 
 
-def test_save_does_not_replace_a_file_that_is_not_a_worksheet(tmp_path):
-    notes = tmp_path / "notes.txt"
-    notes.write_text("my own notes\n", encoding="utf-8")
+@pytest.mark.parametrize("name, content, action, message", [
+    ("notes.txt", "my own notes\n", "save", "not a worksheet"),          # never replaced
+    ("later.kss", "#! ketsplit worksheet 99\nrank |00>\n", "open", "format 99"),  # never half-read
+])
+def test_a_refused_save_or_open_leaves_the_file_and_the_session_alone(tmp_path, name, content,
+                                                                       action, message):
+    path = tmp_path / name
+    path.write_text(content, encoding="utf-8")
     session = Session()
     session.run("psi = |00> + |11>")
-    with pytest.raises(InputError, match="not a worksheet"):
-        session.run(f"save {notes}")
-    assert notes.read_text(encoding="utf-8") == "my own notes\n"
-
-
-def test_open_of_a_file_from_a_later_version_leaves_the_session_alone(tmp_path):
-    path = tmp_path / "later.kss"
-    path.write_text("#! ketsplit worksheet 99\nrank |00>\n", encoding="utf-8")
-    session = Session()
-    session.run("psi = |00> + |11>")
-    with pytest.raises(InputError, match="format 99"):
-        session.run(f"open {path}")
+    with pytest.raises(InputError, match=message):
+        session.run(f"{action} {path}")
     assert "psi" in session.bindings
-    assert path.read_text(encoding="utf-8") == "#! ketsplit worksheet 99\nrank |00>\n"
+    assert path.read_text(encoding="utf-8") == content
 
 
 def test_open_of_a_damaged_file_loads_what_it_can_and_names_the_line(tmp_path):

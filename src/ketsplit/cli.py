@@ -2,7 +2,9 @@
 
 Exit status: 0 when everything ran (and, for ``verify``, matched); 1 when
 ``verify`` finds a result that differs or a damaged worksheet; 2 when input
-could not be run (an error in a statement, a file that is not a worksheet).
+could not be run (an error in a statement, a file that is not a worksheet);
+3 on an internal error (a bug in ketsplit, reported in one line, not as a
+traceback).
 """
 
 from __future__ import annotations
@@ -46,6 +48,14 @@ def output_options(parser: argparse.ArgumentParser, default=False) -> None:
 
 def main(argv: list[str] | None = None) -> int:
     args = build_parser().parse_args(argv)
+    try:
+        return dispatch(args)
+    except Exception as err:  # a bug in the engine: say so in one line
+        print(f"internal error ({type(err).__name__}: {err}); please report it", file=sys.stderr)
+        return 3
+
+
+def dispatch(args) -> int:
     try:
         if args.statements is not None:
             sheet = parse_sheet(args.statements.encode("utf-8"), "-c")

@@ -1,8 +1,9 @@
 """Run a worksheet through a Session, compare with what it recorded, re-record it.
 
-Only statements of the state language run: a worksheet line that would act on
-files (``save``, ``open``) is refused, so replaying a stranger's worksheet
-cannot write or read anything.
+Only computations run: a worksheet line that would act on files (``save``,
+``open``, an option ``--to FILE``) or raise the process-wide resource limits
+is refused, so replaying a stranger's worksheet reads and writes nothing and
+stays inside the limits the reader chose.
 """
 
 from __future__ import annotations
@@ -19,10 +20,13 @@ from .. import __version__
 from ..language.build import KetValue
 from ..language.errors import InputError, Span
 from ..session import UNRECORDED, Entry, Result, Session, split_statements
+from ..timebudget import alarm
 from .format import Record, Sheet, SheetLine, format_sheet
 from .matching import records_agree
 
 FILE_OPTION = re.compile(r"\s--to\s")  # the option by which a statement names a file to write
+# Recorded results come from the file: proving two of them equal gets a bounded time.
+SIMPLIFY_SECONDS = 10.0
 
 
 @dataclass(frozen=True)
@@ -157,8 +161,9 @@ class ValueEquality:
 def same_value(a, b) -> bool:
     if isinstance(a, KetValue) and isinstance(b, KetValue):
         labels = set(a.terms) | set(b.terms)
+        zero = sympy.S.Zero
         return a.nparts == b.nparts and all(
-            is_zero(a.terms.get(k, 0) - b.terms.get(k, 0)) for k in labels)
+            is_zero(a.terms.get(k, zero) - b.terms.get(k, zero)) for k in labels)
     if isinstance(a, sympy.MatrixBase) and isinstance(b, sympy.MatrixBase):
         return a.shape == b.shape and all(is_zero(x - y) for x, y in zip(a, b))
     if isinstance(a, sympy.Expr) and isinstance(b, sympy.Expr):
@@ -166,10 +171,19 @@ def same_value(a, b) -> bool:
     return False
 
 
-def is_zero(expr) -> bool:
-    """Proved zero (False when sympy cannot decide)."""
-    expr = sympy.sympify(expr)
-    return expr == 0 or sympy.simplify(expr) == 0
+class Undecided(BaseException):
+    """Simplification ran past its budget (a BaseException, so that sympy cannot swallow it)."""
+
+
+def is_zero(expr: sympy.Expr) -> bool:
+    """Proved zero within SIMPLIFY_SECONDS (False when sympy cannot decide in time)."""
+    if expr == 0:
+        return True
+    try:
+        with alarm(SIMPLIFY_SECONDS, Undecided):
+            return sympy.simplify(expr) == 0
+    except Undecided:
+        return False
 
 
 # -- sheets from sessions and outcomes -----------------------------------------
