@@ -114,6 +114,27 @@ def test_verify_fails_naming_the_line_and_showing_both_results(sheet, capsys):
     assert "1 of 4 lines differ" in out
 
 
+def test_record_again_restores_a_tampered_result_and_keeps_the_comments(sheet, capsys):
+    good = sheet.read_text(encoding="utf-8")
+    sheet.write_text(good.replace("[sqrt(3)/2, 1/2]", "[1, 0]"), encoding="utf-8")
+    assert main(["run", str(sheet), "--record"]) == 0
+    again = sheet.read_text(encoding="utf-8")
+    assert "# two photons from one crystal" in again
+    body = [line for line in again.splitlines() if not line.startswith("#! saved")]
+    assert body == [line for line in good.splitlines() if not line.startswith("#! saved")]
+    capsys.readouterr()
+    assert main(["verify", str(sheet)]) == 0
+
+
+def test_pretty_output_is_two_dimensional(capsys):
+    assert main(["-c", "reduce (|00> + |11>)/sqrt(2) 1"]) == 0
+    linear = capsys.readouterr().out
+    # the reduced state of a Bell pair is the identity over 2 (fact of the trade)
+    assert "[[1/2, 0], [0, 1/2]]" in linear
+    assert main(["-c", "reduce (|00> + |11>)/sqrt(2) 1", "--pretty"]) == 0
+    assert len(capsys.readouterr().out.splitlines()) > len(linear.splitlines())
+
+
 def test_verify_of_a_truncated_worksheet_fails(sheet, capsys):
     sheet.write_bytes(sheet.read_bytes()[:-20])
     capsys.readouterr()
