@@ -9,7 +9,7 @@ InputError is a bug; so is a statement that runs past its time limit without
 saying so (the limit 'seconds' is lowered here, and a hard watchdog fails the
 test if even that does not stop it).
 
-Examples per test: 150 by default, deterministic.  For a long random run:
+About 450 examples in all by default, deterministic.  For a long random run:
 
     KETSPLIT_FUZZ_EXAMPLES=5000 python -m pytest -q -m slow tests/test_fuzz_language.py
 """
@@ -30,10 +30,17 @@ from ketsplit import InputError, Session, limits
 from ketsplit.language.grammar import parse_expression
 
 MANY = int(os.environ.get("KETSPLIT_FUZZ_EXAMPLES", "0"))
-DEFAULT = settings(max_examples=150, deadline=None, derandomize=True, database=None,
-                   suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
+QUIET = [HealthCheck.too_slow, HealthCheck.filter_too_much]
+
+
+def examples(count: int) -> settings:
+    """The default run: ``count`` deterministic examples (about 450 over this file)."""
+    return settings(max_examples=count, deadline=None, derandomize=True, database=None,
+                    suppress_health_check=QUIET)
+
+
 LONG = settings(max_examples=MANY or 2000, deadline=None, derandomize=False, database=None,
-                suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
+                suppress_health_check=QUIET)
 STATEMENT_SECONDS = 3     # the limit 'seconds' while fuzzing
 WATCHDOG_SECONDS = 20     # past this the limit itself failed: the test fails
 
@@ -184,31 +191,31 @@ def parses_or_refuses(text: str) -> None:
         assert err.span is not None
 
 
-@DEFAULT
+@examples(200)
 @given(st.one_of(soup, unicode_soup, broken(), deep, huge))
 def test_the_parser_gives_a_tree_or_an_input_error(text):
     parses_or_refuses(text)
 
 
-@DEFAULT
+@examples(80)
 @given(st.one_of(soup, unicode_soup))
 def test_character_soup(text):
     outcome(text)
 
 
-@DEFAULT
+@examples(80)
 @given(st.one_of(broken(), mismatched, deep, huge))
 def test_near_misses_of_expressions(text):
     outcome(text)
 
 
-@DEFAULT
+@examples(80)
 @given(statements, st.sampled_from(PRELUDES))
 def test_near_misses_of_statements(text, prelude):
     outcome(text, prelude)
 
 
-@DEFAULT
+@examples(30)
 @given(st.lists(st.one_of(statements, soup), min_size=2, max_size=4).map("\n".join))
 def test_several_lines_at_once(text):
     outcome(text, PRELUDES[-1])
