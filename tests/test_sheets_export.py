@@ -8,6 +8,8 @@ math renderers; fact of the trade).
 
 from __future__ import annotations
 
+import functools
+
 import pytest
 
 from ketsplit.render.markdown import to_markdown
@@ -31,9 +33,14 @@ rank psi 1|3
 """
 
 
+@functools.cache
+def outcomes() -> tuple:
+    """The sheet replayed once for all the tests of this module."""
+    return tuple(replay(parse_sheet(SHEET.encode()))[1])
+
+
 def exported(to: str) -> str:
-    _, outcomes = replay(parse_sheet(SHEET.encode()))
-    return export(outcomes, to, "two_qubits.kss")
+    return export(list(outcomes()), to, "two_qubits.kss")
 
 
 def test_latex_export_is_balanced_and_keeps_each_statement_as_a_comment():
