@@ -142,6 +142,14 @@ def test_verify_of_a_truncated_worksheet_fails(sheet, capsys):
     assert "cut short" in capsys.readouterr().err
 
 
+def test_a_damaged_worksheet_is_not_re_recorded(sheet, capsys):
+    damaged = sheet.read_bytes().replace(b"reduce psi 1", b"reduce psi \xff")
+    sheet.write_bytes(damaged)
+    assert main(["run", str(sheet), "--record"]) == 2
+    assert "not re-recorded" in capsys.readouterr().err
+    assert sheet.read_bytes() == damaged
+
+
 def test_verify_of_a_plain_statement_file_explains(tmp_path, capsys):
     path = tmp_path / "plain.txt"
     path.write_text("rank |00>\n", encoding="utf-8")

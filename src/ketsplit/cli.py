@@ -50,6 +50,9 @@ def main(argv: list[str] | None = None) -> int:
     args = build_parser().parse_args(argv)
     try:
         return dispatch(args)
+    except KeyboardInterrupt:
+        print("cancelled", file=sys.stderr)
+        return 130
     except Exception as err:  # a bug in the engine: say so in one line
         print(f"internal error ({type(err).__name__}: {err}); please report it", file=sys.stderr)
         return 3
@@ -91,9 +94,8 @@ def run_sheet(sheet: Sheet, args, typed: bool) -> int:
         if outcome.error:
             failed = True
             report_error(outcome.error, outcome.entry.source, args.json)
-    if getattr(args, "record", False):
-        record(sheet, outcomes, args.file)
-    return 2 if failed else 0
+    recorded = record(sheet, outcomes, args.file) if getattr(args, "record", False) else True
+    return 2 if failed or not recorded else 0
 
 
 def report_error(err: InputError, source: str, as_json: bool) -> None:
@@ -109,15 +111,21 @@ def report_problems(sheet: Sheet, name: str) -> None:
         print(f"{name}: {problem}", file=sys.stderr)
 
 
-def record(sheet: Sheet, outcomes, path: str) -> None:
+def record(sheet: Sheet, outcomes, path: str) -> bool:
+    """Write this run's results into the worksheet; a damaged one is left as it is."""
     from .sheets.runner import rerecorded, save
+    if sheet.problems:
+        print(f"error: {path} is damaged ({len(sheet.problems)} problems above); it was not "
+              "re-recorded, so that nothing in it is lost", file=sys.stderr)
+        return False
     try:
         save(rerecorded(sheet, outcomes), path)
     except OSError as err:
         print(f"error: cannot write {path}: {err.strerror or err}; the file is unchanged",
               file=sys.stderr)
-        return
+        return False
     print(f"recorded {sum(1 for o in outcomes if o.runs)} lines in {path}", file=sys.stderr)
+    return True
 
 
 # -- verify ----------------------------------------------------------------------
