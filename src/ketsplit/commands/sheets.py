@@ -7,6 +7,7 @@ from pathlib import Path
 
 from ..render.report import Field, Report
 from ..session import Session
+from ..sheets.atomic import refuse_read_only
 from ..sheets.format import EXTENSION, MAGIC, SheetError, read_sheet
 from ..sheets.runner import Outcome, differences, replay, save, sheet_of_transcript
 from .registry import CommandCall, command
@@ -32,11 +33,12 @@ def argument_place(call: CommandCall) -> tuple[int, int]:
          "save photon-pair.kss", topic="worksheets")
 def run_save(call: CommandCall) -> Report:
     path = sheet_path(call)
-    if path.exists() and not is_worksheet(path):
-        raise call.error(f"{path} exists and is not a worksheet; it was left alone: choose "
-                         "another name", *argument_place(call))
     sheet = sheet_of_transcript(call.session.transcript, call.session.settings)
     try:
+        refuse_read_only(path)  # first, so that a read-only file is called so
+        if path.exists() and not is_worksheet(path):
+            raise call.error(f"{path} exists and is not a worksheet; it was left alone: choose "
+                             "another name", *argument_place(call))
         save(sheet, path)
     except OSError as err:
         raise call.error(f"cannot write {path}: {err.strerror or err}; nothing was saved and "
