@@ -13,6 +13,7 @@ import os
 import subprocess
 import sys
 import time
+from pathlib import Path
 
 import pytest
 
@@ -228,3 +229,26 @@ def test_the_api_refuses_too_many_parts_as_well():
     with limits.limits_set(parts=4):
         with pytest.raises(LimitError):
             ketsplit.ket("|00000>")
+
+
+# -- the README's table of common mistakes says what the program says ----------------------------
+
+PSI = "real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>"
+MISTAKES = [  # (prelude, what was typed): each row of the table in README.md
+    ("", "psi = |01 + |10>"), ("", "|00> + |1>"), ("", "(|00> + |11>/sqrt(2)"),
+    ("", "Cos(t)|0> + |1>"), ("space A:2 B:2", "|02>"), ("", "|>"), ("", "|01> - |01>"),
+    ("", "schmidt |000> + |111>"), ("", "schmidt |00> + |11> 1|3"),
+    ("", "schmidt |000> + |111> 1|2"), (PSI, "shmidt psi"), (PSI, "schmidt psi with t=4"),
+    (PSI, "schmidt psi with t=i"), (PSI, "reduce psi"), ("", "real t in [pi, 0]"),
+    ("", "|0>/0"), ("", "digits 3"), ("", "x^5000 |0> + |1>"), ("", "|" + "0" * 70 + ">"),
+]
+
+
+@pytest.mark.parametrize("prelude, text", MISTAKES)
+def test_the_readme_table_quotes_the_messages(prelude, text):
+    readme = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
+    session = Session()
+    session.run(prelude)
+    with pytest.raises(InputError) as info:
+        session.run(text)
+    assert f"| {info.value.message.replace('|', chr(92) + '|')} |" in readme, info.value.message

@@ -15,7 +15,9 @@ number_digits      2000        decimal digits of an exact number (numerator or
                                more than 4300 digits, so keep this below that
 sum_terms          100000      terms of one ``sum(n=a..b, ...)``
 terms              1048576     basis kets of one ket expression
-parts              64          parts of one state
+parts              64          parts of one state (a state kept in the Dicke
+                               basis, dicke(n, k), never lists its labels and
+                               has its own bound, ketsplit.symmetric)
 part_dimension     10000       dimension of one part (and so its largest label)
 dimension          2^64        total dimension of a state (the product of the
                                parts' dimensions); states are stored sparsely,
