@@ -221,6 +221,34 @@ def test_several_lines_at_once(text):
     outcome(text, PRELUDES[-1])
 
 
+# -- inputs that once crashed (each was a traceback before its fix) ---------------------------------
+
+ONCE_CRASHED = [
+    ("", "9" * 5000),                       # ValueError: int() of more than 4300 digits
+    ("", "1e" + "9" * 5000),                # the same, in the exponent
+    ("", "|0," + "9" * 5000 + ">"),         # the same, in a ket label
+    ("", "space A:" + "9" * 5000),          # the same, in a dimension
+    ("", "digits " + "9" * 5000),           # the same, in digits
+    ("", "(10^1000)^1000"),                 # printing a 10^6-digit integer
+    ("", "10^999/(10^999-1)|0> + 10^999/(10^999-3)|1> + 10^999/(10^999-7)|2>"),  # its norm
+    ("", "1²"), ("", ".²"), ("", "space A:²"), ("", "digits ²"),  # str.isdigit() is not int()
+    ("", "x = 1١"),                         # an Arabic-Indic digit read as a decimal digit
+    ("", " + ".join(f"|{k},{k}>" for k in range(3000))),  # RecursionError in a flat sum
+    ("", "+".join(["x"] * 2000)),
+    ("real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>", "schmidt psi with t=i"),  # TypeError
+]
+
+
+@pytest.mark.parametrize("prelude, text", ONCE_CRASHED, ids=lambda s: s[:30])
+def test_inputs_that_once_crashed(prelude, text):
+    outcome(text, prelude)
+
+
+def test_a_flat_sum_of_thousands_of_kets_is_a_state():
+    results = Session().run("x = " + " + ".join(f"|{k},{k}>" for k in range(3000)))
+    assert len(results[0].report.items[0].value.terms) == 3000
+
+
 # -- the long run (documented in DEVELOPERS.md) --------------------------------------------------
 
 @pytest.mark.slow
