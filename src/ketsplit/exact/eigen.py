@@ -85,8 +85,8 @@ def viete_roots(a, b, c, d) -> list[sympy.Expr]:
     if p == 0:
         return [sympy.simplify(shift + sympy.real_root(-q, 3))] * 3 if q != 0 else [shift] * 3
     amplitude = 2 * sympy.sqrt(-p / 3)
-    angle = sympy.acos(sympy.simplify(3 * q / (2 * p) * sympy.sqrt(-3 / p))) / 3
-    return [sympy.simplify(shift + amplitude * sympy.cos(angle - 2 * sympy.pi * k / 3)) for k in range(3)]
+    angle = sympy.acos(sympy.radsimp(3 * q / (2 * p) * sympy.sqrt(-3 / p))) / 3
+    return [shift + amplitude * sympy.cos(angle - 2 * sympy.pi * k / 3) for k in range(3)]
 
 
 def merge_equal(pairs: list[tuple[sympy.Expr, int]]) -> list[tuple[sympy.Expr, int]]:

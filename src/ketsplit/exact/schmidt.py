@@ -23,11 +23,13 @@ from __future__ import annotations
 
 from itertools import combinations
 
+import mpmath
 import sympy
 
 from ..cuts import CoefficientMatrix, Cut
 from ..states import State, abs_squared, simplify_real
 from .eigen import eigenvalues
+from .pointeval import evaluate_at
 
 Vector = sympy.Matrix
 Piece = tuple[sympy.Expr, Vector, Vector]  # (sigma, left vector, right vector) of one block
@@ -116,6 +118,8 @@ def tidy(value: sympy.Expr) -> sympy.Expr:
     them longer), so that a generic symbolic state does not spend minutes in
     heuristic simplification.
     """
+    if value.has(sympy.acos, sympy.CRootOf):
+        return value  # Viete and CRootOf forms: simplify only rewrites them at great cost
     if sympy.count_ops(value) <= 40:
         return sympy.simplify(value)
     return value if value.free_symbols else sympy.radsimp(value)
@@ -165,11 +169,17 @@ def simplify_sigma(eigenvalue: sympy.Expr) -> sympy.Expr:
 
 
 def eigenvectors(rho: sympy.Matrix, value: sympy.Expr, multiplicity: int) -> list[Vector]:
-    """An orthonormal basis of the eigenspace of ``value`` (Gram-Schmidt, Hermitian product)."""
-    shifted = (rho - value * sympy.eye(rho.rows)).applyfunc(tidy)
-    basis = shifted.nullspace(simplify=True)
-    if len(basis) < multiplicity:
-        basis = adjugate_columns(shifted) if multiplicity == 1 else basis
+    """An orthonormal basis of the eigenspace of ``value`` (Gram-Schmidt, Hermitian product).
+
+    A simple eigenvalue in trigonometric (Viete) or CRootOf form takes its
+    vector from the adjugate of rho - lambda I: a nullspace computation would
+    have to decide the zero pattern of trigonometric expressions, which sympy
+    cannot do quickly.
+    """
+    shifted = rho - value * sympy.eye(rho.rows)
+    if multiplicity == 1 and (value.has(sympy.acos, sympy.CRootOf) or value.free_symbols):
+        return orthonormalise(adjugate_columns(shifted))
+    basis = shifted.applyfunc(tidy).nullspace(simplify=True)
     if len(basis) < multiplicity:
         raise ArithmeticError(f"eigenspace of {value} has dimension {len(basis)}, "
                               f"expected {multiplicity}")
@@ -177,13 +187,19 @@ def eigenvectors(rho: sympy.Matrix, value: sympy.Expr, multiplicity: int) -> lis
 
 
 def adjugate_columns(shifted: sympy.Matrix) -> list[Vector]:
-    """A nonzero column of adj(rho - lambda I): an eigenvector when the eigenvalue is simple."""
+    """The column of adj(rho - lambda I) of largest numeric size: an eigenvector of a
+    simple eigenvalue (every column is a multiple of it; the largest is safely nonzero)."""
     adjugate = shifted.adjugate()
-    for j in range(adjugate.cols):
-        column = adjugate[:, j].applyfunc(tidy)
-        if any(not is_zero(v) for v in column):
-            return [column]
-    return []
+    sizes = [_size(adjugate[:, j]) for j in range(adjugate.cols)]
+    best = max(range(adjugate.cols), key=lambda j: sizes[j])
+    return [adjugate[:, best].applyfunc(tidy)]
+
+
+def _size(column: sympy.Matrix) -> float:
+    """A numeric size of a column at a generic point (parameters set to 1/3)."""
+    point = {s: sympy.Rational(1, 3) for s in column.free_symbols}
+    with mpmath.workdps(30):
+        return float(sum(abs(evaluate_at(v, point)) ** 2 for v in column))
 
 
 def orthonormalise(vectors: list[Vector]) -> list[Vector]:

@@ -9,9 +9,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from enum import Enum
 
+from .. import limits
 from .errors import InputError, Span
-
-MAX_INPUT_LENGTH = 200_000
 
 
 class Kind(Enum):
@@ -51,10 +50,8 @@ def _is_name_char(ch: str) -> bool:
 
 def tokenize(text: str, line: int = 1) -> list[Token]:
     """Split one line of the state language into tokens (``#`` ends it)."""
-    if len(text) > MAX_INPUT_LENGTH:
-        from .errors import LimitError
-        raise LimitError(f"input is {len(text)} characters long; the limit is "
-                         f"{MAX_INPUT_LENGTH} (ketsplit.limits)", Span(line, 1, 1), text)
+    limits.check(len(text), "input_length", f"input of {len(text)} characters", Span(line, 1, 1),
+                 text[:200])
     tokens: list[Token] = []
     pos = 0
     spaced = False
@@ -71,14 +68,15 @@ def tokenize(text: str, line: int = 1) -> list[Token]:
             end = text.find(">", pos + 1)
             bad = next((k for k in range(pos + 1, end if end >= 0 else len(text))
                         if text[k] not in KET_CHARS), None)
-            if end < 0 or bad is not None:
-                where = bad if bad is not None else len(text)
-                raise InputError("a ket opened with '|' must close with '>' and hold only "
-                                 "labels (digits, letters, '+', '-', ',')",
-                                 Span(line, where + 1, 1), text)
+            if end < 0 and bad is None:
+                raise InputError("the ket opened here is not closed: expected '>'",
+                                 Span(line, start + 1, 1), text)
+            if bad is not None:
+                raise InputError(f"unexpected {text[bad]!r} inside a ket: labels are digits, "
+                                 "letters, '+', '-' and ','", Span(line, bad + 1, 1), text)
             pos = end + 1
             tokens.append(Token(Kind.KET, text[start:pos], Span(line, start + 1, pos - start), spaced))
-        elif ch.isascii() and ch.isdigit() or (ch == "." and text[pos + 1:pos + 2].isdigit()):
+        elif ch.isascii() and ch.isdigit() or (ch == "." and "0" <= text[pos + 1:pos + 2] <= "9"):
             pos = _scan_number(text, pos)
             tokens.append(Token(Kind.NUMBER, text[start:pos], Span(line, start + 1, pos - start), spaced))
         elif _is_name_start(ch):
@@ -103,18 +101,18 @@ def tokenize(text: str, line: int = 1) -> list[Token]:
 def _scan_number(text: str, pos: int) -> int:
     """End of a decimal number starting at ``pos``: digits, one dot, an exponent."""
     n = len(text)
-    while pos < n and text[pos].isdigit():
+    while pos < n and "0" <= text[pos] <= "9":
         pos += 1
     if pos < n and text[pos] == "." and not text.startswith("..", pos):
         pos += 1
-        while pos < n and text[pos].isdigit():
+        while pos < n and "0" <= text[pos] <= "9":
             pos += 1
     if pos < n and text[pos] in "eE":
         k = pos + 1
         if k < n and text[k] in "+-":
             k += 1
-        if k < n and text[k].isdigit():
+        if k < n and "0" <= text[k] <= "9":
             pos = k
-            while pos < n and text[pos].isdigit():
+            while pos < n and "0" <= text[pos] <= "9":
                 pos += 1
     return pos
