@@ -214,3 +214,18 @@ def test_no_time_gives_undecided_with_what_was_tried():
 def test_states_from_the_api_keep_their_ranges():
     psi = ketsplit.ket("sqrt(1 - sin(t)^2)|0>", ranges={"t": (0, "pi/2")})
     assert check(psi, "cos(t)|0>", ranges={"t": (0, "pi/2")}).holds is True
+
+
+def test_a_large_power_skips_the_exact_path_and_random_points_decide():
+    # (a + b)^20 against its binomial expansion, written out by sympy's expand (reference library)
+    from ketsplit.render.ketprint import text
+    a, b = sympy.symbols("a b", real=True)
+    expansion = sympy.expand((a + b) ** 20)
+    verdict = check("(a + b)^20", text(expansion), real="a b")
+    assert verdict.holds is True and "skipped" in verdict.reason
+    assert verdict.method.startswith("randomized")
+    # one binomial coefficient off by one: refuted, and the exact difference is a^10 b^10
+    wrong = text(expansion + a ** 10 * b ** 10)
+    refuted = check("(a + b)^20", wrong, real="a b")
+    assert_refuted(refuted, lambda a, b: -(a ** 10) * b ** 10)
+    assert refuted.digits == 0

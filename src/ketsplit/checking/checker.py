@@ -5,7 +5,7 @@ from __future__ import annotations
 from typing import Iterable, Mapping
 
 from ..states import Parameter
-from .decide import BUDGET, Difference, Options, decide
+from .decide import BUDGET, Options, decide
 from .points import domain_text
 from .sides import equality, mismatch, parameters, phase_equality, side_of
 from .verdict import Verdict
@@ -38,8 +38,4 @@ def compare_values(lhs, rhs, declared: Mapping[str, Parameter], up_to_phase: boo
     if why is not None:
         return Verdict(False, "sizes", why, domain_text(params))
     build = phase_equality if up_to_phase else equality
-    return decide_difference(build(left, right, params), options)
-
-
-def decide_difference(difference: Difference, options: Options) -> Verdict:
-    return decide(difference, options)
+    return decide(build(left, right, params), options)

@@ -60,8 +60,13 @@ def _zero_in_polynomial_form(expr: sympy.Expr, params: tuple[Parameter, ...]) ->
         return True
     if not form.relations:
         return False
+    # a Groebner basis over QQ stays one over any extension holding the parts' coefficients
     basis = sympy.groebner(list(form.relations), *form.variables, order="lex")
-    return all(basis.reduce(part)[1] == 0 for part in (real, imag))
+    try:
+        return all(sympy.reduced(part, list(basis.exprs), *form.variables, order="lex")[1] == 0
+                   for part in (real, imag))
+    except sympy.polys.polyerrors.BasePolynomialError as why:
+        raise Skipped(f"the polynomial form could not be reduced ({why})") from None
 
 
 def _algebraic_zero(number: sympy.Expr) -> bool:

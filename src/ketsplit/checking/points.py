@@ -24,13 +24,18 @@ INTEGER_SPAN = (-6, 6)       # integer ones without a range
 
 
 def domain_text(params: tuple[Parameter, ...]) -> str:
-    """'real t in [0, pi] and complex z', for verdict lines."""
+    """'real t in [0, pi] and complex z, w', for verdict lines (a range stays with its name)."""
     groups: dict[str, list[str]] = {}
+    pieces: list[str] = []
     for p in params:
-        where = f" in [{sympy.sstr(p.range[0])}, {sympy.sstr(p.range[1])}]" if p.range else ""
-        groups.setdefault(p.kind, []).append(p.name + where)
-    pieces = [f"{kind} {', '.join(names)}" for kind, names in groups.items()]
-    return " and ".join(pieces)
+        if p.range is None:
+            if p.kind not in groups:
+                groups[p.kind] = []
+                pieces.append(p.kind)
+            groups[p.kind].append(p.name)
+        else:
+            pieces.append(f"{p.kind} {p.name} in [{sympy.sstr(p.range[0])}, {sympy.sstr(p.range[1])}]")
+    return " and ".join(f"{k} {', '.join(groups[k])}" if k in groups else k for k in pieces)
 
 
 def points(params: tuple[Parameter, ...], seed: int) -> Iterator[dict[sympy.Symbol, sympy.Expr]]:

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
 
 import sympy
 
@@ -26,7 +26,6 @@ class Verdict:
     counterexample: dict | None = None
     digits: int = 0                    # certified digits in the difference (0: exact)
     quantity: str = DIFFERENCE         # what the difference is of, for the line
-    notes: tuple[str, ...] = field(default=())
 
     def line(self) -> str:
         """A verdict a user can paste into notes."""

@@ -37,8 +37,8 @@ CLAIMS = ("schmidt", "reduce", "rank")
 FIRST_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
 
 
-@command("check", "check LHS = RHS | LHS ~ RHS | schmidt STATE CUT = [c1, ...] | "
-                  "reduce STATE PARTS = MATRIX | rank STATE CUT = R",
+@command("check", "check LHS = RHS | LHS ~ RHS | STATE CUT = c1 (u1)(w1) + ... | "
+                  "schmidt STATE CUT = [c1, ...] | reduce STATE PARTS = MATRIX | rank STATE CUT = R",
          "does a hand derivation hold? yes (exact or with a stated confidence) or a certified "
          "counterexample; '~' compares up to a global phase",
          "check sin(2t) = 2 sin(t) cos(t)")
@@ -224,4 +224,4 @@ def verdict_report(verdict: Verdict) -> Report:
                                                          for k, v in point.items())))
         items.append(Field(verdict.quantity, verdict.counterexample[DIFFERENCE]))
     items.append(Field("reason", verdict.reason))
-    return Report("check", tuple(items), verdict.notes)
+    return Report("check", tuple(items))
