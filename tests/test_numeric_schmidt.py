@@ -202,3 +202,24 @@ def test_exact_algebraic_coefficients_print_with_certified_digits():
     with mpmath.workdps(50):
         expected = mpmath.nstr(mpmath.sqrt(mpmath.mpf(2) / 3), 30, strip_zeros=False)
     assert f"≈ {expected}" in out
+
+
+def test_block_too_large_for_the_numeric_path_names_the_limit(monkeypatch):
+    from ketsplit.numeric import blocks
+    monkeypatch.setattr(blocks, "MAX_NUMERIC_SIDE", 2)
+    text, _ = random_state_text(3, 3, 11)
+    with pytest.raises(LimitError, match="MAX_NUMERIC_SIDE") as err:
+        certified_schmidt(ketsplit.ket(text), None, 20)
+    assert "smaller side" in err.value.message
+
+
+def test_numeric_statement_at_a_point():
+    # fact of the trade: cos(t)|00> + sin(t)|11> at t = pi/5 has coefficients cos(pi/5), sin(pi/5);
+    # cos(pi/5) = (1 + sqrt(5))/4, the golden ratio over 2 (fact of the trade)
+    session = Session()
+    out = session.run("real t in [0, pi/4]\nnumeric cos(t)|00> + sin(t)|11> with t=pi/5")[1].text()
+    with mpmath.workdps(50):
+        golden_half = mpmath.nstr((1 + mpmath.sqrt(5)) / 4, 30, strip_zeros=False)
+    assert golden_half in out and "rank: 2" in out
+    with pytest.raises(InputError, match="outside its declared range"):
+        session.run("numeric cos(t)|00> + sin(t)|11> with t=1")

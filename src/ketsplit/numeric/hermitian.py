@@ -23,8 +23,8 @@ Two rigorous methods, the fast one first:
    the ball.  Repeated eigenvalues need no special care.
 
 2. **flint's** ``acb_mat.eig(multiple=True)`` (rigorous clusters), used when
-   the refinement cannot reach e < 1 (for instance when float64 cannot even
-   represent the matrix).
+   the refinement cannot reach e < 1 or leaves wide enclosures (for instance
+   when float64 cannot even represent the matrix); the tighter result is kept.
 """
 
 from __future__ import annotations
@@ -35,6 +35,8 @@ import numpy
 from flint import acb, acb_mat, arb, ctx
 
 REFINE_STEPS_MAX = 12
+FLOAT_BITS = 48   # what float64 eigenvectors are good for, roughly
+GUARD_BITS = 32
 
 
 def to_numpy(matrix: acb_mat) -> numpy.ndarray:
@@ -111,18 +113,23 @@ def refined_vectors(a: acb_mat, bits: int) -> acb_mat | None:
     estimate as one cluster and stop improving inside it.  When they stall,
     X is replaced by flint's approximate eigenvectors at the working
     precision, which resolve the cluster, and the refinement goes on (up to
-    ``REFINE_STEPS_MAX`` steps in all).
+    ``REFINE_STEPS_MAX`` steps in all).  The early steps run at the
+    precision their accuracy needs (twice the last one), not at ``bits``.
     """
     start = to_numpy(a)
     if not numpy.all(numpy.isfinite(start)) or not numpy.any(start):
         return None
     _, vectors = numpy.linalg.eigh(start)
     x = from_numpy(vectors)
-    target = frobenius_upper(a) * arb(2) ** (-bits + 2 * math.ceil(math.log2(a.nrows() + 1)))
-    last, split = None, False
+    size = frobenius_upper(a)
+    target = size * arb(2) ** (-bits + 2 * math.ceil(math.log2(a.nrows() + 1)))
+    last, split, accuracy = None, False, FLOAT_BITS
     for _ in range(REFINE_STEPS_MAX):
-        x, off = refine_step(a, x)
-        if off < target:
+        with ctx.workprec(min(bits, 2 * accuracy + GUARD_BITS)):  # each step doubles the accuracy
+            x, off = refine_step(a, x)
+        accuracy = min(bits, 2 * accuracy)
+        if off < target or (accuracy == bits and (off / size) ** 2 * 2 ** GUARD_BITS < target / size):
+            # the step just taken squares the error it measured (quadratic convergence)
             break
         if last is not None and not off < last / 4:
             if split:
@@ -157,9 +164,17 @@ def eigenvalues(a: acb_mat, bits: int) -> list[arb]:
     with ctx.workprec(bits):
         x = refined_vectors(a, bits)
         found = certify(a, x) if x is not None else None
+        if found is None or not widest(found) < frobenius_upper(a) * arb(2) ** (-bits // 2):
+            clusters = sorted((z.real for z in a.eig(multiple=True, nonstop=True)), key=lambda v: v.mid())
+            if all(v.is_finite() for v in clusters) and (found is None or widest(clusters) < widest(found)):
+                found = clusters
         if found is None:
-            found = sorted((z.real for z in a.eig(multiple=True)), key=lambda v: v.mid())
+            raise ArithmeticError("no enclosure of the eigenvalues at this precision")
         return [nonnegative(v) for v in found]
+
+
+def widest(values: list[arb]) -> arb:
+    return max((v.rad() for v in values), key=lambda r: r.mid())
 
 
 def nonnegative(value: arb) -> arb:
