@@ -2,9 +2,8 @@
 
 from __future__ import annotations
 
-import sympy
-
 from . import ketprint
+from . import pretty as layout
 from .report import Digits, Field, Kets, Note, Plot, Report, Table
 
 
@@ -13,6 +12,8 @@ def cell_text(cell, pretty: bool = False) -> str:
         return cell
     if isinstance(cell, int) and not isinstance(cell, bool):
         return str(cell)
+    if pretty:
+        return layout.text(cell)
     if isinstance(cell, Digits):
         if cell.exact is not None:
             return f"{ketprint.text(cell.exact)} ≈ {cell.text}"
@@ -21,8 +22,6 @@ def cell_text(cell, pretty: bool = False) -> str:
         return kets_text(cell)
     if isinstance(cell, (list, tuple)):
         return "[" + ", ".join(cell_text(c, pretty) for c in cell) + "]"
-    if pretty and isinstance(cell, (sympy.Basic, sympy.MatrixBase)):
-        return sympy.pretty(cell, use_unicode=True)
     return ketprint.text(cell)
 
 
@@ -39,6 +38,8 @@ def _indent_block(label: str, body: str) -> str:
 
 
 def table_text(table: Table, pretty: bool = False) -> str:
+    if pretty:
+        return layout.table_text(table)
     cells = [[cell_text(c, pretty) for c in row] for row in table.rows]
     widths = [max([len(h)] + [len(row[k]) for row in cells]) for k, h in enumerate(table.headers)]
     def line(values):

@@ -1,23 +1,178 @@
-"""A minimal read-eval-print loop over one Session (the full shell replaces it)."""
+"""The interactive shell: a thin prompt_toolkit layer over one Session.
+
+Each submitted input is split into statements (lines that must go on are
+joined, see :mod:`.continuation`), and each line runs through
+``Session.run`` in the main thread, where Ctrl-C reaches it; the line is
+atomic: on a Ctrl-C or an error the session is rolled back to what it was
+before the line (:mod:`.guard`).  Everything the shell prints comes from the
+Session's results; the shell adds only display choices, help scenarios and
+two directives of its own, ``more`` and ``display pretty|linear``.
+"""
 
 from __future__ import annotations
 
+import functools
+import re
+import sys
+import time
+from typing import TextIO
+
+from prompt_toolkit import PromptSession
+from prompt_toolkit.auto_suggest import AutoSuggestFromHistory
+from prompt_toolkit.history import History, InMemoryHistory
+from prompt_toolkit.input import Input
+from prompt_toolkit.lexers import PygmentsLexer
+from prompt_toolkit.lexers.pygments import SyncFromStart
+from prompt_toolkit.output import Output
+
 from ..language.errors import InputError
-from ..session import Session, split_statements
+from ..session import Session, strip_comment
+from . import helptext
+from .completion import DIRECTIVES, ShellCompleter
+from .continuation import logical_lines
+from .display import Console, Mode, error_lines, results_text
+from .guard import guarded
+from .history import open_history
+from .keys import shell_bindings
+from .lexer import KetLexer, session_vocabulary, shell_style
+from .spinner import DELAY, Spinner
+from .status import Status, continuation, prompt, toolbar
+
+HELP = re.compile(r"^help(?:\s+(\S+))?$")
+DISPLAY = re.compile(r"^display\s+(pretty|linear)$")
+
+
+class Shell:
+    """One Session, its display mode, and what the status line reports."""
+
+    def __init__(self, session: Session | None = None, out: TextIO | None = None,
+                 mode: Mode = Mode(), colour: bool | None = None, spinner: bool | None = None,
+                 spinner_delay: float = DELAY) -> None:
+        self.session = Session() if session is None else session
+        self.console = Console(sys.stdout if out is None else out, colour)
+        self.mode = mode
+        self.spinner = self.console.stream.isatty() if spinner is None else spinner
+        self.spinner_delay = spinner_delay
+        self.elapsed: float | None = None
+        self.last_output = ""
+
+    # -- one input -----------------------------------------------------
+    def handle(self, text: str) -> None:
+        for line in logical_lines(text):
+            self.handle_line(line)
+
+    def handle_line(self, line: str) -> None:
+        code = strip_comment(line).strip()
+        if self.directive(code):
+            return
+        topic = HELP.match(code)
+        from ..commands import COMMANDS
+        if topic and topic.group(1) in helptext.TOPICS and topic.group(1) not in COMMANDS:
+            self.show(helptext.topic_text(topic.group(1)))
+            return
+        results = self.compute(line)
+        if results is None:
+            return
+        text = results_text(results, self.mode.pretty)
+        if topic:
+            extra = helptext.scenario_text(topic.group(1)) if topic.group(1) else helptext.more_topics()
+            text += f"\n{extra}" if extra else ""
+        self.show(text)
+
+    def directive(self, code: str) -> bool:
+        """Run ``more`` or ``display pretty|linear``; False for anything else."""
+        from ..commands import COMMANDS
+        word = code.split(" ", 1)[0]
+        if word not in DIRECTIVES or word in COMMANDS or word in self.session.bindings:
+            return False
+        if code == "more":
+            self.show_whole()
+            return True
+        chosen = DISPLAY.match(code)
+        if chosen is None:
+            self.console.lines(error_lines(InputError(
+                "display: expected 'display pretty' or 'display linear'")))
+            return True
+        self.mode = Mode(chosen.group(1) == "pretty", self.mode.fold)
+        self.console.line(f"display {self.mode.name}")
+        return True
+
+    def compute(self, line: str):
+        """The line's results, or None after printing why there are none."""
+        started = time.monotonic()
+        try:
+            with Spinner(self.console.stream, self.spinner_delay) if self.spinner else _nothing():
+                return guarded(self.session, lambda: self.session.run(line))
+        except InputError as err:
+            self.console.lines(error_lines(err))
+        except KeyboardInterrupt:
+            self.console.line("cancelled: the session is as it was before this line", "class:error")
+        except Exception as err:  # a bug in the engine: say so, keep the session
+            self.console.line(f"internal error ({type(err).__name__}: {err}); the session is as "
+                              "it was before this line; please report it", "class:error")
+        finally:
+            self.elapsed = time.monotonic() - started
+        return None
+
+    # -- output --------------------------------------------------------
+    def show(self, text: str) -> None:
+        self.last_output = text
+        self.console.folded(text, self.mode)
+
+    def show_whole(self) -> None:
+        self.console.line(self.last_output or "nothing to show yet")
+
+    def toggle_pretty(self) -> None:
+        self.mode = self.mode.toggled()
+
+    def status(self) -> Status:
+        return Status.of(self.session, self.mode.name, self.elapsed)
+
+    # -- the prompt ----------------------------------------------------
+    def prompt_session(self, history: History | None = None, input: Input | None = None,
+                       output: Output | None = None) -> PromptSession:
+        lexer = functools.partial(KetLexer, vocabulary=session_vocabulary(self.session))
+        return PromptSession(
+            message=prompt, multiline=True, prompt_continuation=continuation,
+            lexer=PygmentsLexer(lexer, syntax_sync=SyncFromStart()),
+            style=shell_style(), include_default_pygments_style=False,
+            completer=ShellCompleter(self.session, helptext.TOPICS), complete_while_typing=False,
+            history=InMemoryHistory() if history is None else history,
+            auto_suggest=AutoSuggestFromHistory(),
+            bottom_toolbar=lambda: toolbar(self.status()),
+            key_bindings=shell_bindings(self.toggle_pretty, self.show_whole),
+            input=input, output=output)
+
+    def loop(self, prompt_session: PromptSession) -> int:
+        """Read and run inputs until Ctrl-D (or the end of the input)."""
+        while True:
+            try:
+                text = prompt_session.prompt()
+            except KeyboardInterrupt:
+                continue
+            except EOFError:
+                return 0
+            try:
+                self.handle(text)
+            except KeyboardInterrupt:
+                self.console.line("cancelled", "class:error")
+
+
+class _nothing:
+    def __enter__(self) -> None:
+        return None
+
+    def __exit__(self, *exc) -> None:
+        return None
 
 
 def start() -> int:
-    session = Session()
-    while True:
-        try:
-            text = input("ket› ")
-        except (EOFError, KeyboardInterrupt):
-            print()
-            return 0
-        for statement, line in split_statements(text):
-            try:
-                print(session.execute(statement, line).text())
-            except InputError as err:
-                print(f"error: {err}")
-            except KeyboardInterrupt:
-                print("cancelled")
+    """``ketsplit`` with no arguments."""
+    from .. import __version__
+    shell = Shell()
+    history, warning = open_history()
+    shell.console.line(f"ketsplit {__version__}: type a state, a command, or 'help'; "
+                       "Tab completes, Ctrl-D leaves")
+    if warning:
+        shell.console.line(warning, "class:error")
+    return shell.loop(shell.prompt_session(history))

@@ -1,0 +1,102 @@
+"""2-D Unicode layout of report cells: fractions, roots and kets on a common baseline.
+
+sympy's pretty printer draws one expression; this module composes its
+pictures (kept as ``prettyForm`` blocks, which know their baseline) into sums
+of kets, lists and tables, so that a fraction's bar and the ket beside it sit
+on one line.  ``render/text.py`` calls it for ``pretty=True``.
+"""
+
+from __future__ import annotations
+
+import sympy
+from sympy.printing.pretty.pretty import PrettyPrinter
+from sympy.printing.pretty.stringpict import prettyForm, stringPict
+
+from .report import Digits, Kets, Table
+
+_PRINTER = PrettyPrinter({"use_unicode": True, "wrap_line": False})
+
+
+def picture(cell) -> prettyForm:
+    """The 2-D block of one cell."""
+    if isinstance(cell, prettyForm):
+        return cell
+    if isinstance(cell, str) or (isinstance(cell, int) and not isinstance(cell, bool)):
+        return prettyForm(str(cell))
+    if isinstance(cell, Kets):
+        return kets_picture(cell)
+    if isinstance(cell, Digits):
+        if cell.exact is None:
+            return prettyForm(cell.text)
+        return beside(expression(cell.exact), prettyForm(f" ≈ {cell.text}"))
+    if isinstance(cell, (list, tuple)):
+        return sequence_picture(cell)
+    return expression(cell)
+
+
+def expression(expr) -> prettyForm:
+    return _PRINTER._print(expr if isinstance(expr, sympy.MatrixBase) else sympy.sympify(expr))
+
+
+def beside(*pictures) -> prettyForm:
+    """Pictures side by side, their baselines aligned."""
+    return prettyForm(*stringPict.next(*pictures))
+
+
+def sequence_picture(cells) -> prettyForm:
+    pieces = [prettyForm("[")]
+    for k, cell in enumerate(cells):
+        if k:
+            pieces.append(prettyForm(", "))
+        pieces.append(picture(cell))
+    pieces.append(prettyForm("]"))
+    return beside(*pieces)
+
+
+def kets_picture(kets: Kets) -> prettyForm:
+    """``c₁ |l₁⟩ + c₂ |l₂⟩``: each coefficient drawn in 2-D, brackets around sums."""
+    pieces: list[prettyForm] = []
+    for coefficient, label in kets.terms:
+        coefficient = sympy.sympify(coefficient)
+        negative = coefficient.could_extract_minus_sign()
+        magnitude = -coefficient if negative else coefficient
+        if pieces:
+            pieces.append(prettyForm(" - " if negative else " + "))
+        elif negative:
+            pieces.append(prettyForm("-"))
+        ket = prettyForm(f"|{label}⟩")
+        if magnitude == 1:
+            pieces.append(ket)
+            continue
+        body = expression(magnitude)
+        if isinstance(magnitude, sympy.Add):
+            body = prettyForm(*body.parens())
+        pieces.extend((body, prettyForm(" "), ket))
+    return beside(*pieces) if pieces else prettyForm("0")
+
+
+def text(cell) -> str:
+    """One cell as 2-D text (trailing blanks removed)."""
+    return "\n".join(line.rstrip() for line in picture(cell).picture)
+
+
+def table_text(table: Table) -> str:
+    """A table whose cells may span several lines: rows aligned on each row's baseline."""
+    rows = [[picture(c) for c in row] for row in table.rows]
+    widths = [max([len(h)] + [p.width() for p in (row[k] for row in rows)])
+              for k, h in enumerate(table.headers)]
+
+    def join(lines: list[str]) -> str:
+        return ("  " + "  ".join(v.ljust(w) for v, w in zip(lines, widths))).rstrip()
+
+    out = [join(list(table.headers)), "  " + "  ".join("─" * w for w in widths)]
+    for row in rows:
+        above = max(p.baseline for p in row)
+        below = max(p.height() - p.baseline for p in row)
+        for level in range(above + below):
+            out.append(join([line_at(p, level - above + p.baseline) for p in row]))
+    return "\n".join(out)
+
+
+def line_at(pict: prettyForm, index: int) -> str:
+    return pict.picture[index] if 0 <= index < pict.height() else ""

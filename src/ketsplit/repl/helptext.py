@@ -1,0 +1,90 @@
+"""Richer help for the shell: a worked scenario per command, and topics of the language.
+
+The registry holds each command's usage, summary and one-line example; here
+each gets a short story of our own with statements to type.  Topics that are
+not commands (kets, cuts, parameters, keys) live here too.  Every scenario is
+run by the tests, so none can drift from the language.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True)
+class Scenario:
+    story: str
+    statements: tuple[str, ...]
+    remark: str = ""
+
+    def text(self) -> str:
+        lines = [f"  {self.story}"] + [f"    ks⟩ {s}" for s in self.statements]
+        if self.remark:
+            lines.append(f"  {self.remark}")
+        return "\n".join(lines)
+
+
+SCENARIOS: dict[str, Scenario] = {
+    "schmidt": Scenario(
+        "A photon-pair source whose crystal angle t sets the balance of the two emission paths:",
+        ("real t in [0, pi/2]", "pair = cos(t)|01> + sin(t)|10>", "schmidt pair 1|2",
+         "schmidt pair with t=pi/8"),
+        "The coefficients are cos t and sin t; at t = pi/8 they are numbers in closed form."),
+    "reduce": Scenario(
+        "One excitation shared by a ring of three sites A, B, C; what does the pair AB see?",
+        ("space A:2 B:2 C:2", "ring = (|100> + |010> + |001>)/sqrt(3)", "reduce ring AB",
+         "reduce ring A"),
+        "Parts are kept by number (1, 13) or by name (A, AB); the rest is traced out."),
+    "rank": Scenario(
+        "Is the ring state separable across A|BC? Its Schmidt rank says:",
+        ("space A:2 B:2 C:2", "ring = (|100> + |010> + |001>)/sqrt(3)", "rank ring A|BC"),
+        "For a family the rank is the generic one; it may drop at special parameter values."),
+    "digits": Scenario(
+        "Ask for more certified digits before a numeric result:",
+        ("digits 50", "digits 30"),
+        "Only digits that are certain are ever printed."),
+    "help": Scenario(
+        "Each command has a usage line, a worked example and, for many, a scenario like this one:",
+        ("help schmidt", "help rank"),
+        "Topics that are not commands, shown by the shell: kets, cuts, parameters, keys."),
+}
+
+TOPICS: dict[str, str] = {
+    "kets": """\
+  |0>, |01> (one character a part), |0,1,10> (commas for labels above 9), |+>, |->.
+  Tensor product by juxtaposition, |0>|1> or (|0>+|1>)(|0>-|1>)/2, or with ⊗.
+  Finite sums: sum(n=0..3, tanh(r)^n |n,n>).
+  Scalars: numbers, i, pi, sqrt exp sin cos tan sinh cosh tanh log conj abs, ^ for powers,
+  and implicit multiplication: 2 cos(t)|0>.""",
+    "cuts": """\
+  A cut splits the parts in two: 1|2, 13|2, 1,3|2, or by part names after 'space': A|BC.
+  For a two-part state the cut may be left out: schmidt psi.""",
+    "parameters": """\
+  real t, phi in [0, pi]    real parameters with a range
+  positive r                positive parameters
+  complex z / integer n     (undeclared names are complex parameters)
+  schmidt psi with t=pi/6   any command at a parameter point""",
+    "keys": """\
+  Enter       run (a new line instead while a bracket is open or the line ends with an operator)
+  Alt-Enter   run the input as it stands
+  Tab         complete commands, names, parameters, file names after save/open
+  Ctrl-R      search the history backwards; Up/Down walk it
+  Ctrl-C      drop the input, or cancel a running computation (the session is kept)
+  Ctrl-D      leave (on an empty line)
+  F2          switch between 2-D and linear output ('display pretty' / 'display linear')
+  F3          the last folded output whole (also 'more')""",
+}
+
+
+def scenario_text(topic: str) -> str | None:
+    found = SCENARIOS.get(topic)
+    return None if found is None else "worked scenario:\n" + found.text()
+
+
+def topic_text(topic: str) -> str | None:
+    found = TOPICS.get(topic)
+    return None if found is None else f"help {topic}\n{found}"
+
+
+def more_topics() -> str:
+    return "  more help: " + ", ".join(f"help {t}" for t in TOPICS) + "; help COMMAND for a worked example"
