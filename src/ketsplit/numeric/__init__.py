@@ -1,0 +1,11 @@
+"""Certified high-precision numerics: every printed digit certain, every rank proved.
+
+- :mod:`.digits`    certain-digit text of a ball (``certain_text``, ``digits_cell``)
+- :mod:`.enclose`   exact sympy numbers as rigorous python-flint balls
+- :mod:`.values`    certified digits of one exact number (``exact_cell``)
+- :mod:`.hermitian` certified eigenvalues of Hermitian ball matrices
+- :mod:`.blocks`    one block of a coefficient matrix: balls and exact facts
+- :mod:`.schmidt`   certified Schmidt coefficients with a proved rank
+- :mod:`.point`     a state at a numeric parameter point, checked
+- :mod:`.budget`, :mod:`.strategy`  exact first within a time budget, then certified numbers
+"""

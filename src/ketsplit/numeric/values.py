@@ -6,7 +6,6 @@ import sympy
 from flint import arb
 
 from ..language.errors import InputError
-from ..render.report import Digits
 from ..session import MAX_DIGITS, MIN_DIGITS
 from .digits import certain_count, digits_cell
 from .enclose import enclose
@@ -46,4 +45,4 @@ def exact_cell(expr: sympy.Expr, digits: int):
     return digits_cell(certified_real(expr, digits), digits, exact=expr)
 
 
-__all__ = ["certified_real", "exact_cell", "check_digits", "Digits"]
+__all__ = ["certified_real", "exact_cell", "check_digits"]
