@@ -147,10 +147,10 @@ def coefficient(square: arb, norm2: arb) -> arb:
 def block_coefficients(block: Block, ball: Encloser) -> tuple[list[arb], list[arb], int]:
     """(nonzero, undecided, zero count) for one block's squared coefficients.
 
-    The k-th smallest enclosure holds the k-th smallest eigenvalue, so when
-    the exact rank r is known the r largest enclosures are the nonzero ones
-    (some may still touch zero at this precision: more bits will separate
-    them) and the others are exact zeros.
+    When the exact rank r is known the r largest eigenvalues are the nonzero
+    ones and the others are exact zeros.  A nonzero one whose enclosure still
+    touches zero at this precision is given the union of all enclosures that
+    touch zero (which surely holds it); more bits will separate it.
     """
     squares = block.squared_coefficients(ball)
     if all(v > 0 for v in squares):
@@ -159,6 +159,12 @@ def block_coefficients(block: Block, ball: Encloser) -> tuple[list[arb], list[ar
     if block.rank_one and len(squares) > 1:
         squares = block.squared_coefficients(ball, rank_one=True)
     kept = squares[len(squares) - bound:] if bound else []
+    touching = [v for v in squares if not v > 0]
+    if touching:  # overlapping enclosures: only their union surely holds each value
+        hull = touching[0]
+        for v in touching[1:]:
+            hull = hull.union(v)
+        kept = [v if v > 0 else hull for v in kept]
     if block.exact_rank is not None or (block.side > 1 and block.rank_one):
         return kept, [], block.side - bound
     positive = [v for v in kept if v > 0]
