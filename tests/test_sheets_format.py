@@ -72,6 +72,14 @@ def test_a_binary_file_is_refused(tmp_path):
         read_sheet(path)
 
 
+def test_a_huge_file_is_refused_unread(tmp_path, monkeypatch):
+    monkeypatch.setattr("ketsplit.sheets.format.MAX_BYTES", 100)
+    path = tmp_path / "huge.kss"
+    path.write_text("rank |00>\n" * 20, encoding="utf-8")
+    with pytest.raises(SheetError, match="more than a worksheet may"):
+        read_sheet(path)
+
+
 def test_a_missing_file_says_so(tmp_path):
     with pytest.raises(SheetError, match="cannot read"):
         read_sheet(tmp_path / "nowhere.kss")

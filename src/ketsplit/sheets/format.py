@@ -34,6 +34,7 @@ MARKERS = (DIRECTIVE, FIRST, MORE)
 END = re.compile(r"#! end: (\d+) lines?$")
 HEADER = re.compile(r"#! ([a-z][a-z ]*): (.*)$")
 EXTENSION = ".kss"
+MAX_BYTES = 64 << 20  # a worksheet is typed text; anything larger is refused unread
 
 
 class SheetError(Exception):
@@ -72,6 +73,8 @@ class Problem:
 
 @dataclass(frozen=True)
 class Sheet:
+    """A worksheet as read: its lines, the settings it starts from, and any damage found."""
+
     lines: tuple[SheetLine, ...]
     settings: Settings = Settings()
     header: tuple[tuple[str, str], ...] = ()   # every header key and value, as written
@@ -117,6 +120,10 @@ def protect(source: str) -> str:
 def read_sheet(path: str | Path) -> Sheet:
     """Read a worksheet; SheetError when the file is not one at all."""
     try:
+        size = Path(path).stat().st_size
+        if size > MAX_BYTES:
+            raise SheetError(f"{path} holds {size} bytes, more than a worksheet may "
+                             f"({MAX_BYTES}); it was not read")
         data = Path(path).read_bytes()
     except OSError as err:
         raise SheetError(f"cannot read {path}: {err.strerror or err}") from None
