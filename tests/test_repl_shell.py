@@ -140,3 +140,12 @@ def test_the_status_line_reports_the_session():
     status = shell.status().pieces()
     assert status[:5] == ["30 digits", "bits", "space A:2 B:2", "1 name", "1 parameter"]
     assert status[5] == "2-D" and status[6].startswith("last ")
+
+
+def test_two_d_output_wider_than_the_terminal_is_shown_linear():
+    shell = new_shell(width=30)
+    shell.handle("x = (|00> + |11>)/sqrt(2)\nschmidt (|00> + |01> + |10>)/sqrt(3)")
+    out = shell.console.stream.getvalue()
+    assert "√2" in out                                   # narrow enough: 2-D
+    assert "shown linear: the 2-D form is wider than the terminal" in out
+    assert "sqrt(15)" in out                             # the wide one in linear text

@@ -14,9 +14,9 @@ from functools import cmp_to_key
 import mpmath
 import sympy
 
-from .cuts import Cut, check_dense, parse_cut, side_dimension, side_index, side_label
+from .cuts import Cut, parse_cut, side_index, side_label
 from .exact.pointeval import evaluate_at
-from .exact.schmidt import schmidt_pieces, tidy
+from .exact.schmidt import inner, nonzero_entries, schmidt_pieces, tidy
 from .render.ketprint import label_text
 from .states import State
 
@@ -50,8 +50,8 @@ class Decomposition:
     def vector_terms(self, vector: sympy.Matrix, side: str) -> list[tuple[sympy.Expr, str]]:
         """(amplitude, label) pairs of a Schmidt vector on the left or right side."""
         parts = self.cut.left if side == "left" else self.cut.right
-        return [(vector[k], label_text(side_label(k, parts, self.state.dims))[1:-1])
-                for k in range(vector.rows) if vector[k] != 0]
+        return [(value, label_text(side_label(k, parts, self.state.dims))[1:-1])
+                for k, value in nonzero_entries(vector)]
 
     def schmidt_form(self) -> str:
         """The state rewritten in Schmidt form, in state-language syntax."""
@@ -79,6 +79,15 @@ class Decomposition:
         coeffs = ", ".join(text(c) for c in self.coefficients)
         return f"Decomposition(rank={self.rank}, coefficients=[{coeffs}])"
 
+    def _repr_latex_(self) -> str:
+        """The Schmidt form as displayed math, for notebooks."""
+        from .render.latex import schmidt_sum_latex
+        from .render.report import Kets
+        terms = [(sigma, Kets(tuple(self.vector_terms(u, "left"))),
+                  Kets(tuple(self.vector_terms(w, "right"))))
+                 for sigma, u, w in zip(self.coefficients, self.left, self.right)]
+        return "$$" + schmidt_sum_latex(terms) + "$$"
+
 
 def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     """The exact Schmidt decomposition of the normalised ``state`` across ``cut``."""
@@ -88,8 +97,6 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
     normal = state.normalised()
-    for side in (cut.left, cut.right):
-        check_dense(side_dimension(state, side), "Schmidt vector")
     pieces, _ = schmidt_pieces(state, cut)
     if normal is not state:  # decompose as typed, then scale: keeps symbolic forms short
         scale = 1 / sympy.sqrt(state.norm_squared())
@@ -153,13 +160,11 @@ def verify_rebuild(decomposition: Decomposition) -> None:
         j = side_index(label, cut.right, state.dims)
         residual[(i, j)] = -amp
     for sigma, u, w in zip(decomposition.coefficients, decomposition.left, decomposition.right):
-        for i in range(u.rows):
-            if u[i] == 0:
-                continue
-            for j in range(w.rows):
-                if w[j] != 0:
-                    residual[(i, j)] = residual.get((i, j), 0) + sigma * u[i] * w[j]
-    gram = [(a.H * b)[0] - (1 if k == m else 0)
+        right = nonzero_entries(w)
+        for i, u_i in nonzero_entries(u):
+            for j, w_j in right:
+                residual[(i, j)] = residual.get((i, j), 0) + sigma * u_i * w_j
+    gram = [inner(a, b) - (1 if k == m else 0)
             for k, a in enumerate(decomposition.left) for m, b in enumerate(decomposition.left) if m >= k]
     spot_check(list(residual.values()) + gram, state)
 

@@ -69,3 +69,31 @@ def to_latex(report: Report) -> str:
             out.append("% (terminal plot omitted)")
     out.extend(f"% note: {n}" for n in report.notes)
     return "\n".join(out)
+
+
+def to_display_latex(report: Report) -> str:
+    """The report as one displayed formula (for notebooks' ``_repr_latex_``): an
+    ``aligned`` block, one row per item, with no comments or nested environments."""
+    rows = [r"\text{" + escape(report.title) + "}"] if report.title else []
+    for item in report.items:
+        if isinstance(item, Field):
+            rows.append(r"\text{" + escape(item.label) + "}: " + cell_latex(item.value))
+        elif isinstance(item, Table):
+            rows.append(table_latex(item))
+        elif isinstance(item, Note):
+            rows.append(r"\text{" + escape(item.text) + "}")
+    rows.extend(r"\text{note: " + escape(n) + "}" for n in report.notes)
+    body = " \\\\\n".join("&" + row for row in rows)
+    return "\\begin{aligned}\n" + body + "\n\\end{aligned}"
+
+
+def schmidt_sum_latex(terms) -> str:
+    """``σ₁ (u₁)(w₁) + σ₂ (u₂)(w₂) + …`` from (coefficient, Kets, Kets) triples."""
+    pieces = []
+    for sigma, left, right in terms:
+        coefficient = sympy.latex(sigma)
+        if isinstance(sigma, sympy.Add):
+            coefficient = rf"\left({coefficient}\right)"
+        pieces.append(rf"{coefficient} \left({kets_latex(left)}\right) \otimes "
+                      rf"\left({kets_latex(right)}\right)")
+    return " + ".join(pieces) or "0"

@@ -7,6 +7,7 @@ terminal allows and keeps the last output whole for ``more`` (or F3).
 
 from __future__ import annotations
 
+import shutil
 from dataclasses import dataclass
 from typing import Iterable, TextIO
 
@@ -50,8 +51,22 @@ def fold(text: str, limit: int) -> Folded:
     return Folded("\n".join(lines[:limit]), len(lines) - limit)
 
 
-def results_text(results: Iterable, pretty: bool) -> str:
-    return "\n".join(r.text(pretty) for r in results)
+WIDE_NOTE = "  (shown linear: the 2-D form is wider than the terminal)"
+
+
+def results_text(results: Iterable, pretty: bool, width: int | None = None) -> str:
+    return "\n".join(result_text(r, pretty, width) for r in results)
+
+
+def result_text(result, pretty: bool, width: int | None) -> str:
+    """2-D when asked for and it fits in ``width`` columns; else linear text, which the
+    terminal can wrap without breaking it (a wrapped 2-D picture is unreadable)."""
+    if not pretty:
+        return result.text(False)
+    drawn = result.text(True)
+    if width is None or max(len(line) for line in drawn.split("\n")) <= width:
+        return drawn
+    return result.text(False) + "\n" + WIDE_NOTE
 
 
 def error_lines(err: InputError) -> list[tuple[str, str]]:
@@ -72,6 +87,11 @@ class Console:
         self.colour = stream.isatty() if colour is None else colour
         self._output = create_output(stream) if self.colour else None
         self._style = shell_style()
+
+    @property
+    def width(self) -> int | None:
+        """Columns of the terminal, or None when the output is not one."""
+        return shutil.get_terminal_size().columns if self.colour else None
 
     def line(self, text: str, style: str = "") -> None:
         if self._output is None or not style:

@@ -47,12 +47,13 @@ class Shell:
 
     def __init__(self, session: Session | None = None, out: TextIO | None = None,
                  mode: Mode = Mode(), colour: bool | None = None, spinner: bool | None = None,
-                 spinner_delay: float = DELAY) -> None:
+                 spinner_delay: float = DELAY, width: int | None = None) -> None:
         self.session = Session() if session is None else session
         self.console = Console(sys.stdout if out is None else out, colour)
         self.mode = mode
         self.spinner = self.console.stream.isatty() if spinner is None else spinner
         self.spinner_delay = spinner_delay
+        self.width = width   # columns for 2-D output; None: the terminal's, if any
         self.elapsed: float | None = None
         self.last_output = ""
 
@@ -73,7 +74,7 @@ class Shell:
         results = self.compute(line)
         if results is None:
             return
-        text = results_text(results, self.mode.pretty)
+        text = results_text(results, self.mode.pretty, self.width or self.console.width)
         if topic:
             extra = helptext.scenario_text(topic.group(1)) if topic.group(1) else helptext.more_topics()
             text += f"\n{extra}" if extra else ""

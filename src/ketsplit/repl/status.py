@@ -52,13 +52,13 @@ def seconds(value: float) -> str:
     return f"{value * 1000:.0f} ms" if value < 1 else f"{value:.1f} s"
 
 
-KEYS = (("F2", "2-D/linear"), ("F3", "whole output"), ("Tab", "complete"), ("Ctrl-D", "leave"))
+KEYS = (("F2", "2-D/linear"), ("F3", "whole"), ("^D", "leave"))
 
 
 def toolbar(status: Status) -> FormattedText:
-    parts: list[tuple[str, str]] = [("class:bottom-toolbar", " " + " · ".join(status.pieces()) + "   ")]
+    parts: list[tuple[str, str]] = [("class:bottom-toolbar", " " + " · ".join(status.pieces()) + "  ")]
     for key, what in KEYS:
-        parts += [("class:bottom-toolbar.key", key), ("class:bottom-toolbar", f" {what}  ")]
+        parts += [("class:bottom-toolbar.key", key), ("class:bottom-toolbar", f" {what} ")]
     return FormattedText(parts)
 
 
