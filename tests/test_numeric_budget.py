@@ -57,3 +57,8 @@ def test_root_of_prints_with_certified_digits():
 
 def test_rational_coefficients_stay_plain():
     assert exact_cell(sympy.Rational(1, 2), 30) == sympy.Rational(1, 2)
+
+
+def test_a_number_without_a_ball_rule_is_shown_exactly_without_digits():
+    value = sympy.gamma(sympy.Rational(1, 3))
+    assert exact_cell(value, 20) == value

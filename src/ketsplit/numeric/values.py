@@ -8,7 +8,7 @@ from flint import arb
 from ..language.errors import InputError
 from ..session import MAX_DIGITS, MIN_DIGITS
 from .digits import certain_count, digits_cell
-from .enclose import enclose
+from .enclose import NotEnclosable, enclose
 
 GUARD_BITS = 32
 MAX_DOUBLINGS = 5
@@ -39,10 +39,16 @@ def certified_real(expr: sympy.Expr, digits: int) -> arb:
 
 
 def exact_cell(expr: sympy.Expr, digits: int):
-    """An exact number as a report cell: itself when rational, else with its certain digits."""
+    """An exact number as a report cell: itself when rational, else with its certain digits.
+
+    A number built from a function without a ball rule is shown exactly, without digits.
+    """
     if not isinstance(expr, sympy.Expr) or not expr.is_number or expr.is_Rational:
         return expr
-    return digits_cell(certified_real(expr, digits), digits, exact=expr)
+    try:
+        return digits_cell(certified_real(expr, digits), digits, exact=expr)
+    except NotEnclosable:
+        return expr
 
 
 __all__ = ["certified_real", "exact_cell", "check_digits"]
