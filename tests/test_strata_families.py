@@ -272,3 +272,13 @@ def test_a_range_of_one_point_fixes_the_parameter():
     found = strata(psi, "1|2")
     assert [s.rank for s in found] == [1]
     assert any("fixed at 0" in n for n in found.notes)
+
+
+def test_real_part_condition_of_a_complex_parameter():
+    # |00> + (a + conj a)|11> = |00> + 2 re(a)|11>: rank 1 on the line re(a) = 0, any im(a)
+    psi = ketsplit.ket("|00> + (a + conj(a))|11>")
+    found = strata(psi, "1|2")
+    assert [s.rank for s in found] == [2, 1]
+    assert found[1].free == ("im(a)",)
+    assert sympy.re(found[1].sample[psi.parameter("a").symbol]) == 0
+    check_all(found, psi, "1|2")

@@ -50,6 +50,9 @@ CASES = [
      {"real": "t p", "ranges": {"t": (0, "pi/2"), "p": (0, "pi/2")}}, 6),
     ("two phases (curve p = q)", "|00> + exp(i q)|01> + |10> + exp(i p)|11>", "1|2",
      {"real": "p q"}, 2),
+    ("4x4 one-angle family with sextic points",
+     "cos(t)|00> + sin(t)|01> + sin(t)|10> + cos(2 t)|11> + cos(t)|22> + sin(t)|23> + cos(3 t)|32>"
+     " + |33>", "1|2", {"real": "t", "ranges": {"t": (0, "pi")}}, 2),
     ("three qubits GHZ family, cut 1|23", "cos(t)|000> + sin(t)|111>", "1|23",
      {"real": "t", "ranges": {"t": (0, "pi")}}, 2),
 ]

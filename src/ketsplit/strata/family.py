@@ -12,7 +12,7 @@ every minor vanish (:meth:`Family.rank_conditions`).
 from __future__ import annotations
 
 import random
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import cached_property
 from itertools import combinations
 from math import comb
@@ -39,6 +39,7 @@ class Family:
     form: PolyForm
     entries: tuple[tuple[sympy.Expr, ...], ...]   # polynomials, complex coefficients
     denominator: sympy.Expr                       # real polynomial, nonzero where defined
+    _conditions: dict = field(default_factory=dict, repr=False)  # rank -> its conditions
 
     @classmethod
     def of(cls, state: State, cut: Cut) -> "Family":
@@ -91,12 +92,14 @@ class Family:
         """Real polynomials whose common zeros are where the rank is at most ``rank``."""
         if rank >= self.max_rank:
             return []
-        conditions: list[sympy.Expr] = []
-        for minor in self.minors(rank + 1):
-            for part in split_complex(minor):
-                if part != 0:
-                    conditions.append(primitive(part))
-        return list(dict.fromkeys(conditions))
+        if rank not in self._conditions:
+            conditions: list[sympy.Expr] = []
+            for minor in self.minors(rank + 1):
+                for part in split_complex(minor):
+                    if part != 0:
+                        conditions.append(primitive(part))
+            self._conditions[rank] = list(dict.fromkeys(conditions))
+        return list(self._conditions[rank])
 
     def rank_at(self, values: dict[sympy.Symbol, sympy.Expr]) -> int:
         """The exact rank of the matrix at these values of the variables (L must not vanish)."""

@@ -97,6 +97,7 @@ class Search:
 
     def level(self, rank: int) -> None:
         """Points and curves of {rank <= r}."""
+        self.budget.check()
         single = self.single_coordinate()
         if single is not None:
             for values in one_parameter_points(single, self.family.rank_conditions(rank)):
@@ -150,7 +151,8 @@ class Search:
                      for p in self.checked({**values, **filler}, rank)]
             if not found:
                 return
-            stratum = self.free_stratum(rank, core, found, free)
+            stratum = self.curve_stratum(rank, core, found[0], free) if half_free(free) else \
+                self.free_stratum(rank, core, found, free)
         else:
             sample = self.sample_on(core, involved, free, filler, rank)
             if sample is None and self.definite_points(core, involved, filler):
@@ -217,18 +219,19 @@ class Search:
 
     # -- strata ----------------------------------------------------------
     def free_stratum(self, rank, core, found: list[Found], free) -> Stratum:
-        names = tuple(c.parameter.name for c in free)
+        names = free_names(free)
+        for f in found:
+            verify(self.family, f)
         shown = [{k: v for k, v in f.point.items() if k.name not in names} for f in found]
         places = "; ".join(point_text(p) for p in unique_points(shown))
         equations = tuple(self.family.form.original(b) for b in core)
-        description = f"rank {rank} where {places}, for every {', '.join(dict.fromkeys(names))}"
-        return Stratum(rank, equations, None, verified_sample(self.family, found[0]), description,
-                       tuple(dict.fromkeys(names)))
+        description = f"rank {rank} where {places}, for every {', '.join(names)}"
+        return Stratum(rank, equations, None, found[0].point, description, names)
 
     def curve_stratum(self, rank, core, sample: Found | None, free) -> Stratum:
         equations = tuple(self.family.form.original(b) for b in core)
         shown = ", ".join(f"{text(e)} = 0" for e in equations)
-        names = tuple(dict.fromkeys(c.parameter.name for c in free))
+        names = free_names(free)
         extra = f", for every {', '.join(names)}" if names else ""
         description = f"rank {rank} on {shown}{extra}"
         if sample is None:
@@ -276,6 +279,21 @@ class Search:
             description = f"rank {rank} {'everywhere else' if lower else 'for every parameter value'}" \
                           " in the ranges"
         return Stratum(rank, (), None, sample, description)
+
+
+def half_free(free: tuple[Coordinate, ...]) -> bool:
+    """Only the real or only the imaginary part of some complex parameter is free."""
+    parts = [c.parameter.name for c in free if c.kind in ("re", "im")]
+    return any(parts.count(name) == 1 for name in parts)
+
+
+def free_names(free: tuple[Coordinate, ...]) -> tuple[str, ...]:
+    """Names of the free parameters; re(a) or im(a) when only one part of a is free."""
+    names = []
+    for c in free:
+        whole = c.kind not in ("re", "im") or sum(d.parameter == c.parameter for d in free) == 2
+        names.append(c.parameter.name if whole else f"{c.kind}({c.parameter.name})")
+    return tuple(dict.fromkeys(names))
 
 
 def semidefinite(quadratic: sympy.Expr, gens) -> bool:
