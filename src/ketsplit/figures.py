@@ -16,10 +16,10 @@ from typing import Callable, Sequence
 
 import sympy
 
-from .cuts import Cut
+from .cuts import Cut, reduced, side_dimension
 from .decomposition import Decomposition, schmidt
 from .language.errors import InputError
-from .states import State
+from .states import State, simplify_real
 
 UNITS = {"bits": sympy.log(2), "nats": sympy.Integer(1)}
 
@@ -44,14 +44,42 @@ class Spectrum:
 
     coefficients: tuple[sympy.Expr, ...]
     squared: tuple[sympy.Expr, ...]
+    reduced_purity: sympy.Expr | None = None   # tr rho^2 taken from the reduced state itself
 
     @property
     def rank(self) -> int:
         return len(self.coefficients)
 
+    @property
+    def purity(self) -> sympy.Expr:
+        if self.reduced_purity is not None:
+            return self.reduced_purity
+        return tidy(_purity(self.squared))
+
     @classmethod
     def of(cls, decomposition: Decomposition) -> "Spectrum":
-        return cls(tuple(decomposition.coefficients), tuple(decomposition.squared))
+        purity = trace_of_square(decomposition) if decomposition.rank > 2 else None
+        return cls(tuple(decomposition.coefficients), tuple(decomposition.squared), purity)
+
+
+MAX_PURITY_SIDE = 16  # reduced states up to 16 x 16 give tr rho^2 directly
+
+
+def trace_of_square(decomposition: Decomposition) -> sympy.Expr | None:
+    """tr rho^2 = sum_ij rho_ij rho_ji from the smaller reduced state, exactly.
+
+    With three or more Schmidt coefficients the eigenvalues are often nested
+    radicals or trigonometric (Viete) forms whose squares do not simplify;
+    the purity is a polynomial in the amplitudes and stays short.  None when
+    the smaller side is larger than MAX_PURITY_SIDE.
+    """
+    state, cut = decomposition.state, decomposition.cut
+    side = min((cut.left, cut.right), key=lambda s: side_dimension(state, s))
+    if side_dimension(state, side) > MAX_PURITY_SIDE:
+        return None
+    rho = reduced(state, side)
+    return simplify_real(sympy.Add(*(rho[i, j] * rho[j, i] for i in range(rho.rows)
+                                     for j in range(rho.cols))))
 
 
 def unit_log(unit: str) -> sympy.Expr:
@@ -59,6 +87,9 @@ def unit_log(unit: str) -> sympy.Expr:
     if unit not in UNITS:
         raise InputError(f"unknown entropy unit {unit!r}; expected one of {', '.join(UNITS)}")
     return UNITS[unit]
+
+
+MAX_TIDY_OPS = 60  # larger expressions are left as built: simplify can take minutes on them
 
 
 @lru_cache(maxsize=4096)
@@ -70,7 +101,7 @@ def tidy(expr: sympy.Expr) -> sympy.Expr:
     tidied values are kept as they are (simplify only slows down on them).
     """
     expr = sympy.sympify(expr)
-    if expr.is_Rational or expr.has(sympy.Max, sympy.Min):
+    if expr.is_Rational or expr.has(sympy.Max, sympy.Min) or sympy.count_ops(expr) > MAX_TIDY_OPS:
         return expr
     if expr.has(sympy.log):
         return _tidy_logs(expr)
@@ -131,14 +162,14 @@ def _largest(p: Sequence[sympy.Expr]) -> sympy.Expr:
 
 FORMULAS: dict[str, Callable[[Spectrum, sympy.Expr], sympy.Expr]] = {
     "entropy": lambda s, base: _entropy(s.squared, base),
-    "renyi2": lambda s, base: -_log(_purity(s.squared)) / base,
-    "purity": lambda s, base: _purity(s.squared),
-    "linear_entropy": lambda s, base: 2 * _pairs(s.squared),
-    "concurrence": lambda s, base: 2 * sympy.sqrt(_pairs(s.squared)) if s.rank > 2 else
-    2 * _pairs(s.coefficients),
+    "renyi2": lambda s, base: -_log(s.purity) / base,
+    "purity": lambda s, base: s.purity,
+    "linear_entropy": lambda s, base: 2 * _pairs(s.squared) if s.rank <= 2 else 1 - s.purity,
+    "concurrence": lambda s, base: 2 * _pairs(s.coefficients) if s.rank <= 2 else
+    sympy.sqrt(2 * (1 - s.purity)),
     "negativity": lambda s, base: _pairs(s.coefficients),
     "log_negativity": lambda s, base: 2 * _log(sympy.Add(*s.coefficients)) / base,
-    "participation": lambda s, base: 1 / _purity(s.squared),
+    "participation": lambda s, base: 1 / s.purity,
     "geometric": lambda s, base: 1 - _largest(s.squared),
 }
 
