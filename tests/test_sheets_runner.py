@@ -7,7 +7,7 @@ import pytest
 
 from ketsplit import InputError, Session
 from ketsplit.sheets.format import parse_sheet, read_sheet
-from ketsplit.sheets.matching import decimals_agree, records_agree
+from ketsplit.sheets.matching import decimals_agree, first_difference
 from ketsplit.sheets.runner import ValueEquality, differences, replay
 
 # Schmidt coefficients of cos(t)|00> + sin(t)|11> are |cos t| and |sin t|; at
@@ -78,7 +78,8 @@ def test_a_tampered_result_fails_verify_naming_its_line(tmp_path):
     file_line = text.splitlines().index("schmidt psi with t=pi/6") + 1
     assert difference.line == file_line
     described = difference.describe()
-    assert "[sqrt(2)/2, 1/2]" in described and "[sqrt(3)/2, 1/2]" in described
+    assert "  ≠   coefficients: [sqrt(2)/2, 1/2]" in described
+    assert "  ≠   coefficients: [sqrt(3)/2, 1/2]" in described
 
 
 def test_a_tampered_statement_fails_verify(tmp_path):
@@ -213,7 +214,7 @@ def test_decimals_that_differ_beyond_their_certified_digits_do_not_agree():
 
 def test_whole_numbers_compare_exactly():
     assert not decimals_agree("rank: 2", "rank: 3")
-    assert not records_agree("rank: 2", "rank: 3", ValueEquality(Session()))
+    assert first_difference(["  rank: 2"], ["  rank: 3"], ValueEquality(Session())) == 0
 
 
 def test_exact_values_that_differ_do_not_agree():

@@ -31,10 +31,12 @@ RULE = re.compile(r"^[─\s]+$")
 Equal = Callable[[str, str], bool]
 
 
-def records_agree(recorded: str, fresh: str, equal: Equal) -> bool:
-    """Do two recorded results (several lines each) agree, line by line?"""
-    old, new = recorded.splitlines(), fresh.splitlines()
-    return len(old) == len(new) and all(lines_agree(a, b, equal) for a, b in zip(old, new))
+def first_difference(recorded: list[str], fresh: list[str], equal: Equal) -> int | None:
+    """The index of the first line that does not agree (None when all agree)."""
+    for k, (a, b) in enumerate(zip(recorded, fresh)):
+        if not lines_agree(a, b, equal):
+            return k
+    return None if len(recorded) == len(fresh) else min(len(recorded), len(fresh))
 
 
 def lines_agree(recorded: str, fresh: str, equal: Equal) -> bool:

@@ -22,7 +22,7 @@ from ..language.errors import InputError, Span
 from ..session import UNRECORDED, Entry, Result, Session, split_statements
 from ..timebudget import alarm
 from .format import Record, Sheet, SheetLine, format_sheet
-from .matching import records_agree
+from .matching import first_difference
 
 FILE_OPTION = re.compile(r"\s--to\s")  # the option by which a statement names a file to write
 # Recorded results come from the file: proving two of them equal gets a bounded time.
@@ -56,11 +56,14 @@ class Difference:
     source: str
     recorded: tuple[Record, ...]
     fresh: tuple[Record, ...]
+    first: int = 0  # where the two first part, in flat(): that line is marked '≠' when shown
 
     def describe(self) -> str:
         def block(records: tuple[Record, ...]) -> str:
-            text = "\n".join(r.text() for r in records) or "(nothing)"
-            return "\n".join("    " + line for line in text.splitlines())
+            lines = [line for r in records for line in r.lines] or ["(nothing)"]
+            mark = result_line(records, self.first)
+            return "\n".join(("  ≠ " if k == mark else "    ") + line
+                             for k, line in enumerate(lines))
         return (f"line {self.line}: {self.source.strip()}\n  recorded:\n{block(self.recorded)}"
                 f"\n  now:\n{block(self.fresh)}")
 
@@ -127,11 +130,23 @@ def differences(outcomes: list[Outcome], session: Session) -> list[Difference]:
         recorded, fresh = outcome.entry.records, outcome.records
         if not outcome.runs and not recorded:
             continue
-        same = len(recorded) == len(fresh) and all(
-            records_agree(a.text(), b.text(), equal) for a, b in zip(recorded, fresh))
-        if not same:
-            found.append(Difference(outcome.entry.line, outcome.entry.source, recorded, fresh))
+        first = first_difference(flat(recorded), flat(fresh), equal)
+        if first is not None:
+            found.append(Difference(outcome.entry.line, outcome.entry.source, recorded, fresh,
+                                    first))
     return found
+
+
+BETWEEN = "\0"  # stands between two results of one line, so that none can merge with the next
+
+
+def flat(records: tuple[Record, ...]) -> list[str]:
+    return [line for k, r in enumerate(records) for line in ((BETWEEN,) if k else ()) + r.lines]
+
+
+def result_line(records: tuple[Record, ...], index: int) -> int:
+    """The position among the shown lines of the flat line ``index`` (separators dropped)."""
+    return index - sum(1 for line in flat(records)[:index] if line == BETWEEN)
 
 
 class ValueEquality:
