@@ -208,7 +208,17 @@ def test_a_bad_side_reports_line_and_column():
 def test_no_time_gives_undecided_with_what_was_tried():
     verdict = check("sqrt(x^2 + 2x + 1)", "x + 1", positive="x", budget=0)
     assert verdict.holds is None
-    assert "out of time" in verdict.reason and verdict.line().startswith("undecided")
+    assert "no time" in verdict.reason and "ran out" in verdict.reason
+    assert verdict.line().startswith("undecided")
+
+
+def test_a_long_exact_step_is_interrupted_and_random_points_decide():
+    # ((a+b+c) + (d+e+f))^16 written two ways: expanding both sides takes far longer than 1 s
+    lhs = "(a + b + c + d + e + f)^16"
+    rhs = "((a + b + c)^2 + 2 (a + b + c)(d + e + f) + (d + e + f)^2)^8"
+    verdict = check(lhs, rhs, real="a b c d e f", budget=2)
+    assert "ran past its 1 s share" in verdict.reason
+    assert verdict.holds is True and verdict.method.startswith("randomized")
 
 
 def test_states_from_the_api_keep_their_ranges():

@@ -15,7 +15,12 @@ budget (seconds, checked between steps):
    up to MAX_PRECISION_FACTOR times the starting precision (a pole, heavy
    cancellation) is skipped.
 
-When the budget runs out first, the verdict is undecided and says what was tried.
+The exact path gets at most ``Options.exact_seconds`` (the session's exact
+budget, and at most half of the whole budget); the rest goes to the random
+points.  Both are held to their time by a timer (:mod:`ketsplit.numeric.budget`)
+that interrupts a long sympy step in the main thread, and by checks of the
+clock between steps elsewhere.  When the budget runs out first, the verdict is
+undecided and says what was tried.
 """
 
 from __future__ import annotations
@@ -29,6 +34,7 @@ import flint
 import sympy
 
 from ..states import Parameter
+from ..numeric.budget import OverBudget, time_budget
 from ..numeric.digits import certain_decimal, zero_bound_text
 from .evaluation import NotEvaluable
 from .exactpath import all_zero
@@ -41,6 +47,7 @@ MAX_PRECISION_FACTOR = 8      # escalation limit for an unclear point
 EXTRA_DIGITS = 10             # agreement is asked to digits + EXTRA_DIGITS
 CONSTANT_DIGITS = 100         # agreement asked of a difference without parameters
 BUDGET = 10.0                 # default seconds for one check
+EXACT_SHARE = 5.0             # default cap on the exact path's seconds (and at most half the budget)
 
 Point = Mapping[sympy.Symbol, sympy.Expr]
 
@@ -72,22 +79,44 @@ class Difference:
 @dataclass(frozen=True)
 class Options:
     digits: int = 30
-    budget: float = BUDGET
+    budget: float = BUDGET        # seconds for the whole check
+    exact_share: float = EXACT_SHARE  # at most this many seconds of it for the exact path
+
+    @property
+    def exact_seconds(self) -> float:
+        return min(self.exact_share, self.budget / 2)
 
 
 def decide(difference: Difference, options: Options = Options()) -> Verdict:
     """Exact rewriting, then certified random points, within ``options.budget`` seconds."""
-    deadline = time.monotonic() + options.budget
+    start = time.monotonic()
+    deadline = start + options.budget
     domain = domain_text(difference.params)
-    proven, exact_story = (False, difference.exact_skipped) if difference.exact_skipped else \
-        all_zero(difference.exact, difference.params, deadline)
+    proven, exact_story = _exact(difference, options, start)
     if proven:
         return Verdict(True, "exact", exact_story, domain, quantity=difference.quantity)
     try:
-        return _randomized(difference, options, deadline, domain, exact_story)
+        with time_budget(deadline - time.monotonic()):
+            return _randomized(difference, options, deadline, domain, exact_story)
     except NotEvaluable as why:
-        return Verdict(None, "none", f"{exact_story}; and {why}", domain,
-                       quantity=difference.quantity)
+        reason = f"{exact_story}; and {why}"
+    except OverBudget:
+        reason = f"{exact_story}; the random points ran past the {options.budget:g} s budget"
+    return Verdict(None, "none", reason, domain, quantity=difference.quantity)
+
+
+def _exact(difference: Difference, options: Options, start: float) -> tuple[bool, str]:
+    """The exact path within its share of the budget (interrupted by a timer when it runs over)."""
+    if difference.exact_skipped:
+        return False, difference.exact_skipped
+    seconds = options.exact_seconds
+    if seconds <= 0:
+        return False, "the exact path was skipped: no time for it"
+    try:
+        with time_budget(seconds):
+            return all_zero(difference.exact, difference.params, start + seconds)
+    except OverBudget:
+        return False, f"the exact path ran past its {seconds:g} s share of the budget"
 
 
 def _randomized(difference: Difference, options: Options, deadline: float, domain: str,

@@ -24,18 +24,17 @@ INTEGER_SPAN = (-6, 6)       # integer ones without a range
 
 
 def domain_text(params: tuple[Parameter, ...]) -> str:
-    """'real t in [0, pi] and complex z, w', for verdict lines (a range stays with its name)."""
-    groups: dict[str, list[str]] = {}
-    pieces: list[str] = []
+    """'real t in [0, pi], s in [0, 1] and complex z, w', for verdict lines.
+
+    Names of one kind share the word; a kind with ranged and unranged names
+    is said twice ('real phi and real t in [0, pi]'), so that no range seems
+    to cover a name it does not.
+    """
+    groups: dict[tuple[str, bool], list[str]] = {}
     for p in params:
-        if p.range is None:
-            if p.kind not in groups:
-                groups[p.kind] = []
-                pieces.append(p.kind)
-            groups[p.kind].append(p.name)
-        else:
-            pieces.append(f"{p.kind} {p.name} in [{sympy.sstr(p.range[0])}, {sympy.sstr(p.range[1])}]")
-    return " and ".join(f"{k} {', '.join(groups[k])}" if k in groups else k for k in pieces)
+        where = f" in [{sympy.sstr(p.range[0])}, {sympy.sstr(p.range[1])}]" if p.range else ""
+        groups.setdefault((p.kind, bool(p.range)), []).append(p.name + where)
+    return " and ".join(f"{kind} {', '.join(names)}" for (kind, _), names in groups.items())
 
 
 def points(params: tuple[Parameter, ...], seed: int) -> Iterator[dict[sympy.Symbol, sympy.Expr]]:

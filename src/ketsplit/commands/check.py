@@ -94,7 +94,9 @@ def _top_level(text: str, operators: str):
 
 
 def _options(call: CommandCall) -> Options:
-    return Options(digits=call.session.settings.digits)
+    """The session's digits, and its exact budget (the 'budget' statement) as the exact share."""
+    settings = call.session.settings
+    return Options(digits=settings.digits, exact_share=settings.exact_budget)
 
 
 def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase: bool) -> Verdict:
