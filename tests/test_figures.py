@@ -282,3 +282,30 @@ def test_cuts_statement():
     assert len(result.report.items[0].rows) == 3
     assert "entangled across every cut" in result.text()
     assert "splits as 1 ⊗ 23" in session.run("cuts |0>(|00> + |11>)")[0].text()
+
+
+def test_units_statement_and_with_point():
+    # cos(pi/6)|00> + sin(pi/6)|11> has p = (3/4, 1/4): purity 9/16 + 1/16 = 5/8 (by hand).
+    session = ketsplit.Session()
+    session.run("real t in [0, pi/2]\npsi = cos(t)|00> + sin(t)|11>\nunits nats")
+    assert session.settings.entropy_unit == "nats"
+    result = session.run("figures psi purity entropy with t=pi/6")[0]
+    rows = {row[0]: row for row in result.report.items[1].rows}
+    assert rows["purity"][1] == sympy.Rational(5, 8)
+    expected = -(sympy.Rational(3, 4) * sympy.log(sympy.Rational(3, 4))
+                 + sympy.Rational(1, 4) * sympy.log(sympy.Rational(1, 4)))
+    assert abs(value(rows["entropy (nats)"][1] - expected)) < 1e-35
+    with pytest.raises(ketsplit.InputError, match="bits or nats"):
+        session.run("units dits")
+
+
+@pytest.mark.slow
+def test_dense_qutrit_pair_with_viete_eigenvalues_agrees_with_numpy():
+    # Reference library: numpy's SVD; the exact eigenvalues here are trigonometric (Viete)
+    # forms of an irreducible cubic, the purity 61/81 is tr rho^2 computed by hand.
+    psi = ketsplit.ket("|00> + |01> + |11> + |12> + |22> + 2|10>")
+    f = ketsplit.figures(psi)
+    assert f["purity"] == sympy.Rational(61, 81)
+    reference = numpy_figures(numpy.array([[1, 1, 0], [2, 1, 1], [0, 0, 1]], dtype=float))
+    for name in NAMES:
+        assert abs(value(f[name]) - reference[name]) < 1e-12, name

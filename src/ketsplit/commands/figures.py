@@ -329,3 +329,14 @@ def _plot_figure(call: CommandCall, word: str, column: int) -> str | sympy.Expr:
         return renyi_order(call, word, column)
     raise call.error(unknown_figure(word).message + f"; or {COEFFICIENTS} for every Schmidt coefficient",
                      column, len(word))
+
+
+@command("units", "units bits|nats", "the unit of entropies, Renyi entropies and log-negativity",
+         "units nats", topic="settings")
+def run_units(call: CommandCall) -> Report:
+    word = call.args.strip()
+    if word not in UNIT_WORDS:
+        raise call.error(f"units: expected bits or nats, found {word!r}",
+                         call.offset + len(call.args) - len(call.args.lstrip()), len(word) or 1)
+    call.session.settings = replace(call.session.settings, entropy_unit=word)
+    return Report(f"units {word}")
