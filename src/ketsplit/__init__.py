@@ -20,11 +20,13 @@ from .decomposition import Decomposition
 from .language.errors import InputError, LimitError
 from .session import Result, Session, Settings
 from .states import Parameter, State
+from .checking import Verdict, check
 from .figures import figures, measures, renyi  # noqa: E402  (the function shadows the module name)
 from .compare import conversion_probability, convertible, lu_equivalent
 from .symmetric import SymmetricState, dicke
+from .strata import Stratum, strata  # noqa: E402  (the function shadows the package name)
 
 __all__ = ["ket", "schmidt", "reduced", "State", "Parameter", "Cut", "parse_cut",
-           "figures", "measures", "renyi", "lu_equivalent", "convertible", "conversion_probability",
            "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
-           "dicke", "SymmetricState", "__version__"]
+           "figures", "measures", "renyi", "lu_equivalent", "convertible", "conversion_probability",
+           "check", "Verdict", "dicke", "SymmetricState", "strata", "Stratum", "__version__"]

@@ -18,10 +18,10 @@ import sympy
 from sympy.polys.matrices import DomainMatrix
 from sympy.polys.constructor import construct_domain
 
-from .language.errors import InputError, LimitError, Span
+from . import limits
+from .language.errors import InputError, Span
 from .states import State, simplify_real
 
-MAX_DENSE_ENTRIES = 1 << 22  # dense coefficient/density matrices larger than this are refused
 
 
 @dataclass(frozen=True)
@@ -180,10 +180,8 @@ class CoefficientMatrix:
 
 
 def check_dense(entries: int, what: str) -> None:
-    if entries > MAX_DENSE_ENTRIES:
-        raise LimitError(f"the {what} would have {entries} dense entries; the limit is "
-                         f"{MAX_DENSE_ENTRIES} (ketsplit.cuts.MAX_DENSE_ENTRIES). Use a cut with a "
-                         "smaller side, or a sparser state")
+    limits.check(entries, "dense_entries", f"a {what} of {entries} dense entries (use a cut "
+                 "with a smaller side, or a sparser state)")
 
 
 def coefficient_matrix(state: State, cut: Cut) -> CoefficientMatrix:

@@ -9,18 +9,21 @@ exactly as it was.
 from __future__ import annotations
 
 import re
+import sys
 from dataclasses import dataclass, field, replace
 from typing import Iterator
 
 import sympy
 
 from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue, evaluate, kind_of
-from .language.errors import InputError, Span
+from . import limits
+from .language.errors import InputError, LimitError, Span
 from .language.tokens import Kind, tokenize
+from .timebudget import StatementTimeout, alarm
 from .render.report import Report
 from .states import KINDS, Parameter, State, make_symbol
 
-MIN_DIGITS, MAX_DIGITS = 5, 10_000
+MIN_DIGITS, MAX_DIGITS = limits.Limits.min_digits, limits.Limits.max_digits  # defaults; see limits
 
 
 @dataclass(frozen=True)
@@ -28,6 +31,7 @@ class Settings:
     digits: int = 30            # certified digits shown for numeric values
     entropy_unit: str = "bits"  # or "nats"
     exact_budget: float = 20.0  # seconds the exact path may take before numbers are used
+    strata_budget: float = 30.0  # seconds of exact algebra one 'strata' statement may take
 
 
 @dataclass(frozen=True)
@@ -65,7 +69,32 @@ class Result:
         return f"<{self.kind}: {self.statement}>\n{self.text()}"
 
     def _repr_latex_(self) -> str:
-        return "$\\displaystyle " + self.latex().replace("\n", " ") + "$"
+        from .render.latex import to_display_latex
+        return "$$" + to_display_latex(self.report) + "$$"
+
+
+@dataclass(frozen=True)
+class Entry:
+    """A line of the transcript: the text as typed (comments kept), what it gave,
+    and the settings in force before it ran."""
+
+    source: str
+    results: tuple[Result, ...] = ()
+    settings: Settings = field(default_factory=Settings)
+
+
+# Statements that act on files; a transcript (and so a worksheet) never repeats them.
+UNRECORDED = frozenset({"save", "open"})
+
+
+def transcribe(source: str, done: list[Result], before: Settings) -> list[Entry]:
+    """The transcript entry for one line: kept as typed when every statement on it
+    ran and is recorded; otherwise only the recorded statements that ran."""
+    kept = tuple(r for r in done if r.kind not in UNRECORDED)
+    statements = [s for s, _ in split_statements(source)]
+    if len(kept) == len(done) == len(statements):
+        return [Entry(source, kept, before)]
+    return [Entry("; ".join(r.statement for r in kept), kept, before)] if kept else []
 
 
 @dataclass
@@ -76,6 +105,7 @@ class Session:
     bindings: dict[str, object] = field(default_factory=dict)
     params: dict[str, Parameter] = field(default_factory=dict)
     space: Space | None = None
+    transcript: list[Entry] = field(default_factory=list)  # lines run so far, for 'save'
 
     # -- the Scope protocol used by the builder ------------------------
     def lookup(self, name: str) -> object | None:
@@ -90,20 +120,46 @@ class Session:
         return self.space.dims if self.space else None
 
     # -- running -------------------------------------------------------
-    def run(self, text: str) -> list[Result]:
-        """Run every statement of ``text`` (newline- or ';'-separated)."""
-        return [self.execute(statement, line) for statement, line in split_statements(text)]
+    def run(self, text: str, first_line: int = 1) -> list[Result]:
+        """Run every statement of ``text`` (newline- or ';'-separated), its first
+        line numbered ``first_line``.
+
+        Each line that ran, in full or up to an error, joins the transcript."""
+        results: list[Result] = []
+        for number, source in enumerate(text.splitlines() or [text], start=first_line):
+            before, done = self.settings, []
+            try:
+                for statement, _ in split_statements(source):
+                    done.append(self.execute(statement, number))
+            finally:
+                self.transcript.extend(transcribe(source, done, before))
+            results.extend(done)
+        return results
 
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""
         from .commands import dispatch
+        seconds, armed = limits.current().seconds, False
         try:
-            return dispatch(self, statement, line)
+            with alarm(seconds) as armed:  # not armed inside an enclosing statement's limit
+                return dispatch(self, statement, line)
         except InputError as err:
             raise relocate(err, statement, line) from None
         except RecursionError:
             raise InputError("the statement is nested too deeply to evaluate",
                              Span(line, 1, len(statement)), statement) from None
+        except StatementTimeout:
+            if not armed:
+                raise
+            raise LimitError(f"stopped after {seconds:g} s: the statement ran longer than "
+                             f"{limits.how_to_change('seconds')}; it had no effect",
+                             Span(line, 1, len(statement)), statement) from None
+        except ValueError as err:  # CPython refuses to print integers of more than 4300 digits
+            if "integer string conversion" not in str(err):
+                raise
+            raise LimitError(f"a number of more than {sys.get_int_max_str_digits()} digits can be "
+                             "neither read nor printed (Python's int_max_str_digits); use smaller "
+                             "numbers", Span(line, 1, len(statement)), statement) from None
 
     # -- helpers for commands ------------------------------------------
     def evaluate(self, text: str, offset: int = 0, line: int = 1):
@@ -124,12 +180,15 @@ class Session:
             tuple(max(a, b) for a, b in zip(inferred, value.dims)) if value.dims else inferred)
         names = self.space.names if self.space and len(self.space.names) == value.nparts else ()
         amplitudes = {k: v for k, v in value.terms.items() if v != 0}
+        limits.check_shape(dims, span)
         state = State(dims, amplitudes, names)
         return replace_params(state, self.params)
 
     def set_digits(self, digits: int, span: Span | None = None) -> None:
-        if not MIN_DIGITS <= digits <= MAX_DIGITS:
-            raise InputError(f"digits must be between {MIN_DIGITS} and {MAX_DIGITS}, found {digits}",
+        low, high = limits.current().min_digits, limits.current().max_digits
+        if not low <= digits <= high:
+            raise LimitError(f"digits must be between {low} and {high} (the limits min_digits and "
+                             f"max_digits; change them with 'limits max_digits=N'), found {digits}",
                              span)
         self.settings = replace(self.settings, digits=digits)
 

@@ -70,7 +70,9 @@ class State:
     _cache: dict = field(default_factory=dict, repr=False, compare=False)
 
     def __post_init__(self) -> None:
-        amps = {tuple(k): sympy.sympify(v) for k, v in dict(self.amplitudes).items() if v != 0}
+        # strict: a string amplitude is refused, never parsed (sympify would eval it)
+        amps = {tuple(k): sympy.sympify(v, strict=True) for k, v in dict(self.amplitudes).items()
+                if v != 0}
         object.__setattr__(self, "amplitudes", MappingProxyType(amps))
         object.__setattr__(self, "dims", tuple(int(d) for d in self.dims))
         if not self.names:
@@ -162,7 +164,7 @@ class State:
             name = key if isinstance(key, str) else key.name
             if name not in by_name:
                 raise InputError(f"the state has no parameter named {name!r}")
-            table[by_name[name]] = sympy.sympify(value)
+            table[by_name[name]] = sympy.sympify(value, strict=True)  # never parses text
         return table
 
     def __repr__(self) -> str:

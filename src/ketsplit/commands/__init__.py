@@ -13,8 +13,12 @@ from typing import TYPE_CHECKING
 from ..language.errors import InputError, Span
 from .registry import COMMANDS, WITH_CLAUSE, CommandCall, command
 from . import core  # noqa: F401  (registers the commands)
+from . import resources  # noqa: F401
 from . import figures  # noqa: F401
 from . import numeric  # noqa: F401
+from . import check  # noqa: F401
+from . import sheets  # noqa: F401
+from . import strata  # noqa: F401
 from . import declarations
 
 if TYPE_CHECKING:

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from .. import limits
 from ..cuts import CUT_PATTERN, join_names, reduced
 from ..decomposition import Decomposition, schmidt
 from ..render.report import Field, Kets, Note, Report, Table
@@ -75,9 +76,11 @@ def run_rank(call: CommandCall) -> Report:
          "digits 40", topic="settings")
 def run_digits(call: CommandCall) -> Report:
     text = call.args.strip()
-    if not text.isdigit():
+    if not (text.isascii() and text.isdigit()):
         raise call.error(f"digits: expected a whole number, found {text!r}",
                          call.offset + len(call.args) - len(call.args.lstrip()), len(text) or 1)
+    if len(text) > 9:
+        raise limits.refuse(f"digits {text[:9]}…", "max_digits", call.whole_span(), call.source)
     call.session.set_digits(int(text), call.whole_span())
     return Report(f"digits {int(text)}")
 

@@ -7,6 +7,7 @@ from typing import TYPE_CHECKING, Callable
 
 import sympy
 
+from .. import limits
 from ..language.build import KetValue, kind_of
 from ..language.errors import InputError, Span
 from ..render.ketprint import ket_text
@@ -104,18 +105,20 @@ def space(session: "Session", statement: str, start: int, line: int) -> Report:
         item = match.group()
         column = start + match.start()
         name, _, dim = item.rpartition(":")
-        if not dim.isdigit() or int(dim) < 1 or (name and not NAME.fullmatch(name)):
+        size = int(dim) if dim.isascii() and dim.isdigit() and len(dim) <= 20 else 10 ** 20
+        if not (dim.isascii() and dim.isdigit()) or size < 1 or (name and not NAME.fullmatch(name)):
             raise _error(f"expected NAME:DIMENSION (as in A:2) or a dimension, found {item!r}",
                          line, column, len(item), statement)
-        if int(dim) > 10_000:
-            raise _error(f"a part of dimension {dim} is beyond the limit of 10000", line, column,
-                         len(item), statement)
+        limits.check(size, "part_dimension", f"a part of dimension {dim}" if len(dim) <= 20 else
+                     f"a part dimension of {len(dim)} digits", Span(line, column + 1, len(item)),
+                     statement)
         names.append(name or str(len(names) + 1))
-        dims.append(int(dim))
+        dims.append(size)
     if not dims:
         raise _error("space: expected parts such as A:2 B:3", line, start, 1, statement)
     if len(set(names)) != len(names):
         raise _error("space: a part name is used twice", line, start, len(statement) - start, statement)
+    limits.check_shape(tuple(dims), Span(line, start + 1, len(statement) - start), statement)
     from ..session import Space
     session.space = Space(tuple(names), tuple(dims))
     listing = " ".join(f"{n}:{d}" for n, d in zip(names, dims))

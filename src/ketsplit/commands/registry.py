@@ -120,6 +120,9 @@ class CommandCall:
 def check_point_ranges(call: CommandCall, state: State) -> None:
     for name, value in call.point.items():
         param = state.parameter(name)
+        if param is not None and param.is_real and value.is_number and value.is_real is False:
+            from ..render.ketprint import text
+            raise call.error(f"{name} is declared {param.kind}, but {name} = {text(value)} is not real")
         if param is None or param.range is None or not value.is_number:
             continue
         lo, hi = param.range

@@ -32,6 +32,7 @@ from .eigen import eigenvalues
 from .pointeval import evaluate_at
 
 Vector = sympy.Matrix
+DENSE_VECTOR_SIZE = 4096  # side spaces larger than this hold Schmidt vectors sparsely
 Piece = tuple[sympy.Expr, Vector, Vector]  # (sigma, left vector, right vector) of one block
 
 
@@ -223,7 +224,25 @@ def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]
 
 
 def embed(vector: Vector, positions: list[int], size: int) -> Vector:
+    """The block's vector placed in the whole side space (sparse when that space is large)."""
+    entries = {(p, 0): vector[k] for k, p in enumerate(positions) if vector[k] != 0}
+    if size > DENSE_VECTOR_SIZE:
+        return sympy.SparseMatrix(size, 1, entries)
     full = sympy.zeros(size, 1)
-    for k, p in enumerate(positions):
-        full[p] = vector[k]
+    for (p, _), value in entries.items():
+        full[p] = value
     return full
+
+
+def nonzero_entries(vector: Vector) -> list[tuple[int, sympy.Expr]]:
+    """(index, value) of the nonzero entries, without walking a large sparse vector."""
+    if isinstance(vector, sympy.SparseMatrix):
+        return sorted((i, v) for (i, _), v in vector.todok().items() if v != 0)
+    return [(i, vector[i]) for i in range(vector.rows) if vector[i] != 0]
+
+
+def inner(a: Vector, b: Vector) -> sympy.Expr:
+    """<a|b> = sum conj(a_i) b_i over the entries both have."""
+    b_entries = dict(nonzero_entries(b))
+    return sum((sympy.conjugate(x) * b_entries[i] for i, x in nonzero_entries(a) if i in b_entries),
+               sympy.Integer(0))

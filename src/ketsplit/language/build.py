@@ -15,12 +15,9 @@ from typing import Callable, Mapping, Protocol
 
 import sympy
 
-from .errors import InputError, LimitError, Span
+from .. import limits
+from .errors import InputError, Span
 from .syntax import Binary, Call, KetLiteral, MatrixLiteral, Name, Negate, Node, Number, Sum
-
-MAX_EXPONENT = 1000
-MAX_SUM_TERMS = 100_000
-MAX_TERMS = 1 << 20
 
 
 @dataclass
@@ -83,9 +80,13 @@ class Builder:
     # -- leaves --------------------------------------------------------
     def _Number(self, node: Number) -> sympy.Expr:
         mantissa, _, exponent = node.text.lower().partition("e")
-        if exponent and abs(int(exponent)) > MAX_EXPONENT:
-            raise LimitError(f"exponent {exponent} is beyond the limit of {MAX_EXPONENT} "
-                             "(ketsplit.language.build.MAX_EXPONENT)", node.span, self.source)
+        digits = mantissa.replace(".", "").lstrip("0")
+        self._limit(len(digits), "number_digits", f"a number of {len(digits)} digits", node)
+        if exponent:
+            size = exponent.lstrip("+-").lstrip("0")
+            self._limit(int(size) if len(size) < 20 else 10 ** 20, "exponent",
+                        f"exponent {exponent}" if len(size) < 20 else
+                        f"an exponent of {len(size)} digits", node)
         fraction = Fraction(mantissa)  # exact decimal, parsed by the standard library
         value = sympy.Rational(fraction.numerator, fraction.denominator)
         return value * sympy.Integer(10) ** int(exponent) if exponent else value
@@ -103,10 +104,13 @@ class Builder:
         return as_value(found)
 
     def _KetLiteral(self, node: KetLiteral) -> KetValue:
+        self._limit(len(node.labels), "parts", f"a ket of {len(node.labels)} parts", node)
         dims = self.scope.space_dims()
         if dims is not None and len(dims) != len(node.labels):
             self.fail(f"this ket has {len(node.labels)} part(s) but the declared space has "
                       f"{len(dims)}", node)
+        if all(label.isascii() and label.isdigit() and len(label) < 20 for label in node.labels):
+            return self._basis_ket(node, dims)
         factors: list[dict[int, sympy.Expr]] = []
         for position, label in enumerate(node.labels):
             factor = self._label(label, node)
@@ -119,6 +123,17 @@ class Builder:
             terms = {k + (level,): v * a for k, v in terms.items() for level, a in factor.items()}
         return KetValue(terms, len(node.labels))
 
+    def _basis_ket(self, node: KetLiteral, dims: tuple[int, ...] | None) -> KetValue:
+        """A ket of plain levels such as |0110>: one term, no products to expand."""
+        levels = tuple(int(label) for label in node.labels)
+        self._limit(max(levels) + 1, "part_dimension", f"ket label {max(levels)}", node)
+        if dims is not None:
+            for position, (level, dim) in enumerate(zip(levels, dims)):
+                if level >= dim:
+                    self.fail(f"label {level} of part {position + 1} is outside its declared "
+                              f"dimension {dim}", node)
+        return KetValue({levels: sympy.Integer(1)}, len(levels))
+
     def _label(self, label: str, node: Node) -> dict[int, sympy.Expr]:
         half = 1 / sympy.sqrt(2)
         if label == "+":
@@ -126,7 +141,10 @@ class Builder:
         if label == "-":
             return {0: half, 1: -half}
         if label.isdigit():
-            return {int(label): sympy.Integer(1)}
+            level = int(label) if len(label) < 20 else 10 ** 20
+            self._limit(level + 1, "part_dimension", f"ket label {label}" if len(label) < 20
+                        else f"a ket label of {len(label)} digits", node)
+            return {level: sympy.Integer(1)}
         if label in self.bound:
             if self.bound[label] < 0:
                 self.fail(f"ket label {label} = {self.bound[label]} is negative", node)
@@ -143,11 +161,28 @@ class Builder:
         return scale(self.build(node.operand), sympy.Integer(-1))
 
     def _Binary(self, node: Binary) -> Value:
-        left, right = self.build(node.left), self.build(node.right)
-        if node.op in "+-":
-            return self._add(left, right if node.op == "+" else scale(right, -1), node)
+        """A left-leaning chain such as a + b - c d + ... is built in a loop, not by
+        recursion, so that a sum of thousands of kets neither overflows the stack
+        nor copies its terms at every step."""
         if node.op == "^":
-            return self._power(left, right, node)
+            return self._sized(self._power(self.build(node.left), self.build(node.right), node),
+                               node)
+        spine = [node]
+        while isinstance(spine[-1].left, Binary) and spine[-1].left.op != "^":
+            spine.append(spine[-1].left)
+        total, owned = self.build(spine[-1].left), False
+        for link in reversed(spine):
+            total = self._apply(link, total, self.build(link.right), owned)
+            owned = link.op in "+-"
+        return total
+
+    def _apply(self, node: Binary, left: Value, right: Value, owned: bool) -> Value:
+        """One operator; ``owned`` means ``left`` is a sum built here, free to extend in place."""
+        if node.op in "+-":
+            return self._add(left, right if node.op == "+" else scale(right, -1), node, owned)
+        return self._sized(self._product(node, left, right), node)
+
+    def _product(self, node: Binary, left: Value, right: Value) -> Value:
         if node.op == "/":
             if not is_scalar(right):
                 self.fail(f"cannot divide by a {kind_of(right)}", node)
@@ -158,9 +193,10 @@ class Builder:
             self.fail("⊗ joins two kets", node)
         return self._multiply(left, right, node)
 
-    def _add(self, left: Value, right: Value, node: Binary) -> Value:
+    def _add(self, left: Value, right: Value, node: Node, in_place: bool = False) -> Value:
+        """The sum, its exact numbers checked against number_digits where they changed."""
         if is_scalar(left) and is_scalar(right):
-            return left + right
+            return self._sized(left + right, node)
         if isinstance(left, KetValue) and isinstance(right, KetValue):
             if left.nparts != right.nparts:
                 self.fail(f"cannot add a ket of {left.nparts} part(s) to one of {right.nparts}", node)
@@ -168,9 +204,10 @@ class Builder:
             joined = symmetric_sum(left, right)
             if joined is not None:
                 return joined
-            terms = dict(left.terms)
+            terms = left.terms if in_place else dict(left.terms)
             for k, v in right.terms.items():
                 terms[k] = terms.get(k, 0) + v
+                self._sized(terms[k], node)
             return KetValue(terms, left.nparts, merge_dims(left.dims, right.dims))
         if isinstance(left, sympy.MatrixBase) and isinstance(right, sympy.MatrixBase):
             if left.shape != right.shape:
@@ -185,9 +222,10 @@ class Builder:
         if is_scalar(right):
             return scale(left, right)
         if isinstance(left, KetValue) and isinstance(right, KetValue):
-            if len(left.terms) * len(right.terms) > MAX_TERMS:
-                raise LimitError(f"the product would have more than {MAX_TERMS} terms "
-                                 "(ketsplit.language.build.MAX_TERMS)", node.span, self.source)
+            count = len(left.terms) * len(right.terms)
+            self._limit(count, "terms", f"a product of {count} terms", node)
+            self._limit(left.nparts + right.nparts, "parts",
+                        f"a ket of {left.nparts + right.nparts} parts", node)
             terms = {a + b: x * y for a, x in left.terms.items() for b, y in right.terms.items()}
             dims = left.dims + right.dims if left.dims and right.dims else None
             return KetValue(terms, left.nparts + right.nparts, dims)
@@ -197,9 +235,12 @@ class Builder:
     def _power(self, base: Value, exponent: Value, node: Binary) -> sympy.Expr:
         if not (is_scalar(base) and is_scalar(exponent)):
             self.fail("only numbers and parameters can be raised to a power", node)
-        if exponent.is_number and exponent.is_real and abs(exponent) > MAX_EXPONENT:
-            raise LimitError(f"exponent {exponent} is beyond the limit of {MAX_EXPONENT} "
-                             "(ketsplit.language.build.MAX_EXPONENT)", node.span, self.source)
+        if exponent.is_number and exponent.is_real:
+            self._limit(abs(exponent), "exponent", f"exponent {exponent}", node)
+            if base.is_Rational and exponent.is_Rational:
+                self._limit(number_digits(base) * abs(exponent), "number_digits",
+                            f"a power of about {int(number_digits(base) * abs(exponent))} digits",
+                            node)
         if base == 0 and exponent.is_number and exponent.is_real and exponent < 0:
             self.fail("division by zero", node)
         return base ** exponent
@@ -226,6 +267,17 @@ class Builder:
                   f"(for a product, put a space: {node.function} (...))", node)
         raise AssertionError
 
+    def _limit(self, value, name: str, what: str, node: Node) -> None:
+        limits.check(value, name, what, node.span, self.source)
+
+    def _sized(self, value: Value, node: Node) -> Value:
+        """``value``, refused when an exact number in it has grown past number_digits."""
+        coefficients = value.coefficients() if isinstance(value, KetValue) else (
+            value if isinstance(value, sympy.MatrixBase) else (value,))  # type: ignore[assignment]
+        largest = max((number_digits(c) for c in coefficients), default=0)
+        self._limit(largest, "number_digits", f"a number of about {largest} digits", node)
+        return value
+
     def _integer(self, node: Node, what: str) -> int:
         value = self.scalar(node, what)
         if not (value.is_Integer):
@@ -235,9 +287,7 @@ class Builder:
     def _Sum(self, node: Sum) -> Value:
         low = self._integer(node.low, "an integer lower limit")
         high = self._integer(node.high, "an integer upper limit")
-        if high - low + 1 > MAX_SUM_TERMS:
-            raise LimitError(f"the sum has {high - low + 1} terms; the limit is {MAX_SUM_TERMS}",
-                             node.span, self.source)
+        self._limit(high - low + 1, "sum_terms", f"a sum of {high - low + 1} terms", node)
         if high < low:
             self.fail(f"the sum runs from {low} up to {high}: it has no terms", node)
         total: Value | None = None
@@ -246,13 +296,22 @@ class Builder:
             for n in range(low, high + 1):
                 self.bound[node.variable] = n
                 term = self.build(node.body)
-                total = term if total is None else self._add(total, term, node)  # type: ignore[arg-type]
+                total = term if total is None else self._add(total, term, node, n > low + 1)  # type: ignore[arg-type]
         finally:
             if saved is None:
                 self.bound.pop(node.variable, None)
             else:
                 self.bound[node.variable] = saved
         return total  # type: ignore[return-value]
+
+
+def number_digits(value: sympy.Expr) -> int:
+    """Decimal digits of the numerator or denominator of the rational factor of ``value``."""
+    coefficient = value.as_coeff_Mul()[0] if isinstance(value, sympy.Expr) else value
+    if not isinstance(coefficient, sympy.Rational):
+        return 0
+    bits = max(abs(coefficient.p).bit_length(), coefficient.q.bit_length())
+    return (bits * 30103) // 100000 + 1  # log10(2) = 0.30103
 
 
 def is_scalar(value: Value) -> bool:

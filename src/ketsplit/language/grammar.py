@@ -10,11 +10,11 @@
 
 from __future__ import annotations
 
-from .errors import InputError, LimitError
+from .. import limits
+from .errors import InputError
 from .syntax import Binary, Call, KetLiteral, MatrixLiteral, Name, Negate, Node, Number, Sum
 from .tokens import Kind, Token, tokenize
 
-MAX_NESTING = 100
 _ATOM_START_OPS = {"(", "[", "√"}
 
 
@@ -55,9 +55,8 @@ class Parser:
 
     def _enter(self) -> None:
         self.depth += 1
-        if self.depth > MAX_NESTING:
-            raise LimitError(f"expression nested more than {MAX_NESTING} deep "
-                             "(ketsplit.limits)", self.current.span, self.source)
+        limits.check(self.depth, "nesting", f"an expression nested {self.depth} deep",
+                     self.current.span, self.source)
 
     def _leave(self) -> None:
         self.depth -= 1

@@ -6,6 +6,7 @@ operators, so ``|0,1,10>`` and ``|+->`` never reach the expression grammar.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from enum import Enum
 
@@ -36,6 +37,8 @@ class Token:
 OPERATORS = ("..", "**", "+", "-", "*", "/", "^", "(", ")", "[", "]", ",", "=", "~",
              "⊗", "·", "√", ":", ";")
 UNICODE_NAMES = {"π": "pi"}
+KET = re.compile(r"\|[0-9A-Za-z_+\-, ]*>")
+ASCII_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
 KET_CHARS = set("0123456789+-,abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ_ ")
 
 
@@ -64,7 +67,11 @@ def tokenize(text: str, line: int = 1) -> list[Token]:
         if ch == "#":
             break
         start = pos
-        if ch == "|":
+        ket = KET.match(text, pos)
+        if ket:
+            pos = ket.end()
+            tokens.append(Token(Kind.KET, ket.group(), Span(line, start + 1, pos - start), spaced))
+        elif ch == "|":
             end = text.find(">", pos + 1)
             bad = next((k for k in range(pos + 1, end if end >= 0 else len(text))
                         if text[k] not in KET_CHARS), None)
@@ -79,6 +86,9 @@ def tokenize(text: str, line: int = 1) -> list[Token]:
         elif ch.isascii() and ch.isdigit() or (ch == "." and "0" <= text[pos + 1:pos + 2] <= "9"):
             pos = _scan_number(text, pos)
             tokens.append(Token(Kind.NUMBER, text[start:pos], Span(line, start + 1, pos - start), spaced))
+        elif (name := ASCII_NAME.match(text, pos)) and text[name.end():name.end() + 1].isascii():
+            pos = name.end()
+            tokens.append(Token(Kind.NAME, text[start:pos], Span(line, start + 1, pos - start), spaced))
         elif _is_name_start(ch):
             while pos < len(text) and _is_name_char(text[pos]) and text[pos] not in UNICODE_NAMES:
                 pos += 1
@@ -87,7 +97,8 @@ def tokenize(text: str, line: int = 1) -> list[Token]:
             word = UNICODE_NAMES.get(text[start:pos], text[start:pos])
             tokens.append(Token(Kind.NAME, word, Span(line, start + 1, pos - start), spaced))
         else:
-            op = next((o for o in OPERATORS if text.startswith(o, pos)), None)
+            op = text[pos:pos + 2] if text[pos:pos + 2] in OPERATORS else (
+                ch if ch in OPERATORS else None)
             if op is None:
                 raise InputError(f"unexpected character {ch!r}", Span(line, pos + 1, 1), text)
             pos += len(op)

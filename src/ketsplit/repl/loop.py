@@ -11,8 +11,10 @@ two directives of its own, ``more`` and ``display pretty|linear``.
 
 from __future__ import annotations
 
+import contextlib
 import functools
 import re
+import shutil
 import sys
 import time
 from typing import TextIO
@@ -25,6 +27,7 @@ from prompt_toolkit.lexers import PygmentsLexer
 from prompt_toolkit.lexers.pygments import SyncFromStart
 from prompt_toolkit.output import Output
 
+from ..commands import COMMANDS
 from ..language.errors import InputError
 from ..session import Session, strip_comment
 from . import helptext
@@ -67,7 +70,6 @@ class Shell:
         if self.directive(code):
             return
         topic = HELP.match(code)
-        from ..commands import COMMANDS
         if topic and topic.group(1) in helptext.TOPICS and topic.group(1) not in COMMANDS:
             self.show(helptext.topic_text(topic.group(1)))
             return
@@ -82,11 +84,12 @@ class Shell:
 
     def directive(self, code: str) -> bool:
         """Run ``more`` or ``display pretty|linear``; False for anything else."""
-        from ..commands import COMMANDS
         word = code.split(" ", 1)[0]
         if word not in DIRECTIVES or word in COMMANDS or word in self.session.bindings:
             return False
-        if code == "more":
+        if word == "more":
+            if code != "more":
+                return False
             self.show_whole()
             return True
         chosen = DISPLAY.match(code)
@@ -102,7 +105,7 @@ class Shell:
         """The line's results, or None after printing why there are none."""
         started = time.monotonic()
         try:
-            with Spinner(self.console.stream, self.spinner_delay) if self.spinner else _nothing():
+            with self.spinning():
                 return guarded(self.session, lambda: self.session.run(line))
         except InputError as err:
             self.console.lines(error_lines(err))
@@ -114,6 +117,11 @@ class Shell:
         finally:
             self.elapsed = time.monotonic() - started
         return None
+
+    def spinning(self) -> contextlib.AbstractContextManager:
+        if not self.spinner:
+            return contextlib.nullcontext()
+        return Spinner(self.console.stream, self.spinner_delay)
 
     # -- output --------------------------------------------------------
     def show(self, text: str) -> None:
@@ -159,18 +167,11 @@ class Shell:
                 self.console.line("cancelled", "class:error")
 
 
-class _nothing:
-    def __enter__(self) -> None:
-        return None
-
-    def __exit__(self, *exc) -> None:
-        return None
-
-
 def start() -> int:
     """``ketsplit`` with no arguments."""
     from .. import __version__
-    shell = Shell()
+    rows = shutil.get_terminal_size().lines
+    shell = Shell(mode=Mode(fold=max(10, rows - 6)))
     history, warning = open_history()
     shell.console.line(f"ketsplit {__version__}: type a state, a command, or 'help'; "
                        "Tab completes, Ctrl-D leaves")
