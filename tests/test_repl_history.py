@@ -44,3 +44,14 @@ def test_an_unwritable_place_keeps_a_session_history_and_says_so(tmp_path):
     assert warning is not None and "not kept across sessions" in warning
     history.append_string("rank |00>")
     assert list(history.load_history_strings()) == ["rank |00>"]
+
+
+def test_ctrl_r_searches_the_history_backwards():
+    from prompt_toolkit.history import InMemoryHistory
+    history = InMemoryHistory()
+    for entry in ("psi = (|00> + |11>)/sqrt(2)", "rank psi 1|2", "x = |0>"):
+        history.append_string(entry)
+    shell = Shell(out=io.StringIO(), colour=False)
+    shell.session.run("psi = (|00> + |11>)/sqrt(2)")
+    out = drive(shell, "\x12", "rank", ENTER, ENTER, pause=0.2, history=history)
+    assert "Schmidt rank across 1|2" in out and "x" not in shell.session.bindings

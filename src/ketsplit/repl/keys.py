@@ -13,6 +13,7 @@ from __future__ import annotations
 from typing import Callable
 
 from prompt_toolkit.application import run_in_terminal
+from prompt_toolkit.filters import is_searching
 from prompt_toolkit.key_binding import KeyBindings, KeyPressEvent
 
 from .continuation import incomplete
@@ -21,7 +22,7 @@ from .continuation import incomplete
 def shell_bindings(toggle_pretty: Callable[[], None], show_whole: Callable[[], None]) -> KeyBindings:
     bindings = KeyBindings()
 
-    @bindings.add("enter")
+    @bindings.add("enter", filter=~is_searching)  # while searching, Enter ends the search
     def _enter(event: KeyPressEvent) -> None:
         buffer = event.current_buffer
         if buffer.complete_state is not None and buffer.complete_state.current_completion:
@@ -32,7 +33,7 @@ def shell_bindings(toggle_pretty: Callable[[], None], show_whole: Callable[[], N
             return
         buffer.validate_and_handle()
 
-    @bindings.add("escape", "enter")
+    @bindings.add("escape", "enter", filter=~is_searching)
     def _run_as_is(event: KeyPressEvent) -> None:
         event.current_buffer.validate_and_handle()
 
