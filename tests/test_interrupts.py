@@ -96,9 +96,15 @@ def read_until(stream, marker: str, seconds: float) -> str:
     return seen
 
 
+def hear_ctrl_c() -> None:
+    """In the child: take SIGINT as Python does by default (a background job inherits it ignored)."""
+    signal.signal(signal.SIGINT, signal.SIG_DFL)
+
+
+@pytest.mark.skipif(not Path("/proc/self/stat").exists(), reason="reads CPU time from /proc")
 def test_ctrl_c_in_a_child_shell_returns_to_the_prompt(tmp_path):
     child = subprocess.Popen([sys.executable, "-m", "ketsplit"], stdin=subprocess.PIPE,
-                             stdout=subprocess.PIPE, stderr=subprocess.STDOUT,
+                             stdout=subprocess.PIPE, stderr=subprocess.STDOUT, preexec_fn=hear_ctrl_c,
                              env=dict(os.environ, XDG_DATA_HOME=str(tmp_path)))  # history there
     try:
         child.stdin.write(b"x = |00> + |11>\n")
@@ -106,7 +112,7 @@ def test_ctrl_c_in_a_child_shell_returns_to_the_prompt(tmp_path):
         read_until(child.stdout, "norm", 120)
         child.stdin.write((LONG + "\n").encode())
         child.stdin.flush()
-        time.sleep(1.5)
+        wait_for_cpu(child.pid, 1.0)
         child.send_signal(signal.SIGINT)
         said = read_until(child.stdout, "cancelled", 30)
         child.stdin.write(b"rank x\n")
@@ -118,6 +124,31 @@ def test_ctrl_c_in_a_child_shell_returns_to_the_prompt(tmp_path):
             child.kill()
             child.wait()
     assert "Traceback" not in said
+
+
+def cpu_time(pid: int) -> float:
+    """User plus system CPU seconds of a process, from /proc/PID/stat."""
+    fields = Path(f"/proc/{pid}/stat").read_text().rsplit(")", 1)[1].split()
+    return (int(fields[11]) + int(fields[12])) / os.sysconf("SC_CLK_TCK")
+
+
+def wait_for_cpu(pid: int, seconds: float) -> None:
+    """Wait until the process has used ``seconds`` more CPU time: then it is computing."""
+    target, deadline = cpu_time(pid) + seconds, time.monotonic() + 120
+    while cpu_time(pid) < target:
+        assert time.monotonic() < deadline, f"the child did not get {seconds} s of CPU in 2 min"
+        time.sleep(0.1)
+
+
+@pytest.mark.skipif(not Path("/proc/self/stat").exists(), reason="reads CPU time from /proc")
+def test_ctrl_c_during_ketsplit_c_ends_it_without_a_traceback():
+    child = subprocess.Popen([sys.executable, "-m", "ketsplit", "-c", f"x = |00> + |11>; {LONG}"],
+                             stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+                             preexec_fn=hear_ctrl_c)
+    wait_for_cpu(child.pid, 2.0)  # imports take well under a second of CPU: now it computes
+    child.send_signal(signal.SIGINT)
+    out, err = child.communicate(timeout=60)
+    assert child.returncode == 130 and "cancelled" in err and "Traceback" not in err + out
 
 
 # -- saving: all or nothing ----------------------------------------------------------------------
