@@ -66,3 +66,11 @@ def test_folding_keeps_the_head_and_counts_what_is_hidden():
     assert fold(text_50, 48).hidden == 0        # folding away two lines saves nothing
     assert fold(text_50, 0).hidden == 0         # 0: never fold
     assert Mode().toggled().name == "linear" and Mode().name == "2-D"
+
+
+def test_labels_take_unicode_subscripts_where_unicode_has_them():
+    from ketsplit.render.pretty import label
+    assert label("rho_13") == "ρ₁₃" and label("rho_AB") == "ρ_AB"
+    assert label("rank") == "rank" and label("log_negativity") == "log_negativity"
+    report = Report("reduced state on 1", (Field("rho_1", sympy.Matrix([[1, 0], [0, 0]])),))
+    assert "ρ₁:" in to_text(report, pretty=True) and "rho_1:" in to_text(report)

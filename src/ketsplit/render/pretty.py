@@ -16,6 +16,23 @@ from .report import Digits, Kets, Table
 
 _PRINTER = PrettyPrinter({"use_unicode": True, "wrap_line": False})
 
+PLAIN, LOWERED = "0123456789aehijklmnoprstuvx+-", "₀₁₂₃₄₅₆₇₈₉ₐₑₕᵢⱼₖₗₘₙₒₚᵣₛₜᵤᵥₓ₊₋"
+SUBSCRIPTS = str.maketrans(PLAIN, LOWERED)
+GREEK = {"rho": "ρ", "sigma": "σ", "lambda": "λ", "psi": "ψ"}
+
+
+def label(text: str) -> str:
+    """A field label in Unicode: ``rho_13`` -> ``ρ₁₃``.  Only part numbers and short
+    indices are lowered (a word after '_' is a word); Unicode has no capital
+    subscripts, so ``rho_AB`` becomes ``ρ_AB``."""
+    stem, underscore, sub = text.partition("_")
+    stem = GREEK.get(stem, stem)
+    if not underscore:
+        return stem
+    if (sub.isdigit() or len(sub) <= 2) and all(c in PLAIN for c in sub):
+        return stem + sub.translate(SUBSCRIPTS)
+    return f"{stem}_{sub}"
+
 
 def picture(cell) -> prettyForm:
     """The 2-D block of one cell."""

@@ -52,7 +52,8 @@ def to_text(report: Report, pretty: bool = False) -> str:
     out = [report.title] if report.title else []
     for item in report.items:
         if isinstance(item, Field):
-            out.append(_indent_block(item.label, cell_text(item.value, pretty)))
+            label = layout.label(item.label) if pretty else item.label
+            out.append(_indent_block(label, cell_text(item.value, pretty)))
         elif isinstance(item, Table):
             out.append(table_text(item, pretty))
         elif isinstance(item, Note):
