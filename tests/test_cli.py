@@ -60,9 +60,9 @@ def test_json_carries_the_certified_digits_of_numeric_results(capsys):
 
 
 def test_an_error_names_line_and_column_and_exits_2_without_a_traceback(capsys):
-    assert main(["-c", "rank |00> + |11>\nrank |00> + |1"]) == 2
+    assert main(["-c", "rank |00> + |11>\nrank |00>; rank |00> + |1"]) == 2
     captured = capsys.readouterr()
-    assert "line 2, column" in captured.err and "Traceback" not in captured.err
+    assert "line 2, column 24" in captured.err  # the unclosed ket and "Traceback" not in captured.err
     assert "rank: 2" in captured.out
 
 
@@ -75,10 +75,10 @@ def test_an_error_in_json_mode_is_an_object_too(capsys):
 
 def test_c_may_save_a_worksheet(tmp_path, capsys):
     path = tmp_path / "typed.kss"
-    assert main(["-c", f"rank |00> + |11>; save {path}"]) == 0
-    assert [e.source for e in read_sheet(path).lines] == []  # the line itself was not yet done
-    assert main(["-c", f"rank |00> + |11>\nsave {path}"]) == 0
-    assert [e.source for e in read_sheet(path).lines] == ["rank |00> + |11>"]
+    assert main(["-c", f"real t; rank cos(t)|00> + sin(t)|11>; save {path}"]) == 0
+    assert [e.source for e in read_sheet(path).lines] == ["real t", "rank cos(t)|00> + sin(t)|11>"]
+    capsys.readouterr()
+    assert main(["verify", str(path)]) == 0
 
 
 def test_run_records_then_verify_passes(sheet, capsys):
