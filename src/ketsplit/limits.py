@@ -32,7 +32,8 @@ seconds            600         wall-clock seconds one statement may run before i
 How to change them (the limits are process-wide):
 
 - in the state language: ``limits`` lists them, ``limits parts=128 seconds=60``
-  sets some;
+  sets some (in the shell or ``ketsplit -c``; a worksheet read from a file may
+  not change the limits that protect its reader);
 - from Python: ``ketsplit.limits.set_limits(parts=128)`` (returns the limits it
   replaced), or for a block ``with ketsplit.limits.limits_set(parts=128): ...``;
 - from the environment, read once at import:
