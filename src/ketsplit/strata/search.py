@@ -31,6 +31,7 @@ import sympy
 from ..cuts import CoefficientMatrix, Cut
 from ..exact.polyform import Coordinate, compare, real_imag
 from ..render.ketprint import text
+from ..language.errors import LimitError
 from ..states import State
 from . import samples
 from .budget import Budget, BudgetExceeded
@@ -69,13 +70,17 @@ class Search:
         self.notes.extend(period_notes(self.family.form.coordinates))
         generic = self.generic_rank()
         complete = True
-        for rank in range(generic - 1, -1, -1):
+        # one coordinate: every lower point is a root of the rank-(R-1) conditions, and its
+        # exact rank is taken one by one, so the lower levels need no minors of their own
+        lowest = generic - 1 if self.single_coordinate() is not None else 0
+        for rank in range(generic - 1, lowest - 1, -1):
             try:
                 self.level(rank)
-            except BudgetExceeded as err:
+            except (BudgetExceeded, LimitError) as err:
                 complete = False
-                self.notes.append(f"{err} while looking for the points of rank <= {rank}; the "
-                                  "strata shown were found before that and the list is incomplete")
+                self.notes.append(f"{err.args[0]} while looking for the points of rank <= {rank}; "
+                                  "the strata shown were found before that and the list is "
+                                  "incomplete")
                 break
         return Strata(self.assemble(generic), tuple(self.notes), complete)
 
