@@ -160,3 +160,50 @@ def test_schmidt_form_rebuilds_the_state():
     difference = {k: sympy.simplify(rebuilt.amplitudes.get(k, 0) - d.state.amplitudes.get(k, 0))
                   for k in set(rebuilt.amplitudes) | set(d.state.amplitudes)}
     assert all(v == 0 for v in difference.values())
+
+
+def test_irreducible_quartic_gives_exact_root_objects():
+    # a 4x4 coefficient matrix whose C C^T has an irreducible quartic characteristic polynomial;
+    # reference library: numpy's SVD of the same matrix
+    d = ketsplit.schmidt(ketsplit.ket("|0,0> + 2|0,1> - |1,0> + |1,1> + 3|1,2> + 2|2,2> + |2,3> "
+                                      "+ |3,0> + 2|3,3>"))
+    assert d.rank == 4 and all(c.has(sympy.CRootOf) for c in d.coefficients)
+    matrix = np.array([[1, 2, 0, 0], [-1, 1, 3, 0], [0, 0, 2, 1], [1, 0, 0, 2]], float)
+    reference = np.linalg.svd(matrix / np.linalg.norm(matrix), compute_uv=False)
+    assert np.allclose([float(c) for c in d.coefficients], reference, atol=1e-14)
+
+
+def test_rank_deficient_square_block():
+    # rows (1,2,0,0), (-1,1,3,0), (0,0,2,1), (1,0,0,1) are dependent (det = 0): rank 3,
+    # the three nonzero values as numpy's SVD gives them (reference library)
+    d = ketsplit.schmidt(ketsplit.ket("|0,0> + 2|0,1> - |1,0> + |1,1> + 3|1,2> + 2|2,2> + |2,3> "
+                                      "+ |3,0> + |3,3>"))
+    matrix = np.array([[1, 2, 0, 0], [-1, 1, 3, 0], [0, 0, 2, 1], [1, 0, 0, 1]], float)
+    reference = np.linalg.svd(matrix / np.linalg.norm(matrix), compute_uv=False)[:3]
+    assert d.rank == 3
+    assert np.allclose([float(c) for c in d.coefficients], reference, atol=1e-14)
+
+
+def test_sparse_state_of_many_parts():
+    # GHZ on 30 qubits across 1|rest: two coefficients 1/sqrt2 (fact of the trade); the
+    # right side has 2^29 levels, so the vectors must stay sparse
+    n = 30
+    state = ketsplit.ket(f"|{'0' * n}> + |{'1' * n}>")
+    cut = "1|" + ",".join(str(k) for k in range(2, n + 1))
+    d = ketsplit.schmidt(state, cut)
+    assert d.coefficients == [1 / sqrt(2), 1 / sqrt(2)]
+    assert [d.vector_terms(w, "right") for w in d.right] == [[(1, "0" * (n - 1))], [(1, "1" * (n - 1))]]
+
+
+def test_generic_two_qubit_closed_form_is_compact():
+    # the coefficients of a|00>+b|01>+c|10>+d|11> are sqrt((1 +- sqrt(1 - 4|ad-bc|^2/N^2))/2)
+    # with N = |a|^2+|b|^2+|c|^2+|d|^2 (fact of the trade); compare at a point exactly
+    d = ketsplit.schmidt(ketsplit.ket("a|00> + b|01> + c|10> + d|11>"))
+    symbols = {s.name: s for s in d.state.symbols}
+    point = {symbols["a"]: 1, symbols["b"]: 2 * sympy.I, symbols["c"]: 3, symbols["d"]: -1}
+    n2 = 1 + 4 + 9 + 1
+    det = abs(1 * -1 - 2 * sympy.I * 3) ** 2
+    expected = [sympy.sqrt((1 + s * sympy.sqrt(1 - 4 * det / sympy.Integer(n2) ** 2)) / 2) for s in (1, -1)]
+    got = [c.subs(point) for c in d.coefficients]
+    assert all(abs(sympy.N(g - e, 30)) < 1e-25 for g, e in zip(got, expected))
+    assert max(sympy.count_ops(c) for c in d.coefficients) < 80
