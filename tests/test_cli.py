@@ -87,6 +87,17 @@ def test_run_records_then_verify_passes(sheet, capsys):
     assert "all 4 lines give the recorded results" in capsys.readouterr().out
 
 
+def test_verify_ignores_the_date_and_names_another_version(sheet, capsys):
+    text = sheet.read_text(encoding="utf-8")
+    lines = text.splitlines(keepends=True)
+    lines = ["#! saved: 1999-12-31\n" if line.startswith("#! saved") else
+             "#! ketsplit: 0.0.1\n" if line.startswith("#! ketsplit:") else line for line in lines]
+    sheet.write_text("".join(lines), encoding="utf-8")
+    capsys.readouterr()
+    assert main(["verify", str(sheet)]) == 0
+    assert "recorded by ketsplit 0.0.1" in capsys.readouterr().out
+
+
 def test_run_prints_each_statement_and_its_result(sheet, capsys):
     capsys.readouterr()
     assert main(["run", str(sheet)]) == 0

@@ -14,6 +14,7 @@ import json
 import sys
 from pathlib import Path
 
+from . import __version__
 from .language.errors import InputError
 from .sheets.format import Sheet, SheetError, SheetLine, read_sheet
 
@@ -148,6 +149,9 @@ def verify_file(sheet: Sheet, args) -> int:
               file=sys.stderr)
         return 2
     report_problems(sheet, args.file)
+    written_by = sheet.value("ketsplit")
+    if written_by and written_by != __version__:
+        print(f"{args.file}: recorded by ketsplit {written_by}, replayed by {__version__}")
     session, outcomes = replay(sheet)
     found = differences(outcomes, session)
     for difference in found:
