@@ -267,3 +267,16 @@ def test_save_to_a_read_only_file_is_an_input_error_and_the_session_goes_on(tmp_
     assert "read-only" in info.value.message and info.value.line == 1
     assert target.read_text() == "old\n"
     assert "x" in session.bindings
+
+
+def test_save_and_export_write_through_the_atomic_writer(tmp_path, monkeypatch):
+    # the all-or-nothing test above covers write_atomic; here: 'save' and 'export -o' use it
+    import ketsplit.sheets.atomic as atomic
+    from ketsplit.cli import main
+    written = []
+    original = atomic.write_atomic
+    monkeypatch.setattr(atomic, "write_atomic", lambda path, text: (written.append(Path(path).name),
+                                                                     original(path, text)))
+    Session().run(f"x = |00> + |11>; save {tmp_path / 'a.kss'}")
+    assert main(["export", str(tmp_path / "a.kss"), "--to", "md", "-o", str(tmp_path / "a.md")]) == 0
+    assert written == ["a.kss", "a.md"]
