@@ -43,6 +43,40 @@ SCENARIOS: dict[str, Scenario] = {
         "Ask for more certified digits before a numeric result:",
         ("digits 50", "digits 30"),
         "Only digits that are certain are ever printed."),
+    "figures": Scenario(
+        "How entangled is the photon pair at a crystal angle of pi/8?",
+        ("real t in [0, pi/2]", "pair = cos(t)|01> + sin(t)|10>", "figures pair with t=pi/8"),
+        "Name figures after the state to see only those; 'units nats' switches the logarithm."),
+    "cuts": Scenario(
+        "A three-site chain in an even-parity superposition: can any site be split off?",
+        ("space A:2 B:2 C:2", "chain = (|000> + |011> + |110> + |101>)/2", "cuts chain"),
+        "Every bipartition, with its Schmidt rank and entropy."),
+    "compare": Scenario(
+        "A balanced pair source and one that leaks towards one path: which converts to which?",
+        ("source = (|01> + |10>)/sqrt(2)", "leaky = cos(pi/8)|01> + sin(pi/8)|10>",
+         "compare source, leaky"),
+        "Majorization of the squared coefficients decides conversion by local operations."),
+    "plot": Scenario(
+        "Entropy of the photon pair across the whole range of the crystal angle:",
+        ("real t in [0, pi/2]", "pair = cos(t)|01> + sin(t)|10>", "plot entropy pair over t"),
+        "Add --to FILE.svg to keep the picture."),
+    "check": Scenario(
+        "Hand derivations about the photon pair, checked exactly or with a counterexample:",
+        ("real t in [0, pi/2]", "pair = cos(t)|01> + sin(t)|10>",
+         "check reduce pair 1 = [[cos(t)^2, 0], [0, sin(t)^2]]",
+         "check pair ~ sin(t)|10> + cos(t)|01>"),
+        "Use '~' instead of '=' to compare states up to a global phase."),
+    "strata": Scenario(
+        "Where does the pair stop being entangled as the crystal turns through half a circle?",
+        ("real t in [0, pi]", "pair = cos(t)|01> + sin(t)|10>", "strata pair"),
+        "Every point of the declared range where the Schmidt rank drops, exactly."),
+    "numeric": Scenario(
+        "A tiny admixture, 10^-30, that floating point would round away:",
+        ("probe = |00> + 10^(-30)|11>", "numeric probe"),
+        "Certified digits only: the second coefficient is proved nonzero."),
+    "units": Scenario(
+        "Entropies in nats rather than bits:",
+        ("units nats", "figures (|00> + |11>)/sqrt(2) entropy", "units bits")),
     "help": Scenario(
         "Each command has a usage line, a worked example and, for many, a scenario like this one:",
         ("help schmidt", "help rank"),
