@@ -309,3 +309,16 @@ def test_dense_qutrit_pair_with_viete_eigenvalues_agrees_with_numpy():
     reference = numpy_figures(numpy.array([[1, 1, 0], [2, 1, 1], [0, 0, 1]], dtype=float))
     for name in NAMES:
         assert abs(value(f[name]) - reference[name]) < 1e-12, name
+
+
+def test_declared_range_removes_absolute_values():
+    # On [0, pi/2] both cos t and sin t are >= 0, so the concurrence 2|cos t sin t| is
+    # sin(2t) (Hill & Wootters, PRL 78, 5022 (1997), with the double-angle formula);
+    # on [0, pi] cos t changes sign and the absolute value stays.
+    t = sympy.Symbol("t", real=True)
+    quarter = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t", ranges={"t": (0, "pi/2")})
+    found = ketsplit.figures(quarter)
+    assert not found["concurrence"].has(sympy.Abs) and not found["log_negativity"].has(sympy.Abs)
+    assert sympy.simplify(found["concurrence"] - sympy.sin(2 * t)) == 0
+    half = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t", ranges={"t": (0, "pi")})
+    assert ketsplit.figures(half)["concurrence"].has(sympy.Abs)

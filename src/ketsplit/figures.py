@@ -59,7 +59,68 @@ class Spectrum:
     @classmethod
     def of(cls, decomposition: Decomposition) -> "Spectrum":
         purity = trace_of_square(decomposition) if decomposition.rank > 2 else None
-        return cls(tuple(decomposition.coefficients), tuple(decomposition.squared), purity)
+        ranges = declared_ranges(decomposition.state)
+        coefficients = tuple(tidy(without_abs(c, ranges)) if ranges else c
+                             for c in decomposition.coefficients)
+        return cls(coefficients, tuple(decomposition.squared), purity)
+
+
+# -- signs on declared ranges ----------------------------------------------------
+CONTINUOUS = (sympy.sin, sympy.cos, sympy.exp, sympy.sinh, sympy.cosh)
+Range = tuple[sympy.Symbol, sympy.Expr, sympy.Expr]
+
+
+def declared_ranges(state: State) -> tuple[Range, ...]:
+    return tuple((p.symbol, p.range[0], p.range[1]) for p in state.params
+                 if p.is_real and p.range is not None)
+
+
+def without_abs(expr: sympy.Expr, ranges: Sequence[Range]) -> sympy.Expr:
+    """|f(t)| written as f(t) or -f(t) where f keeps one sign on t's declared range."""
+    bounds = {symbol: (lo, hi) for symbol, lo, hi in ranges}
+
+    def rewrite(node: sympy.Abs) -> sympy.Expr:
+        inside = node.args[0]
+        symbols = inside.free_symbols
+        if len(symbols) != 1 or next(iter(symbols)) not in bounds:
+            return node
+        t = next(iter(symbols))
+        found = sign_on_range(inside, t, *bounds[t])
+        return node if found is None else found * inside
+    return expr.replace(lambda e: isinstance(e, sympy.Abs), rewrite)
+
+
+def sign_on_range(f: sympy.Expr, t: sympy.Symbol, lo: sympy.Expr, hi: sympy.Expr) -> int | None:
+    """+1 or -1 when the continuous real f(t) has that sign (or is zero) all over [lo, hi].
+
+    f is built from polynomials, sin, cos, exp, sinh and cosh, so it is
+    continuous; its zeros in the range come from solveset as a finite set,
+    and the sign between two consecutive zeros is the sign at the midpoint,
+    proved by an enclosure.  None when any step is out of reach.
+    """
+    from .numeric.enclose import enclose_real
+    if not f.is_real or not _continuous(f, t):
+        return None
+    zeros = sympy.solveset(f, t, sympy.Interval(lo, hi))
+    if not isinstance(zeros, sympy.FiniteSet):
+        return None
+    points = sorted({lo, hi, *zeros}, key=lambda x: sympy.N(x, 50))
+    signs = set()
+    for a, b in zip(points, points[1:]):
+        ball = enclose_real(f.subs(t, (a + b) / 2), 128)
+        if ball.contains(0):
+            return None
+        signs.add(1 if ball > 0 else -1)
+    return signs.pop() if len(signs) == 1 else None
+
+
+def _continuous(f: sympy.Expr, t: sympy.Symbol) -> bool:
+    for node in sympy.preorder_traversal(f):
+        if isinstance(node, sympy.Function) and node.has(t) and not isinstance(node, CONTINUOUS):
+            return False
+        if node.is_Pow and node.base.has(t) and not (node.exp.is_Integer and node.exp >= 0):
+            return False
+    return True
 
 
 MAX_PURITY_SIDE = 16  # reduced states up to 16 x 16 give tr rho^2 directly
