@@ -278,14 +278,15 @@ def plotted_parameter(call: CommandCall, state: State, name: str, column: int):
     return symbols[name], param.range
 
 
-def strata_markers(state: State, cut: Cut, symbol: sympy.Symbol) -> tuple[list[Marker], str | None]:
+def strata_markers(call: CommandCall, state: State, cut: Cut, symbol: sympy.Symbol
+                   ) -> tuple[list[Marker], str | None]:
     """Where the Schmidt rank drops, from ketsplit.strata when it is there."""
     try:
         from ..strata import strata
     except ImportError:
         return [], "rank strata are not marked (ketsplit.strata is not available)"
     try:
-        found = strata(state, cut)
+        found = strata(state, cut, budget=call.session.settings.strata_budget)
     except (InputError, ArithmeticError, NotImplementedError) as err:
         return [], f"rank strata are not marked: {err}"
     markers = []
@@ -312,7 +313,7 @@ def run_plot(call: CommandCall) -> Report:
     state, cut = inner.state_and_cut()
     symbol, bounds = plotted_parameter(call, state, match.group(5), call.offset + match.start(5))
     d = schmidt(state, cut)
-    markers, note = strata_markers(state, cut, symbol)
+    markers, note = strata_markers(call, state, cut, symbol)
     title = f"{_figure_label(figure, unit) if figure != COEFFICIENTS else 'Schmidt coefficients'} of " \
             f"{_subject(inner)} across {cut.describe(d.state)}"
     chart = make_chart(title, plot_curves(Spectrum.of(d), figure, unit), symbol, bounds, markers)
