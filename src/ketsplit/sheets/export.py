@@ -34,18 +34,23 @@ def comment_text(source: str) -> str:
 
 def blocks(outcomes: list[Outcome], prose: Callable[[str], str], statement: Callable[[str], str],
            result: Callable[[Report], str], failure: Callable[[str], str]) -> list[str]:
-    out = []
+    """The export's pieces in order; consecutive comment lines make one paragraph."""
+    out: list[str] = []
+    words: list[str] = []
     for outcome in outcomes:
         source = outcome.entry.source
-        if not outcome.runs:
-            if comment_text(source):
-                out.append(prose(comment_text(source)))
+        if not outcome.runs and comment_text(source):
+            words.append(comment_text(source))
             continue
-        out.append(statement(source.strip()))
-        out.extend(result(r.report) for r in outcome.results)
+        if words:
+            out.append(prose(" ".join(words)))
+            words = []
+        if outcome.runs:
+            out.append(statement(source.strip()))
+            out.extend(result(r.report) for r in outcome.results)
         if outcome.error:
             out.append(failure(outcome.error.message))
-    return out
+    return out + ([prose(" ".join(words))] if words else [])
 
 
 def to_tex(outcomes: list[Outcome], name: str) -> str:
