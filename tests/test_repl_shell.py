@@ -149,3 +149,10 @@ def test_two_d_output_wider_than_the_terminal_is_shown_linear():
     assert "√2" in out                                   # narrow enough: 2-D
     assert "shown linear: the 2-D form is wider than the terminal" in out
     assert "sqrt(15)" in out                             # the wide one in linear text
+
+
+def test_a_wide_two_d_text_without_pictures_stays_two_d():
+    shell = new_shell(width=20)
+    shell.handle("x = 2|00> + 3|11> + 5|22>")       # integer amplitudes: one line in both forms
+    out = shell.console.stream.getvalue()
+    assert "|00⟩" in out and "shown linear" not in out

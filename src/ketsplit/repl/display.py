@@ -60,13 +60,17 @@ def results_text(results: Iterable, pretty: bool, width: int | None = None) -> s
 
 def result_text(result, pretty: bool, width: int | None) -> str:
     """2-D when asked for and it fits in ``width`` columns; else linear text, which the
-    terminal can wrap without breaking it (a wrapped 2-D picture is unreadable)."""
+    terminal can wrap without breaking it.  A wrapped picture of several lines
+    (a fraction, a matrix) is unreadable; a wrapped 2-D text that is drawn on as
+    many lines as the linear one has no such picture and stays."""
+    linear = result.text(False)
     if not pretty:
-        return result.text(False)
+        return linear
     drawn = result.text(True)
-    if width is None or max(len(line) for line in drawn.split("\n")) <= width:
+    too_wide = width is not None and max(len(line) for line in drawn.split("\n")) > width
+    if not too_wide or drawn.count("\n") == linear.count("\n"):
         return drawn
-    return result.text(False) + "\n" + WIDE_NOTE
+    return linear + "\n" + WIDE_NOTE
 
 
 def error_lines(err: InputError) -> list[tuple[str, str]]:

@@ -40,6 +40,7 @@ from .keys import shell_bindings
 from .lexer import KetLexer, session_vocabulary, shell_style
 from .spinner import DELAY, Spinner
 from .status import Status, continuation, prompt, toolbar
+from .terminal import no_echo
 
 HELP = re.compile(r"^help(?:\s+(\S+))?$")
 DISPLAY = re.compile(r"^display\s+(pretty|linear)$")
@@ -50,13 +51,15 @@ class Shell:
 
     def __init__(self, session: Session | None = None, out: TextIO | None = None,
                  mode: Mode = Mode(), colour: bool | None = None, spinner: bool | None = None,
-                 spinner_delay: float = DELAY, width: int | None = None) -> None:
+                 spinner_delay: float = DELAY, width: int | None = None,
+                 keyboard: TextIO | None = None) -> None:
         self.session = Session() if session is None else session
         self.console = Console(sys.stdout if out is None else out, colour)
         self.mode = mode
         self.spinner = self.console.stream.isatty() if spinner is None else spinner
         self.spinner_delay = spinner_delay
         self.width = width   # columns for 2-D output; None: the terminal's, if any
+        self.keyboard = keyboard  # the terminal typed on, kept silent while computing
         self.elapsed: float | None = None
         self.last_output = ""
 
@@ -105,7 +108,7 @@ class Shell:
         """The line's results, or None after printing why there are none."""
         started = time.monotonic()
         try:
-            with self.spinning():
+            with self.spinning(), no_echo(self.keyboard):
                 return guarded(self.session, lambda: self.session.run(line))
         except InputError as err:
             self.console.lines(error_lines(err))
@@ -171,7 +174,7 @@ def start() -> int:
     """``ketsplit`` with no arguments."""
     from .. import __version__
     rows = shutil.get_terminal_size().lines
-    shell = Shell(mode=Mode(fold=max(10, rows - 6)))
+    shell = Shell(mode=Mode(fold=max(10, rows - 6)), keyboard=sys.stdin)
     history, warning = open_history()
     shell.console.line(f"ketsplit {__version__}: type a state, a command, or 'help'; "
                        "Tab completes, Ctrl-D leaves")
