@@ -61,6 +61,10 @@ def test_squares_given_for_coefficients_are_refuted():
     assert fields["verdict"].startswith("fails: tr(rho) - sum c^2 =")
     claimed = [(3 - mpmath.sqrt(5)) / 6, (3 + mpmath.sqrt(5)) / 6]
     assert_close(fields["tr(rho) - sum c^2"], 1 - sum(c ** 2 for c in claimed))
+    # the verdict also says what the coefficients are: sqrt((3 +- sqrt5)/6), by mpmath
+    actual = fields["reason"].split("the Schmidt coefficients are ")[1].split(", ")
+    for text, expected in zip(actual, [mpmath.sqrt(c) for c in reversed(claimed)]):
+        assert_close(text, expected)
 
 
 def test_bell_coefficients_without_the_sqrt2_are_refuted():

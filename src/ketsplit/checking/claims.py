@@ -20,6 +20,7 @@ normalised state, as ``schmidt`` and ``reduce`` do).
 
 from __future__ import annotations
 
+from dataclasses import replace
 from itertools import combinations
 from math import comb
 from typing import Mapping
@@ -30,6 +31,7 @@ import sympy
 from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
 from ..language.build import KetValue
 from ..language.errors import InputError
+from ..numeric.schmidt import certified_schmidt
 from ..states import Parameter, State
 from .evaluation import values_at
 from .checker import compare_values
@@ -81,10 +83,22 @@ def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
     spectrum = decide(_spectrum_difference(state, cut, claimed, params), options)
     signs = [(f"c{k} - |c{k}|", c, sympy.Abs(c)) for k, c in enumerate(claimed, start=1)]
     nonnegative = decide(paired_difference(signs, params, ""), options)
+    if spectrum.holds is False:
+        spectrum = replace(spectrum, reason=spectrum.reason + _actual_coefficients(
+            state, cut, spectrum.counterexample or {}, options.digits))
     return all_of(((spectrum, "the squared coefficients are not the spectrum of the reduced state"),
                    (nonnegative, "a claimed coefficient is not real and nonnegative")),
                   domain_text(params), "the squared coefficients are the spectrum of the reduced "
                                        "state, and each coefficient is nonnegative")
+
+
+def _actual_coefficients(state: State, cut: Cut, counterexample: dict, digits: int) -> str:
+    """'; there the Schmidt coefficients are ...' (certified, from the numeric engine)."""
+    names = {s.name for s in state.symbols}
+    point = {k: v for k, v in counterexample.items() if k in names}
+    found = certified_schmidt(state, cut, digits, at=point)
+    where = "there " if point else ""
+    return f"; {where}the Schmidt coefficients are {', '.join(found.texts())}"
 
 
 def _spectrum_difference(state: State, cut: Cut, claimed: list[sympy.Expr],
