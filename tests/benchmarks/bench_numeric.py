@@ -4,7 +4,8 @@ Run on demand (the default test run ignores this folder); every benchmark file:
 
     python -m pytest tests/benchmarks -o addopts="" -s
 
-or this file alone: ``python -m pytest tests/benchmarks/bench_numeric.py -o addopts="" -s``.
+or these alone: ``python -m pytest tests/benchmarks -o addopts="" -s -k "dense_50 or d20_10 or d24_12"``
+(naming the file itself makes pytest collect it twice, once through the folder's conftest).
 
 - Dense random states with complex integer amplitudes, 50 digits: ours is the
   certified path from the State (ball enclosures, proved rank), against
