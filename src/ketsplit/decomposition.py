@@ -16,6 +16,7 @@ import sympy
 
 from .cuts import Cut, parse_cut, side_index, side_label
 from .exact.pointeval import evaluate_at
+from .exact.signs import box_of, drop_abs, sign_on_box
 from .exact.schmidt import inner, nonzero_entries, schmidt_pieces, tidy
 from .render.ketprint import label_text
 from .states import State
@@ -101,7 +102,11 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     if normal is not state:  # decompose as typed, then scale: keeps symbolic forms short
         scale = 1 / sympy.sqrt(state.norm_squared())
         pieces = [(tidy(sigma * scale), u, w) for sigma, u, w in pieces]
-    pieces, ordered = order_pieces(pieces)
+    box = box_of(state)
+    if box:  # the declared ranges prove signs: |cos t| is cos t on [0, pi/2]
+        pieces = [(drop_abs(sigma, box), u.applyfunc(lambda v: drop_abs(v, box)),
+                   w.applyfunc(lambda v: drop_abs(v, box))) for sigma, u, w in pieces]
+    pieces, ordered = order_pieces(pieces, box)
     notes = []
     if normal is not state:
         notes.append(f"the state was normalised (its squared norm was {sympy.sstr(state.norm_squared())})")
@@ -113,20 +118,22 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     return decomposition
 
 
-def order_pieces(pieces):
+def order_pieces(pieces, box=None):
     """Descending order of the coefficients when every comparison is decidable."""
     try:
-        return sorted(pieces, key=cmp_to_key(lambda a, b: compare_descending(a[0], b[0]))), True
+        return sorted(pieces, key=cmp_to_key(lambda a, b: compare_descending(a[0], b[0], box))), True
     except ValueError:
         return pieces, False
 
 
-def compare_descending(a: sympy.Expr, b: sympy.Expr) -> int:
+def compare_descending(a: sympy.Expr, b: sympy.Expr, box=None) -> int:
     """-1 if a > b, 1 if a < b, 0 if equal; ValueError when it depends on the parameters.
 
     Numbers are compared by sympy's evalf, which raises its working precision
     until the sign of a nonzero difference is certain; a difference that
-    evaluates to zero at 50 digits is then confirmed to be zero exactly.
+    evaluates to zero at 50 digits is then confirmed to be zero exactly.  A
+    symbolic difference is decided by the assumptions, or by interval
+    arithmetic over the declared ranges (``box``).
     """
     difference = a - b
     if not difference.free_symbols:
@@ -137,6 +144,9 @@ def compare_descending(a: sympy.Expr, b: sympy.Expr) -> int:
             return 0
         raise ValueError("undecidable")
     difference = sympy.simplify(difference)
+    sign = sign_on_box(difference, box) if box else None
+    if sign is not None and difference != 0:
+        return -sign
     if difference.is_positive:
         return -1
     if difference.is_negative:
