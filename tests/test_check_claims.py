@@ -212,3 +212,13 @@ def test_statement_errors_point_at_the_spot():
         run("check |00> = |0>")
     with pytest.raises(ketsplit.InputError, match="whole number"):
         run("check rank |00> + |11> = 1/2")
+
+
+def test_claims_at_a_with_point():
+    setup = "real t\npsi = cos(t)|00> + sin(t)|11>\n"
+    # at a point the difference is a constant: cos(1)^2 + sin(1)^2 = 1 is proved exactly
+    assert run(setup + "check schmidt psi = [cos(t), sin(t)] with t=1")["verdict"] == "holds (exact)"
+    assert run(setup + "check psi = cos(t)|0>|0> + sin(t)|1>|1> with t=1")["verdict"] == \
+        "holds (exact)"
+    fields = run(setup + "check reduce psi 1 = [[cos(t)^2, 0], [0, sin(t)]] with t=1")
+    assert_close(fields["rho - claimed"], mpmath.sin(1) ** 2 - mpmath.sin(1))

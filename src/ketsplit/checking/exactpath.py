@@ -8,7 +8,8 @@
    relations (a Groebner basis).  Reducing to 0 proves the identity; for
    angles and phases alone a nonzero remainder means it fails somewhere,
    but the verdict still waits for a certified counterexample point.
-3. A constant: zero when it is algebraic with minimal polynomial x.
+3. A constant (a check at a point): zero when it is algebraic with minimal
+   polynomial x, or when simplify makes it 0 (cos(1)^2 + sin(1)^2 - 1).
 4. For what has no polynomial form (a complex parameter inside exp, t cos t):
    sympy's rewriting with exponentials, over one denominator, expanded.
 
@@ -43,7 +44,7 @@ def proven_zero(expr: sympy.Expr, params: tuple[Parameter, ...]) -> bool:
     if sympy.expand(expr) == 0:
         return True
     if not expr.free_symbols:
-        return _algebraic_zero(expr)
+        return _algebraic_zero(expr) or sympy.simplify(expr) == 0
     try:
         return _zero_in_polynomial_form(expr, params)
     except NoPolynomialForm:
@@ -74,8 +75,8 @@ def _algebraic_zero(number: sympy.Expr) -> bool:
     x = sympy.Dummy("x")
     try:
         return sympy.minimal_polynomial(number, x) == x
-    except (NotImplementedError, sympy.polys.polyerrors.PolynomialError, ValueError):
-        return False
+    except (NotImplementedError, sympy.polys.polyerrors.BasePolynomialError, ValueError):
+        return False  # not algebraic (or not recognised as such): the random points decide
 
 
 def _zero_with_exponentials(expr: sympy.Expr) -> bool:

@@ -105,14 +105,15 @@ def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase
     if cut_text is not None and not phase:
         state, cut = sub.state_and_cut()
         return _form_claim(call, state, cut, right, right_offset, len(cut.left))
-    lhs = _at_point(call, call.value(left, call.offset))
-    if not phase and FIRST_NAME.fullmatch(left.strip()) and isinstance(lhs, KetValue):
-        state = call.at_point(call.session.make_state(lhs))
+    raw = call.value(left, call.offset)
+    if not phase and FIRST_NAME.fullmatch(left.strip()) and isinstance(raw, KetValue):
+        state = call.at_point(call.session.make_state(raw))
         terms = read_form(right, right_offset, call.line, call.session, None)
         if terms is not None and 0 < terms[0].left.nparts < state.nparts:
             n = terms[0].left.nparts
             cut = Cut(tuple(range(n)), tuple(range(n, state.nparts)))
             return _form_claim(call, state, cut, right, right_offset, n)
+    lhs = _at_point(call, raw)
     rhs = _at_point(call, call.value(right, right_offset))
     return compare_values(lhs, rhs, call.session.params, phase, _options(call))
 
@@ -168,8 +169,9 @@ def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: i
         if claimed.shape != (size, size):
             return Verdict(False, "sizes", f"the reduced state on these parts is {size}x{size}, "
                                            f"the claim is {claimed.shape[0]}x{claimed.shape[1]}")
-        params = _params(call, state, claimed)
-        return decide(reduced_claim(state, keep, _at_point(call, claimed), params), _options(call))
+        claimed = _at_point(call, claimed)
+        return decide(reduced_claim(state, keep, claimed, _params(call, state, claimed)),
+                      _options(call))
     state, cut = sub.state_and_cut()
     if claim == "schmidt" and not right.strip().startswith("["):
         return _form_claim(call, state, cut, right, right_offset, len(cut.left))
