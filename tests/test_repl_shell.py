@@ -104,6 +104,8 @@ def test_a_spinner_shows_the_elapsed_time_on_long_computations(monkeypatch):
     shell.handle("wait")
     out = shell.console.stream.getvalue()
     assert "computing" in out and " s" in out and out.rstrip().endswith("waited")
+    shell.handle("wait for it")                       # labelled with the statement's first word
+    assert "wait …" in shell.console.stream.getvalue()
     quick = new_shell(spinner=True, spinner_delay=0.5)
     quick.handle("rank |00> + |11>")
     assert "computing" not in quick.console.stream.getvalue()

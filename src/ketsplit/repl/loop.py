@@ -108,7 +108,7 @@ class Shell:
         """The line's results, or None after printing why there are none."""
         started = time.monotonic()
         try:
-            with self.spinning(), no_echo(self.keyboard):
+            with self.spinning(line), no_echo(self.keyboard):
                 return guarded(self.session, lambda: self.session.run(line))
         except InputError as err:
             self.console.lines(error_lines(err))
@@ -121,10 +121,13 @@ class Shell:
             self.elapsed = time.monotonic() - started
         return None
 
-    def spinning(self) -> contextlib.AbstractContextManager:
+    def spinning(self, line: str) -> contextlib.AbstractContextManager:
+        """The spinner, labelled with what runs (``schmidt …``), when the output is a terminal."""
         if not self.spinner:
             return contextlib.nullcontext()
-        return Spinner(self.console.stream, self.spinner_delay)
+        words = strip_comment(line).split()
+        label = f"{words[0]} …" if len(words) > 1 else "computing"
+        return Spinner(self.console.stream, self.spinner_delay, label)
 
     # -- output --------------------------------------------------------
     def show(self, text: str) -> None:
