@@ -13,13 +13,16 @@ ours/reference says what the full answer costs over the bare equation.
 Measured on the project machine (2 cores), 2026-12-01:
 
     family                                   ours (s)  reference (s)  ratio
-    2x2 trig cos t|00> + sin t|11> [0, pi]     0.09        0.12        0.8
-    3x3 circulant trig [0, pi]                 0.26        1.04        0.3
-    3x3 polynomial circulant (drop by two)     0.08        0.06        1.3
+    2x2 trig cos t|00> + sin t|11> [0, pi]     0.16        0.20        0.8
+    3x3 circulant trig [0, pi]                 1.17        1.32        0.9
+    3x3 polynomial circulant (drop by two)     0.05        0.06        0.8
     3x3 two angles diag (curves and points)    0.90        0.26        3.5
-    two phases (curve p = q)                   0.38        0.02       15.6
-    three qubits GHZ family, cut 1|23          0.11        0.08        1.4
+    two phases (curve p = q)                   0.34        0.03       11.8
+    4x4 one-angle family with sextic points    1.60      184.7         0.009
+    three qubits GHZ family, cut 1|23          0.11        0.11        1.0
 
+The reference's time on the 4x4 family is solveset's on a degree-7 trigonometric
+determinant; ours goes through tan(t/2) and a univariate gcd.
 (These figures are refreshed by running the file; it prints a table.)
 """
 

@@ -11,6 +11,7 @@ import pytest
 
 
 def pytest_collect_file(file_path, parent):
-    if file_path.suffix == ".py" and file_path.name.startswith("bench_"):
+    named = file_path.suffix == ".py" and file_path.name.startswith("bench_")
+    if named and not parent.session.isinitpath(file_path):  # pytest collects named files itself
         return pytest.Module.from_parent(parent, path=file_path)
     return None
