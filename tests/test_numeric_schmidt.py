@@ -5,6 +5,9 @@ import random
 import mpmath
 import numpy
 import pytest
+import sympy
+from hypothesis import assume, given, settings
+from hypothesis import strategies as st
 
 import ketsplit
 from ketsplit import InputError, LimitError, Session
@@ -223,3 +226,19 @@ def test_numeric_statement_at_a_point():
     assert golden_half in out and "rank: 2" in out
     with pytest.raises(InputError, match="outside its declared range"):
         session.run("numeric cos(t)|00> + sin(t)|11> with t=1")
+
+
+@settings(max_examples=20, deadline=None)
+@given(st.integers(1, 4), st.integers(1, 4),
+       st.lists(st.tuples(st.integers(-5, 5), st.integers(-5, 5)), min_size=16, max_size=16))
+def test_random_small_states_agree_with_mpmath(rows, cols, numbers):
+    # reference library: mpmath.svd_c at 60 digits; the rank from the exact rank over QQ(i)
+    matrix = [[complex(*numbers[i * 4 + j]) for j in range(cols)] for i in range(rows)]
+    amplitudes = {(i, j): sympy.Integer(int(z.real)) + sympy.I * int(z.imag)
+                  for i, row in enumerate(matrix) for j, z in enumerate(row) if z != 0}
+    assume(amplitudes)
+    result = certified_schmidt(ketsplit.State((max(rows, 2), max(cols, 2)), amplitudes), "1|2", 20)
+    expected_rank = sympy.Matrix(rows, cols, lambda i, j: amplitudes.get((i, j), 0)).rank()
+    assert result.rank == expected_rank
+    reference = [v for v in reference_coefficients(matrix, 60) if v > mpmath.mpf(10) ** -40]
+    assert all(agrees(t, r, 20) for t, r in zip(result.texts(), reference))
