@@ -282,3 +282,16 @@ def test_real_part_condition_of_a_complex_parameter():
     assert found[1].free == ("im(a)",)
     assert sympy.re(found[1].sample[psi.parameter("a").symbol]) == 0
     check_all(found, psi, "1|2")
+
+
+def test_line_with_an_algebraic_coefficient():
+    # a|0>|+> + b|1>|-> + sqrt 3|11>: C = [[a, a], [b, sqrt 6 - b]]/sqrt 2 up to the factor, so
+    # det = a(sqrt 6 - 2b)/2: rank 1 on the lines a = 0 and b = sqrt(6)/2 (|+-> = (|0> +- |1>)/sqrt 2)
+    psi = ketsplit.ket("a|0>|+> + b|1>|-> + sqrt(3)|11>", real="a b")
+    found = strata(psi, "1|2")
+    a, b = psi.parameter("a").symbol, psi.parameter("b").symbol
+    lines = [s for s in found if s.rank == 1]
+    assert sorted(s.free for s in lines) == [("a",), ("b",)]
+    on_b = next(s for s in lines if s.free == ("a",))
+    assert on_b.sample[b] == sympy.sqrt(6) / 2
+    check_all(found, psi, "1|2")

@@ -245,6 +245,10 @@ class Search:
         return Stratum(rank, equations, None, point, description, names)
 
     def assemble(self, generic: int) -> list[Stratum]:
+        if any(f.point and any(v.has(sympy.CRootOf) for v in f.point.values()) for f in self.points):
+            self.notes.append("some points are roots of polynomials without a closed form: they are "
+                              "kept as exact algebraic numbers, isolated by exact real-root "
+                              "isolation, and their digits are certified")
         result = [self.generic_stratum(generic)]
         for rank in range(generic - 1, -1, -1):
             curves = [(s, c) for s, c in self.curves if s.rank == rank]

@@ -76,7 +76,8 @@ def components(polys: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget
     if finite or depth > 8:
         return [Component(basis, tuple(gens), finite)]
     for element in basis:
-        factors = [f for f, _ in sympy.factor_list(element, *gens)[1] if not f.is_number]
+        factors = [f.as_expr() for f, _ in sympy.Poly(element, *gens, extension=True).factor_list()[1]
+                   if not f.is_ground]
         squares = [square_monomials(f, gens) for f in factors]
         if len(factors) > 1 or any(squares) or (factors and sympy.expand(factors[0] - element) != 0
                                                 and sympy.expand(factors[0] + element) != 0):
