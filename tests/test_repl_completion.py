@@ -6,7 +6,9 @@ from prompt_toolkit.completion import CompleteEvent
 from prompt_toolkit.document import Document
 
 from ketsplit.commands import COMMANDS
-from ketsplit.repl.completion import ShellCompleter, figure_names, worksheet_extension
+from ketsplit.figures import NAMES as FIGURE_NAMES
+from ketsplit.repl.completion import ShellCompleter
+from ketsplit.sheets.format import EXTENSION
 from ketsplit.repl.helptext import TOPICS
 from ketsplit.session import Session
 
@@ -41,10 +43,9 @@ def test_later_words_offer_names_parameters_and_functions():
     assert offered(session, "x = 1; sch") == {n: "command" for n in COMMANDS if n.startswith("sch")}
 
 
-def test_figure_names_are_offered_when_the_figures_module_exists():
-    names = figure_names()
+def test_figure_names_are_offered():
     got = offered(Session(), "plot ")
-    assert all(got.get(name) == "figure" for name in names)
+    assert FIGURE_NAMES and all(got.get(name) == "figure" for name in FIGURE_NAMES)
 
 
 def test_help_offers_commands_and_topics():
@@ -57,7 +58,7 @@ def test_nothing_is_offered_inside_a_ket():
 
 
 def test_save_and_open_complete_worksheet_file_names(tmp_path, monkeypatch):
-    extension = worksheet_extension() or ".txt"
+    extension = EXTENSION
     (tmp_path / f"crystal{extension}").write_text("")
     (tmp_path / "cluster").mkdir()
     (tmp_path / "notes.pdf").write_text("")
@@ -65,5 +66,4 @@ def test_save_and_open_complete_worksheet_file_names(tmp_path, monkeypatch):
     for command in ("save", "open"):
         got = set(offered(Session(), f"{command} c"))
         assert got == {f"rystal{extension}", "luster"}
-        if worksheet_extension():
-            assert "otes.pdf" not in set(offered(Session(), f"{command} n"))
+        assert "otes.pdf" not in set(offered(Session(), f"{command} n"))

@@ -3,13 +3,11 @@
 First word of a statement: commands, declaration words, the shell's own
 directives and bound names.  After ``help``: topics.  After ``save`` or
 ``open``: file names (directories and worksheets).  Elsewhere: bound names,
-declared parameters, functions, constants, ``with`` and, when the figures
-module exists, figure names.  Nothing is offered inside a ket.
+declared parameters, figure names, functions, constants and ``with``.  Nothing is offered inside a ket.
 """
 
 from __future__ import annotations
 
-import importlib
 import os
 import re
 from typing import Iterable, Iterator
@@ -17,34 +15,18 @@ from typing import Iterable, Iterator
 from prompt_toolkit.completion import CompleteEvent, Completer, Completion, PathCompleter
 from prompt_toolkit.document import Document
 
+from ..figures import NAMES as FIGURE_NAMES
 from ..language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue
+from ..sheets.format import EXTENSION
 from ..states import State
 
 DIRECTIVES = {"more": "show the last folded output whole",
               "display": "display pretty|linear: 2-D or linear output"}
+DISPLAY_MODES = (("pretty", "2-D Unicode math"), ("linear", "one-line text"))
 FILE_COMMANDS = ("save", "open")
 OPEN_KET = re.compile(r"(?<![\w,])\|[0-9A-Za-z_+\-, ]*$")
 FIRST = re.compile(r"^\s*([A-Za-z_]\w*)(\s+)?")
 WORD = re.compile(r"[A-Za-z_]\w*$")
-
-
-def optional(module: str, attribute: str, default):
-    """``ketsplit.<module>.<attribute>`` when that module exists (it may land later), else ``default``."""
-    try:
-        found = importlib.import_module(f"ketsplit.{module}")
-    except ModuleNotFoundError as err:
-        if err.name != f"ketsplit.{module}":
-            raise
-        return default
-    return getattr(found, attribute, default)
-
-
-def figure_names() -> tuple[str, ...]:
-    return tuple(optional("figures", "NAMES", ()))
-
-
-def worksheet_extension() -> str:
-    return optional("sheets.format", "EXTENSION", "")
 
 
 def current_statement(text: str) -> str:
@@ -72,7 +54,7 @@ class ShellCompleter(Completer):
         elif word == "help":
             yield from self._matching(statement, self.help_topics())
         elif word == "display":
-            yield from self._matching(statement, [("pretty", "2-D Unicode math"), ("linear", "one-line text")])
+            yield from self._matching(statement, DISPLAY_MODES)
         else:
             yield from self._matching(statement, self.inner_words())
 
@@ -100,7 +82,7 @@ class ShellCompleter(Completer):
 
     def inner_words(self) -> list[tuple[str, str]]:
         words = self.bound() + [(p.name, f"{p.kind} parameter") for p in self.session.params.values()]
-        words += [(name, "figure") for name in figure_names()]
+        words += [(name, "figure") for name in FIGURE_NAMES]
         words += [(name, "function") for name in sorted(SCALAR_FUNCTIONS)]
         words += [(name, "ket function") for name in sorted(KET_FUNCTIONS)]
         words += [(name, "constant") for name in sorted(CONSTANTS)]
@@ -111,8 +93,7 @@ class ShellCompleter(Completer):
 
     @staticmethod
     def _worksheet_or_folder(path: str) -> bool:
-        extension = worksheet_extension()
-        return os.path.isdir(path) or not extension or path.endswith(extension)
+        return os.path.isdir(path) or path.endswith(EXTENSION)
 
 
 def describe(value: object) -> str:
