@@ -222,3 +222,21 @@ def test_claims_at_a_with_point():
         "holds (exact)"
     fields = run(setup + "check reduce psi 1 = [[cos(t)^2, 0], [0, sin(t)]] with t=1")
     assert_close(fields["rho - claimed"], mpmath.sin(1) ** 2 - mpmath.sin(1))
+
+
+def test_truncated_squeezed_pair_coefficients():
+    # two-mode squeezed vacuum cut at n = 3: Schmidt coefficients tanh(r)^n / norm
+    # (fact of the trade: the state is already in Schmidt form in the Fock basis)
+    setup = ("positive r\nn2 = 1 + tanh(r)^2 + tanh(r)^4 + tanh(r)^6\n"
+             "pair = sum(n=0..3, tanh(r)^n |n,n>)\n")
+    good = "[1/sqrt(n2), tanh(r)/sqrt(n2), tanh(r)^2/sqrt(n2), tanh(r)^3/sqrt(n2)]"
+    assert run(setup + f"check schmidt pair = {good}")["verdict"] == "holds for all positive r (exact)"
+    wrong = good.replace("tanh(r)^3/", "tanh(r)^4/")  # a wrong power in the last coefficient
+    fields = run(setup + f"check schmidt pair = {wrong}")
+    r = point_of(fields)["r"].real
+    x = mpmath.tanh(r)
+    norm2 = 1 + x ** 2 + x ** 4 + x ** 6
+    assert_close(fields["tr(rho) - sum c^2"], (x ** 6 - x ** 8) / norm2)
+    actual = fields["reason"].split("the Schmidt coefficients are ")[1].split(", ")
+    for text, n in zip(actual, range(4)):
+        assert_close(text, x ** n / mpmath.sqrt(norm2))

@@ -215,9 +215,10 @@ def _refuted(difference: Difference, point: Point, entry: Entry, prec: int, opti
 
 def _exact_value(entry: Entry, point: Point) -> Shown | None:
     """The difference at the point as an exact rational (Gaussian) number, when it is one."""
-    if entry.exact is None:
-        return None
-    value = sympy.expand(sympy.sympify(entry.exact).xreplace(dict(point)))
+    expr = sympy.sympify(entry.exact) if entry.exact is not None else None
+    if expr is None or not expr.is_rational_function(*point):
+        return None  # only rational functions are sure to give an exact number quickly
+    value = sympy.expand(expr.xreplace(dict(point)))
     if not value.is_number or value == 0:
         return None
     re, im = value.as_real_imag()

@@ -1,9 +1,8 @@
 """Certified values of expressions at an exact point, through the project's ball arithmetic.
 
-The point's exact values are substituted first (sympy simplifies what it
-can, exactly), then :class:`ketsplit.numeric.enclose.Encloser` encloses the
-results at the given precision, sharing repeated pieces.  A pole at the point
-gives a non-finite ball (the point is then skipped), never an error.
+:class:`ketsplit.numeric.enclose.Encloser` encloses the expressions at the
+given precision, sharing repeated pieces.  A pole at the point gives a
+non-finite ball (the point is then skipped), never an error.
 """
 
 from __future__ import annotations
@@ -22,17 +21,16 @@ class NotEvaluable(ValueError):
 
 def values_at(exprs: Iterable[sympy.Expr], point: Mapping[sympy.Symbol, sympy.Expr],
               bits: int) -> list[flint.acb]:
-    """Balls certain to hold each expression at ``point``, computed at ``bits`` bits."""
+    """Balls certain to hold each expression at ``point``, computed at ``bits`` bits.
+
+    The point's values enter the encloser's memo as the balls of its symbols,
+    so the expressions are never rebuilt by substitution (sympy's automatic
+    evaluation of a substituted tree can be slow, or fail).
+    """
     encloser = Encloser(bits)
-    table = dict(point)
-    found = []
-    for expr in exprs:
-        value = sympy.sympify(expr).xreplace(table)
-        if value.has(sympy.zoo, sympy.nan, sympy.oo, -sympy.oo):
-            found.append(flint.acb(flint.arb.nan()))
-            continue
-        try:
-            found.append(encloser(value))
-        except NotEnclosable as why:
-            raise NotEvaluable(why.message) from None
-    return found
+    try:
+        for symbol, value in point.items():
+            encloser.memo[symbol] = encloser(sympy.sympify(value))
+        return [encloser(expr) for expr in exprs]
+    except NotEnclosable as why:
+        raise NotEvaluable(why.message) from None
