@@ -65,7 +65,8 @@ def watchdog(seconds: float, text: str):
 
 @pytest.fixture(scope="module", autouse=True)
 def sandbox():
-    """Fuzzed 'save x' or 'plot ... --to f' write only into a scratch directory; limits come back."""
+    """Fuzzed 'save x' or 'plot ... --to f' write only into a scratch directory (the strategies
+    leave out paths that could lead elsewhere, see in_sandbox); the limits come back after."""
     here = os.getcwd()
     with tempfile.TemporaryDirectory() as scratch, limits.limits_set(seconds=STATEMENT_SECONDS):
         os.chdir(scratch)
@@ -171,13 +172,25 @@ huge = st.tuples(st.sampled_from(["x", "2", "(1+x)", "10", "|0>", "1/3"]),
                  st.sampled_from(["999", "1001", "99999", "10^10", "1/2", "9" * 30, "9" * 5000])
                  ).map(lambda p: p[0] + p[1] + p[2] + (")" if p[1] == "^(" else ""))
 
+
+def in_sandbox(text: str) -> bool:
+    """False for a statement that might write a file outside the scratch directory (the tests
+    may run as root): a path with '/', '~' or '..' anywhere near 'save', 'plot' or '--to'."""
+    writes = any(word in text for word in ("save", "plot", "--to"))
+    return not (writes and any(mark in text for mark in ("/", "~", "..", "\\")))
+
+
 COMMANDS = ["", "schmidt ", "reduce ", "rank ", "figures ", "numeric ", "cuts ", "strata ",
             "compare ", "check ", "tex schmidt ", "psi = ", "x = ", "real ", "integer ", "space ",
             "digits ", "budget ", "limits ", "help ", "plot entropy ", "save ", "open "]
 CUTS = ["", " 1|2", " 2|1", " 1|", " |2", " 12|3", " A|B", " 1,1|2", " 1|2|3", " 1", " 3",
         " with t=pi/6", " with t=", " with =1", " with t=1, t=2", " over t"]
 statements = st.tuples(st.sampled_from(COMMANDS), st.one_of(broken(), expressions, mismatched),
-                       st.sampled_from(CUTS)).map("".join)
+                       st.sampled_from(CUTS)).map("".join).filter(in_sandbox)
+ODD_ARGUMENTS = st.one_of(unicode_soup, st.sampled_from(
+    ["/", "..", "~", ".", "²", "١", "-1", "1e5", "nan", "inf", "0x10", "x" * 300 + ".svg", "a b", '""',
+     "--to", "--to x.svg", "over", "with", "1|2|3", "renyi(", "renyi(²)"]))
+odd_statements = st.tuples(st.sampled_from(COMMANDS), ODD_ARGUMENTS).map("".join).filter(in_sandbox)
 PRELUDES = ["", "real t in [0, pi]", "space A:2 B:3", "psi = cos(t)|00> + sin(t)|11>",
             "real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>; chi = |01>"]
 
@@ -198,13 +211,13 @@ def test_the_parser_gives_a_tree_or_an_input_error(text):
 
 
 @examples(80)
-@given(st.one_of(soup, unicode_soup))
+@given(st.one_of(soup, unicode_soup).filter(in_sandbox))
 def test_character_soup(text):
     outcome(text)
 
 
 @examples(80)
-@given(st.one_of(broken(), mismatched, deep, huge))
+@given(st.one_of(broken(), mismatched, deep, huge).filter(in_sandbox))
 def test_near_misses_of_expressions(text):
     outcome(text)
 
@@ -216,7 +229,7 @@ def test_near_misses_of_statements(text, prelude):
 
 
 @examples(30)
-@given(st.lists(st.one_of(statements, soup), min_size=2, max_size=4).map("\n".join))
+@given(st.lists(st.one_of(statements, soup), min_size=2, max_size=4).map("\n".join).filter(in_sandbox))
 def test_several_lines_at_once(text):
     outcome(text, PRELUDES[-1])
 
@@ -244,6 +257,25 @@ def test_inputs_that_once_crashed(prelude, text):
     outcome(text, prelude)
 
 
+# Crashes the fuzzer found in other areas, not fixed yet.  Strict: once the fix lands the case
+# passes, the mark fails the run, and the case moves up to ONCE_CRASHED.
+STILL_CRASHING = [
+    pytest.param("budget ²", marks=pytest.mark.xfail(
+        strict=True, reason="commands/numeric.py: str.isdigit() accepts '²', float() does not")),
+    pytest.param("open /", marks=pytest.mark.xfail(
+        strict=True, reason="commands/sheets.py: Path('/').with_suffix raises ValueError")),
+    pytest.param("save ~nosuchuser/x", marks=pytest.mark.xfail(
+        strict=True, reason="commands/sheets.py: expanduser raises RuntimeError")),
+    pytest.param("plot entropy psi 1|2 over t --to " + "x" * 300 + ".svg", marks=pytest.mark.xfail(
+        strict=True, reason="plots.py: its own atomic writer lets OSError (name too long) out")),
+]
+
+
+@pytest.mark.parametrize("text", STILL_CRASHING, ids=lambda s: s[:20])
+def test_inputs_that_still_crash_elsewhere(text):
+    outcome(text, "real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>")
+
+
 def test_a_flat_sum_of_thousands_of_kets_is_a_state():
     results = Session().run("x = " + " + ".join(f"|{k},{k}>" for k in range(3000)))
     assert len(results[0].report.items[0].value.terms) == 3000
@@ -253,8 +285,8 @@ def test_a_flat_sum_of_thousands_of_kets_is_a_state():
 
 @pytest.mark.slow
 @LONG
-@given(st.one_of(soup, unicode_soup, broken(), mismatched, deep, huge,
-                 st.tuples(statements, st.sampled_from(PRELUDES))))
+@given(st.one_of(soup, unicode_soup, broken(), mismatched, deep, huge).filter(in_sandbox)
+       | st.tuples(st.one_of(statements, odd_statements), st.sampled_from(PRELUDES)))
 def test_many_fuzzed_inputs(item):
     if isinstance(item, tuple):
         outcome(*item)
