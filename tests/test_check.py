@@ -239,3 +239,14 @@ def test_a_large_power_skips_the_exact_path_and_random_points_decide():
     refuted = check("(a + b)^20", wrong, real="a b")
     assert_refuted(refuted, lambda a, b: -(a ** 10) * b ** 10)
     assert refuted.digits == 0
+
+
+def test_sides_may_be_python_values_and_the_verdict_is_immutable():
+    # the Hadamard matrix squares to the identity (fact of the trade)
+    h = sympy.Matrix([[1, 1], [1, -1]]) / sympy.sqrt(2)
+    verdict = check(h * h, sympy.eye(2))
+    assert verdict.holds is True
+    with pytest.raises(AttributeError):
+        verdict.holds = False  # frozen dataclass
+    t = sympy.Symbol("t", real=True)
+    assert check(sympy.cos(t) ** 2, (1 + sympy.cos(2 * t)) / 2).line() == "holds for all real t (exact)"

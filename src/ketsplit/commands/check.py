@@ -101,8 +101,11 @@ def _options(call: CommandCall) -> Options:
 
 def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase: bool) -> Verdict:
     sub = _sub_call(call, "check", left, call.offset)
-    text, cut_text, _ = sub.split_last(CUT_PATTERN)
-    if cut_text is not None and not phase:
+    _, cut_text, column = sub.split_last(CUT_PATTERN)
+    if cut_text is not None and phase:
+        raise call.error("check: a cut goes with '=' and a claimed Schmidt form; '~' compares "
+                         "whole states up to a phase", column, len(cut_text))
+    if cut_text is not None:
         state, cut = sub.state_and_cut()
         return _form_claim(call, state, cut, right, right_offset, len(cut.left))
     raw = call.value(left, call.offset)
