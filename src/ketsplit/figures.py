@@ -4,7 +4,7 @@ Every figure is a function of the Schmidt coefficients sigma_k alone (the
 squared ones p_k = sigma_k^2 are the nonzero eigenvalues of either reduced
 state), so each is built from :attr:`Decomposition.coefficients` and
 :attr:`Decomposition.squared` and simplified with the parameters' declared
-assumptions.  Logarithmic figures (entropy, Renyi entropies, log-negativity)
+assumptions and ranges.  Logarithmic figures (entropy, Renyi entropies, log-negativity)
 are in bits by default, or in nats.
 """
 
@@ -176,8 +176,8 @@ def _tidy_logs(expr: sympy.Expr) -> sympy.Expr:
     tidied = expr.replace(lambda e: isinstance(e, sympy.log), lambda e: sympy.log(tidy(e.args[0])))
     if tidied.free_symbols:
         return tidied
-    # constants: every logarithm here has a positive argument, so expanding is exact
-    expanded = sympy.expand(sympy.expand_log(tidied, force=True))
+    # constants: sympy expands a logarithm only where it can prove the argument positive
+    expanded = sympy.expand(sympy.expand_log(tidied))
     return min((tidied, expanded), key=sympy.count_ops)
 
 
