@@ -242,3 +242,12 @@ def test_random_small_states_agree_with_mpmath(rows, cols, numbers):
     assert result.rank == expected_rank
     reference = [v for v in reference_coefficients(matrix, 60) if v > mpmath.mpf(10) ** -40]
     assert all(agrees(t, r, 20) for t, r in zip(result.texts(), reference))
+
+
+def test_rank_statement_proves_a_numeric_rank_when_the_exact_path_is_off():
+    # the example again, through 'rank' with certified numbers only (budget 0)
+    session = Session()
+    out = session.run("budget 0\nrank |00> + 10^(-40)|11>")[1].text()
+    assert "rank: 2" in out and "certified numbers" in out
+    hidden = session.run("rank |00> + (cos(1)^2 + sin(1)^2 - 1)|11>")[0].text()
+    assert "undecided at this precision" in hidden

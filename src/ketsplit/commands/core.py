@@ -66,7 +66,14 @@ def run_reduce(call: CommandCall) -> Report:
          "rank |000> + |111> 1|23")
 def run_rank(call: CommandCall) -> Report:
     state, cut = call.state_and_cut()
-    d = schmidt(state, cut)
+    settings = call.session.settings
+    outcome = exact_or_certified(state, cut, settings.exact_budget, settings.digits)
+    if outcome.certified is not None:  # a rank proved by enclosures, or said to be undecided
+        found = outcome.certified
+        return Report(f"Schmidt rank across {cut.describe(state)}",
+                      (Field("rank", found.rank if found.rank is not None else found.rank_text()),),
+                      outcome.notes)
+    d = outcome.exact
     note = () if not state.symbols or call.point else (
         "generic rank: it can drop at special parameter values (see 'strata')",)
     return Report(f"Schmidt rank across {cut.describe(d.state)}", (Field("rank", d.rank),), note)
