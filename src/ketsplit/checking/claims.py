@@ -16,6 +16,8 @@ normalised state, as ``schmidt`` and ``reduce`` do).
   every r x r minor does.  Numerically e_k(G), the k-th elementary symmetric
   function of the eigenvalues of G, is the sum of |k x k minors of C|^2
   (Cauchy-Binet), so one certified number per point stands for all minors.
+
+A claim made of two decisions gives each half of the time budget.
 """
 
 from __future__ import annotations
@@ -80,9 +82,9 @@ def reduced_claim(state: State, keep: tuple[int, ...], claimed: sympy.Matrix,
 def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
                   params: tuple[Parameter, ...], options: Options) -> Verdict:
     """The claimed coefficients have the right squares (the spectrum) and are nonnegative."""
-    spectrum = decide(_spectrum_difference(state, cut, claimed, params), options)
+    spectrum = decide(_spectrum_difference(state, cut, claimed, params), options.part(2))
     signs = [(f"c{k} - |c{k}|", c, sympy.Abs(c)) for k, c in enumerate(claimed, start=1)]
-    nonnegative = decide(paired_difference(signs, params, ""), options)
+    nonnegative = decide(paired_difference(signs, params, ""), options.part(2))
     if spectrum.holds is False:
         spectrum = replace(spectrum, reason=spectrum.reason + _actual_coefficients(
             state, cut, spectrum.counterexample or {}, options.digits))
@@ -178,10 +180,11 @@ def rank_claim(state: State, cut: Cut, rank: int, params: tuple[Parameter, ...],
     if rank < 1 or rank > m:
         return Verdict(False, "sizes", f"a Schmidt rank lies between 1 and {m} (the dimension of "
                                        f"the smaller side), not {rank}")
-    above = decide(_minor_difference(state, cut, rank + 1, params), options) if rank < m else None
+    above = decide(_minor_difference(state, cut, rank + 1, params), options.part(2)) \
+        if rank < m else None
     if above is not None and above.holds is not True:
         return above if above.holds is None else _rank_above(above, rank)
-    at = decide(_minor_difference(state, cut, rank, params), options)
+    at = decide(_minor_difference(state, cut, rank, params), options.part(2))
     if at.holds is False:
         point = _point_text(at)
         if above is None:
@@ -240,14 +243,14 @@ def schmidt_form_claim(state: State, cut: Cut, terms: list[FormTerm],
                        declared: Mapping[str, Parameter], options: Options) -> Verdict:
     """The form equals the state, and its left factors (and its right ones) are orthogonal."""
     form = form_ket(state, cut, terms)
-    equal = compare_values(state, form, declared, False, options)
+    equal = compare_values(state, form, declared, False, options.part(2))
     pairs = orthogonality(terms)
     if not pairs or equal.holds is False:
         return equal
     symbols = set(state.symbols) | {s for t in terms for v in (t.left, t.right)
                                     for a in v.terms.values() for s in a.free_symbols}
     params = parameters(symbols, declared)
-    orthogonal = decide(paired_difference(pairs, params, ""), options)
+    orthogonal = decide(paired_difference(pairs, params, ""), options.part(2))
     return all_of(((equal, "the form is not the state"),
                    (orthogonal, "the form equals the state but is not a Schmidt form")),
                   domain_text(params), "the form equals the state and its factors on each side "

@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import time
 import zlib
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Callable, Mapping
 
 import flint
@@ -36,6 +36,7 @@ import sympy
 from ..states import Parameter
 from ..numeric.budget import OverBudget, time_budget
 from ..numeric.digits import certain_decimal, zero_bound_text
+from ..numeric.schmidt import start_bits
 from .evaluation import NotEvaluable
 from .exactpath import all_zero
 from .points import domain_text, points
@@ -85,6 +86,10 @@ class Options:
     @property
     def exact_seconds(self) -> float:
         return min(self.exact_share, self.budget / 2)
+
+    def part(self, parts: int) -> "Options":
+        """The options for one of ``parts`` decisions that together make one check."""
+        return replace(self, budget=self.budget / parts)
 
 
 def decide(difference: Difference, options: Options = Options()) -> Verdict:
@@ -152,13 +157,9 @@ def _confirmation(agreed: int, digits: int, has_params: bool) -> tuple[str, str]
             "difference would have to vanish to that accuracy at each of them")
 
 
-def start_precision(digits: int) -> int:
-    return int(digits * 3.33) + 32
-
-
 def _judge_point(difference: Difference, point: Point, digits: int):
     """('zero' | 'unclear' | the first Entry that is certainly nonzero, precision used)."""
-    prec = start_precision(digits)
+    prec = start_bits(digits)
     for _ in range(MAX_PRECISION_FACTOR.bit_length()):
         entries = difference.numeric(point, prec)
         outcome = _classify(entries, digits)
