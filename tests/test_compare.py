@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import pytest
 import sympy
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 import ketsplit
 from ketsplit.compare import compare, majorized, vidal_probability
@@ -136,3 +138,20 @@ def test_comparison_value():
     found = compare(schmidt_form(R(1, 2), R(1, 2)), schmidt_form(R(3, 4), R(1, 4)))
     assert found.forward and not found.backward and not found.incomparable
     assert found.p_backward == R(1, 2)
+
+
+@st.composite
+def probability_vectors(draw):
+    weights = draw(st.lists(st.integers(0, 12), min_size=1, max_size=5).filter(any))
+    total = sum(weights)
+    return tuple(sorted((R(w, total) for w in weights), reverse=True))
+
+
+@settings(max_examples=60, deadline=None)
+@given(probability_vectors(), probability_vectors())
+def test_vidal_probability_is_one_exactly_when_nielsen_allows(x, y):
+    # Vidal, PRL 83, 1046 (1999) reduces to Nielsen, PRL 83, 436 (1999): the optimal
+    # probability is 1 exactly when x is majorized by y, and it never exceeds 1.
+    p = vidal_probability(x, y)
+    assert 0 <= p <= 1
+    assert (p == 1) == majorized(x, y)

@@ -116,10 +116,15 @@ def partial_sums(x: Vector) -> Vector:
     return tuple(sums)
 
 
+def partial_steps(x: Vector, y: Vector) -> tuple[bool, ...]:
+    """For each k: is the k-th partial sum of x (descending) at most y's?"""
+    x, y = padded(x, y)
+    return tuple(decide_sign(b - a) >= 0 for a, b in zip(partial_sums(x), partial_sums(y)))
+
+
 def majorized(x: Vector, y: Vector) -> bool:
     """x is majorized by y: every partial sum of x (descending) is at most y's."""
-    x, y = padded(x, y)
-    return all(decide_sign(b - a) >= 0 for a, b in zip(partial_sums(x), partial_sums(y)))
+    return all(partial_steps(x, y))
 
 
 def vidal_probability(source: Vector, target: Vector) -> sympy.Expr:
@@ -200,6 +205,7 @@ class Comparison:
     target: Vector
     source_sums: Vector
     target_sums: Vector
+    steps: tuple[bool, ...]  # source's k-th partial sum <= target's
     lu_equivalent: bool
     forward: bool            # source -> target by LOCC
     backward: bool           # target -> source by LOCC
@@ -222,7 +228,7 @@ def compare_across(source: State, cut_a: Cut, target: State, cut_b: Cut) -> Comp
     check_shapes(source, cut_a, target, cut_b)
     x, y = sorted_squared(source, cut_a), sorted_squared(target, cut_b)
     px, py = padded(x, y)
-    return Comparison(px, py, partial_sums(px), partial_sums(py), same_multiset(x, y),
-                      majorized(x, y), majorized(y, x), vidal_probability(x, y),
-                      vidal_probability(y, x))
+    steps = partial_steps(x, y)
+    return Comparison(px, py, partial_sums(px), partial_sums(py), steps, same_multiset(x, y),
+                      all(steps), majorized(y, x), vidal_probability(x, y), vidal_probability(y, x))
 

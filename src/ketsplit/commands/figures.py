@@ -7,7 +7,7 @@ from dataclasses import replace
 
 import sympy
 
-from ..compare import compare_across, decide_sign
+from ..compare import compare_across
 from ..cuts import CUT_PATTERN, Cut, parse_cut
 from ..decomposition import schmidt
 from ..numeric.digits import digits_cell
@@ -220,9 +220,8 @@ def run_compare(call: CommandCall) -> Report:
     cut_a, cut_b = (parse_cut(cut_text, s, span, call.source) for s in (a, b))
     found = compare_across(a, cut_a, b, cut_b)
     digits = call.session.settings.digits
-    rows = tuple((k + 1, x, y, sx, sy, _yes(decide_sign(sy - sx) >= 0))
-                 for k, (x, y, sx, sy) in enumerate(zip(found.source, found.target, found.source_sums,
-                                                        found.target_sums)))
+    rows = tuple((k + 1, x, y, sx, sy, _yes(step)) for k, (x, y, sx, sy, step) in enumerate(
+        zip(found.source, found.target, found.source_sums, found.target_sums, found.steps)))
     items = (
         Table(("k", f"{a_name}: p_k", f"{b_name}: p_k", f"{a_name}: sum to k", f"{b_name}: sum to k",
                f"{a_name} sum <= {b_name} sum"), rows),
