@@ -19,6 +19,7 @@ from .exact.pointeval import evaluate_at
 from .exact.signs import box_of, drop_abs, sign_on_box
 from .exact.schmidt import inner, nonzero_entries, schmidt_pieces, tidy
 from .render.ketprint import label_text
+from .render.ketprint import text as language_text
 from .states import State
 
 
@@ -109,7 +110,7 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     pieces, ordered = order_pieces(pieces, box)
     notes = []
     if normal is not state:
-        notes.append(f"the state was normalised (its squared norm was {sympy.sstr(state.norm_squared())})")
+        notes.append(f"the state was normalised (its squared norm was {language_text(state.norm_squared())})")
     if not ordered:
         notes.append("the order of the coefficients depends on the parameters")
     decomposition = Decomposition(normal, cut, [p[0] for p in pieces], [p[1] for p in pieces],

@@ -15,6 +15,7 @@ from typing import Iterable, Mapping
 import sympy
 
 from .language.errors import InputError
+from .render.ketprint import text as language_text
 
 KINDS = ("real", "positive", "complex", "integer")
 
@@ -36,7 +37,7 @@ class Parameter:
         return self.kind in ("real", "positive", "integer")
 
     def describe(self) -> str:
-        where = f" in [{sympy.sstr(self.range[0])}, {sympy.sstr(self.range[1])}]" if self.range else ""
+        where = f" in [{language_text(self.range[0])}, {language_text(self.range[1])}]" if self.range else ""
         return f"{self.kind} {self.name}{where}"
 
 

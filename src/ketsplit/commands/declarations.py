@@ -13,6 +13,7 @@ from ..language.errors import InputError, Span
 from ..render.ketprint import ket_text
 from ..render.report import Field, Kets, Note, Report
 from ..render.ketprint import label_text
+from ..render.ketprint import text as language_text
 from ..states import KINDS, State
 
 if TYPE_CHECKING:
@@ -50,7 +51,7 @@ def declare(session: "Session", statement: str, start: int, line: int) -> Report
             raise _error("a complex parameter cannot have a range", line, start + range_at.start() + 1,
                          2, statement)
     session.declare(names, kind, rng)
-    where = f" in [{sympy.sstr(rng[0])}, {sympy.sstr(rng[1])}]" if rng else ""
+    where = f" in [{language_text(rng[0])}, {language_text(rng[1])}]" if rng else ""
     return Report(f"declared {kind} {', '.join(names)}{where}")
 
 
@@ -74,7 +75,7 @@ def parse_range(session: "Session", text: str, offset: int, line: int, statement
         bounds.append(value)
         column += len(part) + 1
     if bool(bounds[0] > bounds[1]):
-        raise _error(f"the range is empty: {sympy.sstr(bounds[0])} > {sympy.sstr(bounds[1])}",
+        raise _error(f"the range is empty: {language_text(bounds[0])} > {language_text(bounds[1])}",
                      line, lead, len(inner), statement)
     return bounds[0], bounds[1]
 
@@ -139,7 +140,7 @@ def assign(session: "Session", name: str, statement: str, start: int, line: int)
         session.bindings[name] = state
         return state_report(f"{name} =", state)
     session.bindings[name] = value
-    return Report(f"{name} = {sympy.sstr(value)}", (Field("kind", kind_of(value)),))
+    return Report(f"{name} = {language_text(value)}", (Field("kind", kind_of(value)),))
 
 
 def state_report(title: str, state: State) -> Report:
