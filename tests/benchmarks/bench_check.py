@@ -12,13 +12,12 @@ before each.  Goal: the total of ours at most the total of the reference.
 
 from __future__ import annotations
 
-import time
-
 import pytest
 import sympy
 from sympy.core.cache import clear_cache
 
 import ketsplit
+from bench_numeric import best_of  # the same timing rule as the other benchmarks
 
 pytestmark = pytest.mark.benchmark
 
@@ -45,24 +44,14 @@ CASES = [
 ]
 
 
-def best_of(runs: int, action) -> float:
-    times = []
-    for _ in range(runs):
-        clear_cache()
-        start = time.perf_counter()
-        action()
-        times.append(time.perf_counter() - start)
-    return min(times)
-
-
 def test_check_against_blind_simplify():
     total_ours = total_reference = 0.0
     print()
     for lhs, rhs, kwargs, difference, expected in CASES:
         verdict = ketsplit.check(lhs, rhs, **kwargs)
         assert verdict.holds is expected, verdict.line()
-        ours = best_of(3, lambda: ketsplit.check(lhs, rhs, **kwargs))
-        reference = best_of(3, lambda: sympy.simplify(difference) == 0)
+        ours = best_of(3, lambda: ketsplit.check(lhs, rhs, **kwargs), clear_cache)
+        reference = best_of(3, lambda: sympy.simplify(difference) == 0, clear_cache)
         total_ours += ours
         total_reference += reference
         print(f"  {lhs} = {rhs}: ours {ours:.3f} s, simplify {reference:.3f} s, "
