@@ -8,10 +8,12 @@ elsewhere.
 from __future__ import annotations
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from ketsplit import Session, Settings
 from ketsplit.sheets.format import (FORMAT, Record, Sheet, SheetError, SheetLine, format_sheet,
-                                    parse_sheet, read_sheet)
+                                    parse_sheet, protect, read_sheet)
 from ketsplit.sheets.runner import sheet_of_transcript
 
 
@@ -139,3 +141,23 @@ def test_a_plain_file_of_statements_reads_as_lines_without_results():
     sheet = parse_sheet(b"# notes\nreal t\nrank cos(t)|00> + sin(t)|11>\n")
     assert sheet.format is None and sheet.problems == ()
     assert [e.line for e in sheet.lines] == [1, 2, 3]
+
+
+# -- any text survives a round trip ---------------------------------------------------
+
+LINE_TEXT = st.text(st.characters(blacklist_categories=("Cs",),
+                                  blacklist_characters="\n\r\x0b\x0c\x1c\x1d\x1e\x85\u2028\u2029\x00"),
+                    max_size=40)
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.lists(st.tuples(LINE_TEXT, st.lists(st.lists(LINE_TEXT, min_size=1, max_size=3),
+                                              max_size=2)), max_size=6))
+def test_any_lines_and_records_read_back_as_written(entries):
+    lines = [SheetLine(source, k + 1, tuple(Record(tuple(r)) for r in records))
+             for k, (source, records) in enumerate(entries)]
+    sheet = parse_sheet(written(lines).encode("utf-8"))
+    assert sheet.problems == ()
+    assert [e.source for e in sheet.lines] == [protect(e.source) for e in lines]
+    assert [e.records for e in sheet.lines] == [
+        tuple(Record(tuple(line.rstrip() for line in r.lines)) for r in e.records) for e in lines]
