@@ -125,7 +125,7 @@ def _subject(call: CommandCall) -> str:
 
 @command("figures", "figures STATE [CUT] [bits|nats] [FIGURE ...] [with NAME=VALUE, ...]",
          "entanglement figures across a cut: entropy, Renyi, purity, concurrence, negativity, ...",
-         "figures cos(t)|00> + sin(t)|11> 1|2 nats")
+         "real t; figures cos(t)|00> + sin(t)|11> 1|2 nats")
 def run_figures(call: CommandCall) -> Report:
     trimmed, options = split_options(call)
     unit, wanted = _selection(call, options)
@@ -299,7 +299,7 @@ def strata_markers(call: CommandCall, state: State, cut: Cut, symbol: sympy.Symb
 
 @command("plot", "plot FIGURE STATE [CUT] over NAME [--to FILE.svg] [with NAME=VALUE, ...]",
          "a figure (or 'coefficients') across the declared range of one real parameter",
-         "plot entropy cos(t)|00> + sin(t)|11> 1|2 over t")
+         "real t in [0, pi]; plot entropy cos(t)|00> + sin(t)|11> 1|2 over t")
 def run_plot(call: CommandCall) -> Report:
     match = PLOT.match(call.args)
     if match is None:
