@@ -33,7 +33,7 @@ def refusal(text: str, session: Session | None = None) -> LimitError:
     started = time.monotonic()
     with pytest.raises(LimitError) as info:
         (session or Session()).run(text)
-    assert time.monotonic() - started < 5, f"the refusal of {text[:60]!r} was not up front"
+    assert time.monotonic() - started < 15, f"the refusal of {text[:60]!r} was not up front"
     return info.value
 
 
