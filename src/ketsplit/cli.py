@@ -27,15 +27,16 @@ def build_parser() -> argparse.ArgumentParser:
     output_options(parser)
     sub = parser.add_subparsers(dest="action")
     run = sub.add_parser("run", help="run a worksheet (or a file of statements) and print the results")
-    run.add_argument("file")
+    run.add_argument("file", help="a worksheet (.kss) or a plain file of statements")
     output_options(run, argparse.SUPPRESS)
     run.add_argument("--record", action="store_true",
                      help="write this run's results into the worksheet (atomically)")
     verify = sub.add_parser("verify", help="replay a worksheet; exit 1 where a result differs")
-    verify.add_argument("file")
+    verify.add_argument("file", help="a worksheet (.kss)")
     export = sub.add_parser("export", help="a worksheet as a LaTeX fragment or as Markdown")
-    export.add_argument("file")
-    export.add_argument("--to", choices=("tex", "md"), required=True)
+    export.add_argument("file", help="a worksheet (.kss) or a plain file of statements")
+    export.add_argument("--to", choices=("tex", "md"), required=True,
+                        help="tex: a LaTeX fragment (amsmath); md: Markdown with $$ math")
     export.add_argument("-o", dest="output", help="write to this file instead of printing")
     return parser
 
