@@ -67,6 +67,7 @@ class Spectrum:
 
 # -- signs on declared ranges ----------------------------------------------------
 CONTINUOUS = (sympy.sin, sympy.cos, sympy.exp, sympy.sinh, sympy.cosh)
+MAX_SIGN_OPS = 30  # solveset is tried on short factors only: it can run long on big ones
 Range = tuple[sympy.Symbol, sympy.Expr, sympy.Expr]
 
 
@@ -99,7 +100,7 @@ def sign_on_range(f: sympy.Expr, t: sympy.Symbol, lo: sympy.Expr, hi: sympy.Expr
     proved by an enclosure.  None when any step is out of reach.
     """
     from .numeric.enclose import enclose_real
-    if not f.is_real or not _continuous(f, t):
+    if not f.is_real or sympy.count_ops(f) > MAX_SIGN_OPS or not _continuous(f, t):
         return None
     zeros = sympy.solveset(f, t, sympy.Interval(lo, hi))
     if not isinstance(zeros, sympy.FiniteSet):
