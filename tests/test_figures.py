@@ -322,3 +322,14 @@ def test_declared_range_removes_absolute_values():
     assert sympy.simplify(found["concurrence"] - sympy.sin(2 * t)) == 0
     half = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t", ranges={"t": (0, "pi")})
     assert ketsplit.figures(half)["concurrence"].has(sympy.Abs)
+
+
+def test_dicke_state_figures_across_its_halves():
+    # D(4,2) across 12|34: squared coefficients C(2,j)^2/C(4,2) = 1/6, 2/3, 1/6
+    # (hypergeometric; fact of the trade), so the entropy is log2(3) - 1/3 by hand.
+    session = ketsplit.Session()
+    result = session.run("figures dicke(4,2) 12|34 entropy purity")[0]
+    rows = {row[0]: row for row in result.report.items[1].rows}
+    assert sympy.simplify(rows["entropy (bits)"][1] - (sympy.log(3) / LOG2 - sympy.Rational(1, 3))) == 0
+    assert rows["purity"][1] == sympy.Rational(1, 2)
+    assert "12|34" in result.report.title

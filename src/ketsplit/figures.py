@@ -178,7 +178,7 @@ def _tidy_logs(expr: sympy.Expr) -> sympy.Expr:
     if tidied.free_symbols:
         return tidied
     # constants: sympy expands a logarithm only where it can prove the argument positive
-    expanded = sympy.expand(sympy.expand_log(tidied))
+    expanded = sympy.expand(sympy.expand_log(tidied, factor=True))
     return min((tidied, expanded), key=sympy.count_ops)
 
 

@@ -136,7 +136,7 @@ def run_figures(call: CommandCall) -> Report:
     rows = tuple((label, value, certified(value, digits)) for label, value in values.items())
     items = (Field("squared Schmidt coefficients", list(d.squared)),
              Table(("figure", "exact", f"certified digits (up to {digits})"), rows))
-    return Report(f"entanglement figures of {_subject(trimmed)} across {cut.describe(d.state)}",
+    return Report(f"entanglement figures of {_subject(trimmed)} across {cut.describe(state)}",
                   items, d.notes)
 
 
@@ -314,7 +314,7 @@ def run_plot(call: CommandCall) -> Report:
     d = schmidt(state, cut)
     markers, note = strata_markers(call, state, cut, symbol)
     title = f"{_figure_label(figure, unit) if figure != COEFFICIENTS else 'Schmidt coefficients'} of " \
-            f"{_subject(inner)} across {cut.describe(d.state)}"
+            f"{_subject(inner)} across {cut.describe(state)}"
     chart = make_chart(title, plot_curves(Spectrum.of(d), figure, unit), symbol, bounds, markers)
     items: tuple = (Plot(terminal_lines(chart)),)
     if match.group(6):
