@@ -82,7 +82,7 @@ def outcome(text: str, prelude: str = "") -> str:
     Returns "ok" or "input error"; any other exception propagates and fails the test.
     """
     session = Session()
-    if prelude:
+    with limits.limits_set(seconds=120):  # the prelude is valid: no load may make it time out
         session.run(prelude)
     with watchdog(WATCHDOG_SECONDS, text):
         try:
@@ -249,6 +249,7 @@ ONCE_CRASHED = [
     ("", " + ".join(f"|{k},{k}>" for k in range(3000))),  # RecursionError in a flat sum
     ("", "+".join(["x"] * 2000)),
     ("real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>", "schmidt psi with t=i"),  # TypeError
+    ("", "save \x00"),                     # ValueError: embedded null byte, in write_atomic
 ]
 
 
@@ -262,6 +263,8 @@ def test_inputs_that_once_crashed(prelude, text):
 STILL_CRASHING = [
     pytest.param("budget ²", marks=pytest.mark.xfail(
         strict=True, reason="commands/numeric.py: str.isdigit() accepts '²', float() does not")),
+    pytest.param("open \x00", marks=pytest.mark.xfail(
+        strict=True, reason="sheets/format.py: Path.stat() raises ValueError on a NUL byte")),
     pytest.param("open /", marks=pytest.mark.xfail(
         strict=True, reason="commands/sheets.py: Path('/').with_suffix raises ValueError")),
     pytest.param("save ~nosuchuser/x", marks=pytest.mark.xfail(

@@ -212,6 +212,12 @@ def test_a_read_only_directory(tmp_path):
         tmp_path.chmod(0o755)
 
 
+def test_a_name_with_a_nul_byte(tmp_path):
+    with pytest.raises(WriteError) as info:
+        write_atomic(tmp_path / "a\x00b.kss", "text\n")
+    assert "NUL" in info.value.message and list(tmp_path.iterdir()) == []
+
+
 def test_a_missing_directory(tmp_path):
     with pytest.raises(WriteError) as info:
         write_atomic(tmp_path / "no" / "such" / "sheet.kss", "text\n")

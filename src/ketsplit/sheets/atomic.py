@@ -59,6 +59,8 @@ def write_atomic(path: str | Path, text: str) -> None:
 
 def refuse_read_only(target: Path) -> None:
     """A file marked read-only is not replaced, although its directory would allow it."""
+    if "\x00" in str(target):  # the system cannot even be asked about such a name
+        raise WriteError(target, "a file name cannot contain a NUL character", errno.EINVAL)
     if target.is_dir():
         raise WriteError(target, "it is a directory", errno.EISDIR)
     if target.exists() and (not os.access(target, os.W_OK) or not target.stat().st_mode & 0o222):
