@@ -117,6 +117,7 @@ def test_parts():
 def test_part_dimension():
     assert_names(refusal("|0,10000>"), "part_dimension")
     assert_names(refusal("space A:10001"), "part_dimension")
+    assert_names(refusal("sum(n=0..99999, |n>)"), "part_dimension")  # at n = 10000, not after
     Session().run("|0,9999> + |1,0>")
 
 
