@@ -95,3 +95,14 @@ def test_chart_drawing_is_deterministic():
     assert terminal_lines(chart) == terminal_lines(chart)
     assert "stroke-dasharray" in svg_text(chart)
     assert nice(0.998, 1) == 1.0 and nice(-0.013, -1) == -0.013 and nice(0.0, 1) == 0.0
+
+
+def test_many_curves_all_drawn_and_legend_fits():
+    t = sympy.Symbol("t", real=True)
+    curves = {f"curve_{k}": sympy.Integer(k) / 10 + sympy.sin(t) / 100 for k in range(11)}
+    lines = terminal_lines(make_chart("many", curves, t, (0, 1)))
+    legend = " ".join(line for line in lines if "curve_" in line)
+    assert all(f"curve_{k}" in legend for k in range(11))
+    assert max(len(line) for line in lines) <= 80
+    with pytest.raises(ketsplit.InputError, match="single point"):
+        make_chart("flat", curves, t, (1, 1))

@@ -24,7 +24,7 @@ from .language.errors import InputError
 from .numeric.enclose import Encloser
 from .render.ketprint import text as expr_text
 
-GLYPHS = "●○◆◇■□▲△"
+GLYPHS = "●○◆◇■□+x"  # ▲ is kept for the strata markers
 COLOURS = ("#1f4e79", "#c0392b", "#27ae60", "#8e44ad", "#d68910", "#148f77", "#7b241c", "#2e4053")
 SAMPLE_BITS = 64
 WIDTH, HEIGHT = 64, 16          # terminal plot area in characters
@@ -107,6 +107,9 @@ def make_chart(title: str, curves: Mapping[str, sympy.Expr], symbol: sympy.Symbo
                bounds: tuple[sympy.Expr, sympy.Expr], markers: Sequence[Marker] = (),
                count: int = WIDTH) -> Chart:
     lo, hi = bounds
+    if not bool(hi > lo):
+        raise InputError(f"the range of {symbol.name} is the single point {expr_text(lo)}: "
+                         "nothing to plot across")
     xs, sampled = sample(curves, symbol, lo, hi, count)
     return Chart(title, symbol.name, lo, hi, xs, sampled, tuple(markers))
 
@@ -130,7 +133,8 @@ def terminal_lines(chart: Chart, width: int = WIDTH, height: int = HEIGHT) -> tu
         column = _column(float(marker.x), chart, width)
         for row in grid:
             row[column] = "┊"
-    for glyph, curve in zip(GLYPHS, chart.curves):
+    for k, curve in enumerate(chart.curves):
+        glyph = GLYPHS[k % len(GLYPHS)]
         for x, y in zip(chart.xs, curve.ys):
             if y is not None:
                 row = round((y - low) / (high - low) * (height - 1))
@@ -158,7 +162,7 @@ def _x_axis(chart: Chart, width: int) -> list[str]:
     lines = [" " * MARGIN + "└" + "".join(axis),
              " " * (MARGIN + 1) + "".join(labels).ljust(room) + f"  {chart.xname}"]
     if len(chart.curves) > 1:
-        lines.append(" " * MARGIN + "  ".join(f"{g} {c.label}" for g, c in zip(GLYPHS, chart.curves)))
+        lines.extend(_legend([f"{GLYPHS[k % len(GLYPHS)]} {c.label}" for k, c in enumerate(chart.curves)]))
     if chart.markers:
         marks = [" "] * width
         for marker in chart.markers:
@@ -166,6 +170,18 @@ def _x_axis(chart: Chart, width: int) -> list[str]:
         lines.append(" " * (MARGIN + 1) + "".join(marks).rstrip())
         lines.extend(" " * MARGIN + f"▲ {m.label}" for m in chart.markers)
     return lines
+
+
+def _legend(entries: list[str]) -> list[str]:
+    """Legend entries on as many lines of at most LINE characters as they need."""
+    lines, current = [], ""
+    for entry in entries:
+        if current and len(" " * MARGIN + current + "  " + entry) > LINE:
+            lines.append(" " * MARGIN + current)
+            current = entry
+        else:
+            current = f"{current}  {entry}" if current else entry
+    return lines + [" " * MARGIN + current]
 
 
 # -- SVG -----------------------------------------------------------------------

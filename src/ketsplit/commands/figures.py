@@ -269,6 +269,9 @@ def plotted_parameter(call: CommandCall, state: State, name: str, column: int):
     if param.range is None:
         raise call.error(f"plot: {name} has no declared range; declare one, as in "
                          f"'real {name} in [0, pi]'", column, len(name))
+    if not bool(param.range[1] > param.range[0]):
+        raise call.error(f"plot: the range of {name} is a single point; nothing to plot across",
+                         column, len(name))
     others = sorted(set(symbols) - {name})
     if others:
         raise call.error(f"plot: the state also depends on {', '.join(others)}; fix "
