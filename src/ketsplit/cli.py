@@ -16,7 +16,7 @@ from pathlib import Path
 
 from . import __version__
 from .language.errors import InputError
-from .sheets.format import Sheet, SheetError, SheetLine, read_sheet
+from .sheets.format import Sheet, SheetError, parse_sheet, read_sheet
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -63,7 +63,7 @@ def main(argv: list[str] | None = None) -> int:
 def dispatch(args) -> int:
     try:
         if args.statements is not None:
-            return run_sheet(typed_sheet(args.statements), args, typed=True)
+            return run_sheet(parse_sheet(args.statements.encode("utf-8"), "-c"), args, typed=True)
         if args.action is None:
             from .repl.loop import start
             return start()
@@ -75,17 +75,6 @@ def dispatch(args) -> int:
 
 
 # -- run -------------------------------------------------------------------------
-
-def typed_sheet(text: str) -> Sheet:
-    """Statements after -c, one a sheet line, so that a 'save' after ';' keeps those before it
-    (each keeps its leading spaces, so that an error names its column in the typed line)."""
-    from .session import split_statements
-    lines = []
-    for number, raw in enumerate(text.splitlines() or [text], start=1):
-        statements = [s for s, _ in split_statements(raw)]
-        lines += [SheetLine(s, number) for s in statements] or [SheetLine(raw, number)]
-    return Sheet(tuple(lines), format=None)
-
 
 def run_file(sheet: Sheet, args) -> int:
     report_problems(sheet, args.file)

@@ -106,6 +106,7 @@ class Session:
     params: dict[str, Parameter] = field(default_factory=dict)
     space: Space | None = None
     transcript: list[Entry] = field(default_factory=list)  # lines run so far, for 'save'
+    running: tuple | None = None  # (line, its results so far, settings before it) while it runs
 
     # -- the Scope protocol used by the builder ------------------------
     def lookup(self, name: str) -> object | None:
@@ -128,13 +129,19 @@ class Session:
         results: list[Result] = []
         for number, source in enumerate(text.splitlines() or [text], start=first_line):
             before, done = self.settings, []
+            self.running = (source, done, before)
             try:
                 for statement, _ in split_statements(source):
                     done.append(self.execute(statement, number))
             finally:
+                self.running = None
                 self.transcript.extend(transcribe(source, done, before))
             results.extend(done)
         return results
+
+    def transcript_so_far(self) -> list[Entry]:
+        """The transcript with what the line running now has done before this statement."""
+        return self.transcript + (transcribe(*self.running) if self.running else [])
 
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""

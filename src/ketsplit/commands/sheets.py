@@ -33,7 +33,7 @@ def argument_place(call: CommandCall) -> tuple[int, int]:
          "save photon-pair.kss", topic="worksheets")
 def run_save(call: CommandCall) -> Report:
     path = sheet_path(call)
-    sheet = sheet_of_transcript(call.session.transcript, call.session.settings)
+    sheet = sheet_of_transcript(call.session.transcript_so_far(), call.session.settings)
     try:
         refuse_read_only(path)  # first, so that a read-only file is called so
         if path.exists() and not is_worksheet(path):

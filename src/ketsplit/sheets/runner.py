@@ -204,9 +204,9 @@ def is_zero(expr: sympy.Expr) -> bool:
 # -- sheets from sessions and outcomes -----------------------------------------
 
 def sheet_of_transcript(transcript: list[Entry], settings) -> Sheet:
-    """The worksheet of a session: its lines as typed (without leading spaces) with their results."""
+    """The worksheet of a session: its lines as typed with their results."""
     start = transcript[0].settings if transcript else settings
-    lines = tuple(SheetLine(e.source.strip(), n, tuple(record_of(r) for r in e.results))
+    lines = tuple(SheetLine(e.source, n, tuple(record_of(r) for r in e.results))
                   for n, e in enumerate(transcript, start=1))
     return Sheet(lines, start)
 
