@@ -106,10 +106,7 @@ def certified_schmidt(state: State, cut: Cut | str | None = None, digits: int = 
         at_point(state, {})  # every parameter must already have a value
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
-    matrix = CoefficientMatrix(state, cut)
-    blocks = [Block({(r.index(i), c.index(j)): matrix.entries[(i, j)]
-                     for i in r for j in c if (i, j) in matrix.entries}, len(r), len(c))
-              for r, c in matrix.blocks()]
+    blocks = split_blocks(CoefficientMatrix(state, cut))
     for block in blocks:
         block.check_size()
     bits = start_bits(digits)
@@ -119,6 +116,21 @@ def certified_schmidt(state: State, cut: Cut | str | None = None, digits: int = 
             break
         bits *= 2
     return result
+
+
+def split_blocks(matrix: CoefficientMatrix) -> list[Block]:
+    """The independent blocks, each with local row and column indices (cost: the entries)."""
+    pieces = matrix.blocks()
+    where: dict[int, tuple[int, int]] = {}  # row -> (block, local row)
+    columns: dict[int, int] = {}            # column -> local column
+    for b, (rows, cols) in enumerate(pieces):
+        where.update({i: (b, k) for k, i in enumerate(rows)})
+        columns.update({j: k for k, j in enumerate(cols)})
+    entries: list[dict] = [{} for _ in pieces]
+    for (i, j), value in matrix.entries.items():
+        b, row = where[i]
+        entries[b][(row, columns[j])] = value
+    return [Block(e, len(rows), len(cols)) for e, (rows, cols) in zip(entries, pieces)]
 
 
 def attempt(blocks: list[Block], bits: int, digits: int) -> CertifiedSchmidt:
