@@ -45,7 +45,9 @@ def eigenvalues(rho: sympy.Matrix) -> list[tuple[sympy.Expr, int]]:
     for factor, power in factored[1]:
         for root in solve_factor(sympy.Poly(factor, LAMBDA)):
             found.append((root, power))
-    return merge_equal(found)
+    # distinct irreducible factors over a field share no root; only a symbolic
+    # factorisation (which may be incomplete) can repeat an eigenvalue
+    return merge_equal(found) if poly.free_symbols - {LAMBDA} else found
 
 
 def _extension_of(poly: sympy.Poly) -> list[sympy.Expr] | None:
