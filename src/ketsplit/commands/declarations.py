@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import re
-from typing import TYPE_CHECKING, Callable
+from typing import TYPE_CHECKING, Callable, Mapping
 
 import sympy
 
@@ -138,12 +138,14 @@ def assign(session: "Session", name: str, statement: str, start: int, line: int)
     if isinstance(value, KetValue):
         state = session.make_state(value, Span(line, start + 1, len(statement) - start))
         session.bindings[name] = state
-        return state_report(f"{name} =", state)
+        return state_report(f"{name} =", state, session.params)
     session.bindings[name] = value
     return Report(f"{name} = {language_text(value)}", (Field("kind", kind_of(value)),))
 
 
-def state_report(title: str, state: State) -> Report:
+def state_report(title: str, state: State, declared: Mapping[str, object] | None = None) -> Report:
+    """The state as kets, its parts and parameters; ``declared`` names the declared parameters,
+    so that undeclared ones (complex by default) can be pointed out."""
     from ..symmetric import SymmetricState
     shown = state.dicke_text() if isinstance(state, SymmetricState) else \
         Kets(tuple((amp, label_text(label)[1:-1]) for label, amp in state.terms()))
@@ -151,6 +153,11 @@ def state_report(title: str, state: State) -> Report:
              Field("parts", " ".join(f"{n}:{d}" for n, d in zip(state.names, state.dims)))]
     if state.params:
         items.append(Field("parameters", ", ".join(p.describe() for p in state.params)))
+    undeclared = [p.name for p in state.params if declared is not None and p.name not in declared]
+    if undeclared:
+        names = ", ".join(undeclared)
+        items.append(Note(f"undeclared names are complex parameters: {names} (for angles or "
+                          f"amplitudes, declare them first, e.g. 'real {names}')"))
     norm2 = state.norm_squared()
     if not state.is_normalised():
         items.append(Note(f"not normalised (norm² = {ket_norm_text(norm2)}); results use the "
@@ -167,7 +174,7 @@ def show(session: "Session", statement: str, line: int) -> Report:
     value = session.evaluate(statement, 0, line)
     if isinstance(value, KetValue):
         state = session.make_state(value, Span(line, 1, len(statement)))
-        return state_report("state", state)
+        return state_report("state", state, session.params)
     if isinstance(value, sympy.MatrixBase):
         return Report("matrix", (Field("value", value),))
     return Report("value", (Field("value", sympy.simplify(value)),))
