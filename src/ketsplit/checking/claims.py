@@ -33,6 +33,7 @@ import sympy
 from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
 from ..language.build import KetValue
 from ..language.errors import InputError
+from ..exact.signs import sign_on_box
 from ..numeric.schmidt import certified_schmidt
 from ..states import Parameter, State
 from .evaluation import values_at
@@ -83,8 +84,7 @@ def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
                   params: tuple[Parameter, ...], options: Options) -> Verdict:
     """The claimed coefficients have the right squares (the spectrum) and are nonnegative."""
     spectrum = decide(_spectrum_difference(state, cut, claimed, params), options.part(2))
-    signs = [(f"c{k} - |c{k}|", c, sympy.Abs(c)) for k, c in enumerate(claimed, start=1)]
-    nonnegative = decide(paired_difference(signs, params, ""), options.part(2))
+    nonnegative = _nonnegative(claimed, params, options.part(2))
     if spectrum.holds is False:
         spectrum = replace(spectrum, reason=spectrum.reason + _actual_coefficients(
             state, cut, spectrum.counterexample or {}, options.digits))
@@ -92,6 +92,18 @@ def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
                    (nonnegative, "a claimed coefficient is not real and nonnegative")),
                   domain_text(params), "the squared coefficients are the spectrum of the reduced "
                                        "state, and each coefficient is nonnegative")
+
+
+def _nonnegative(claimed: list[sympy.Expr], params: tuple[Parameter, ...],
+                 options: Options) -> Verdict:
+    """Each claimed coefficient is real and >= 0: proved over the declared ranges when the
+    signs there can be (:func:`ketsplit.exact.signs.sign_on_box`), else c = |c| decided."""
+    box = {p.symbol: p.range for p in params if p.is_real and p.range is not None}
+    if box and all(sign_on_box(sympy.sympify(c), box) == 1 for c in claimed):
+        return Verdict(True, "exact", "each claimed coefficient is >= 0 on the declared ranges",
+                       domain_text(params))
+    signs = [(f"c{k} - |c{k}|", c, sympy.Abs(c)) for k, c in enumerate(claimed, start=1)]
+    return decide(paired_difference(signs, params, ""), options)
 
 
 def _actual_coefficients(state: State, cut: Cut, counterexample: dict, digits: int) -> str:
