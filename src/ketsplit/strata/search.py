@@ -149,11 +149,12 @@ class Search:
         free = form.free_coordinates(core)
         free_vars = {v for c in free for v in c.variables}
         involved = tuple(g for g in component.gens if g is not self.saturator and g not in free_vars)
-        filler = next(samples.combinations(free, limit=1), {}) if free else {}
+        fillers = list(samples.combinations(free, limit=12)) if free else [{}]
+        filler = fillers[0] if fillers else {}
         basis = groebner(core, involved, self.budget) if core else ()
         if basis and is_finite(basis, involved):
             found = [p for values in real_points(basis, involved, self.budget)
-                     for p in self.checked({**values, **filler}, rank)]
+                     for p in self.first_checked(values, fillers, rank)]
             if not found:
                 return
             stratum = self.curve_stratum(rank, core, found[0], free) if half_free(free) else \
@@ -191,6 +192,15 @@ class Search:
                 for values in real_points(piece.basis, piece.gens, self.budget):
                     self.add_point({**values, **filler})
         return True
+
+    def first_checked(self, values: Point, fillers: list[Point], rank: int) -> list[Found]:
+        """The points of the first filling of the free coordinates where the rank is r
+        (at special values of the free parameters the rank can be lower)."""
+        for filler in fillers:
+            found = self.checked({**values, **filler}, rank)
+            if found:
+                return found
+        return []
 
     def checked(self, values: Point, rank: int) -> list[Found]:
         """The parameter points of these values, if the state is defined there with this rank."""
