@@ -68,3 +68,35 @@ def test_random_qutrit_polynomial_families(entries):
     for value, rank in lower.items():
         match = [r for v, r in ours.items() if abs(float(v) - float(value)) < 1e-12]
         assert match == [rank]
+
+
+A, B = sympy.Symbol("a", real=True), sympy.Symbol("b", real=True)
+linear = st.tuples(st.integers(-2, 2), st.integers(-2, 2), st.integers(-2, 2)).map(
+    lambda c: c[0] + c[1] * A + c[2] * B)
+
+
+def on_stratum(stratum, point) -> bool:
+    if stratum.points is not None:
+        return any(all(sympy.simplify(p[k] - point[k]) == 0 for k in p) for p in stratum.points)
+    return all(sympy.simplify(e.subs(point)) == 0 for e in stratum.equations)
+
+
+@settings(max_examples=20, deadline=None)
+@given(st.lists(linear, min_size=4, max_size=4))
+def test_random_two_parameter_families_lose_no_real_point(entries):
+    # Reference: fix a = a0, solve det C(a0, b) = 0 for real b with sympy; each such point has
+    # rank <= 1 and must lie on a returned stratum of its rank (its equations vanish there).
+    matrix = sympy.Matrix(2, 2, entries)
+    det = sympy.expand(matrix.det())
+    if matrix.is_zero_matrix or det == 0:
+        return
+    psi = ketsplit.ket(state_text(matrix), real="a b", dims=(2, 2))
+    found = strata(psi, "1|2")
+    for a0 in (-1, 0, 1, 2):
+        line = sympy.expand(det.subs(A, a0))
+        if line == 0 or not line.has(B):
+            continue
+        for b0 in sympy.Poly(line, B).real_roots():
+            point = {A: sympy.Integer(a0), B: b0}
+            rank = matrix.subs(point).rank(simplify=True)
+            assert any(s.rank == rank and on_stratum(s, point) for s in found[1:]), (point, rank)
