@@ -18,6 +18,7 @@ import sympy
 
 from .cuts import Cut, reduced, side_dimension
 from .decomposition import Decomposition, schmidt
+from .exact.signs import box_of, drop_abs
 from .language.errors import InputError
 from .states import State, simplify_real
 
@@ -56,72 +57,17 @@ class Spectrum:
             return self.reduced_purity
         return tidy(_purity(self.squared))
 
+    box: tuple[tuple[sympy.Symbol, tuple[sympy.Expr, sympy.Expr]], ...] = ()  # declared ranges
+
     @classmethod
     def of(cls, decomposition: Decomposition) -> "Spectrum":
         purity = trace_of_square(decomposition) if decomposition.rank > 2 else None
-        ranges = declared_ranges(decomposition.state)
-        coefficients = tuple(tidy(without_abs(c, ranges)) if ranges else c
-                             for c in decomposition.coefficients)
-        return cls(coefficients, tuple(decomposition.squared), purity)
+        return cls(tuple(decomposition.coefficients), tuple(decomposition.squared), purity,
+                   tuple(box_of(decomposition.state).items()))
 
-
-# -- signs on declared ranges ----------------------------------------------------
-CONTINUOUS = (sympy.sin, sympy.cos, sympy.exp, sympy.sinh, sympy.cosh)
-MAX_SIGN_OPS = 30  # solveset is tried on short factors only: it can run long on big ones
-Range = tuple[sympy.Symbol, sympy.Expr, sympy.Expr]
-
-
-def declared_ranges(state: State) -> tuple[Range, ...]:
-    return tuple((p.symbol, p.range[0], p.range[1]) for p in state.params
-                 if p.is_real and p.range is not None)
-
-
-def without_abs(expr: sympy.Expr, ranges: Sequence[Range]) -> sympy.Expr:
-    """|f(t)| written as f(t) or -f(t) where f keeps one sign on t's declared range."""
-    bounds = {symbol: (lo, hi) for symbol, lo, hi in ranges}
-
-    def rewrite(node: sympy.Abs) -> sympy.Expr:
-        inside = node.args[0]
-        symbols = inside.free_symbols
-        if len(symbols) != 1 or next(iter(symbols)) not in bounds:
-            return node
-        t = next(iter(symbols))
-        found = sign_on_range(inside, t, *bounds[t])
-        return node if found is None else found * inside
-    return expr.replace(lambda e: isinstance(e, sympy.Abs), rewrite)
-
-
-def sign_on_range(f: sympy.Expr, t: sympy.Symbol, lo: sympy.Expr, hi: sympy.Expr) -> int | None:
-    """+1 or -1 when the continuous real f(t) has that sign (or is zero) all over [lo, hi].
-
-    f is built from polynomials, sin, cos, exp, sinh and cosh, so it is
-    continuous; its zeros in the range come from solveset as a finite set,
-    and the sign between two consecutive zeros is the sign at the midpoint,
-    proved by an enclosure.  None when any step is out of reach.
-    """
-    from .numeric.enclose import enclose_real
-    if not f.is_real or sympy.count_ops(f) > MAX_SIGN_OPS or not _continuous(f, t):
-        return None
-    zeros = sympy.solveset(f, t, sympy.Interval(lo, hi))
-    if not isinstance(zeros, sympy.FiniteSet):
-        return None
-    points = sorted({lo, hi, *zeros}, key=lambda x: sympy.N(x, 50))
-    signs = set()
-    for a, b in zip(points, points[1:]):
-        ball = enclose_real(f.subs(t, (a + b) / 2), 128)
-        if ball.contains(0):
-            return None
-        signs.add(1 if ball > 0 else -1)
-    return signs.pop() if len(signs) == 1 else None
-
-
-def _continuous(f: sympy.Expr, t: sympy.Symbol) -> bool:
-    for node in sympy.preorder_traversal(f):
-        if isinstance(node, sympy.Function) and node.has(t) and not isinstance(node, CONTINUOUS):
-            return False
-        if node.is_Pow and node.base.has(t) and not (node.exp.is_Integer and node.exp >= 0):
-            return False
-    return True
+    def on_ranges(self, expr: sympy.Expr) -> sympy.Expr:
+        """|f| written f or -f where the declared ranges fix the sign of f."""
+        return tidy(drop_abs(expr, dict(self.box))) if self.box and expr.has(sympy.Abs) else expr
 
 
 MAX_PURITY_SIDE = 16  # reduced states up to 16 x 16 give tr rho^2 directly
@@ -243,7 +189,7 @@ def spectrum_figures(spectrum: Spectrum, unit: str = "bits",
     unknown = [n for n in names if n not in FORMULAS]
     if unknown:
         raise unknown_figure(unknown[0])
-    return {name: tidy(FORMULAS[name](spectrum, base)) for name in names}
+    return {name: spectrum.on_ranges(tidy(FORMULAS[name](spectrum, base))) for name in names}
 
 
 def unknown_figure(name: str) -> InputError:
@@ -275,10 +221,12 @@ def renyi_of(spectrum: Spectrum, alpha: sympy.Expr, unit: str = "bits") -> sympy
     if not (alpha.is_real and alpha.is_nonnegative) and alpha is not sympy.oo:
         raise InputError(f"the Renyi order must be a real number >= 0 (or oo), found {alpha}")
     if alpha == 1:
-        return _entropy(spectrum.squared, base)
-    if alpha is sympy.oo:
-        return tidy(-_log(_largest(spectrum.squared)) / base)
-    return tidy(_log(sympy.Add(*(p ** alpha for p in spectrum.squared))) / ((1 - alpha) * base))
+        value = _entropy(spectrum.squared, base)
+    elif alpha is sympy.oo:
+        value = -_log(_largest(spectrum.squared)) / base
+    else:
+        value = _log(sympy.Add(*(p ** alpha for p in spectrum.squared))) / ((1 - alpha) * base)
+    return spectrum.on_ranges(tidy(value))
 
 
 def renyi(state: State, cut: Cut | str | None, alpha, unit: str = "bits") -> sympy.Expr:
