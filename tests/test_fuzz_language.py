@@ -250,6 +250,9 @@ ONCE_CRASHED = [
     ("", "+".join(["x"] * 2000)),
     ("real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>", "schmidt psi with t=i"),  # TypeError
     ("", "save \x00"),                     # ValueError: embedded null byte, in write_atomic
+    ("", "open \x00"),                     # ValueError from Path.stat, in sheets/format.py
+    ("", "open /"), ("", "save ."),         # ValueError from Path.with_suffix, in commands/sheets.py
+    ("", "save ~nosuchuser/x"),             # RuntimeError from expanduser, in commands/sheets.py
 ]
 
 
@@ -263,14 +266,6 @@ def test_inputs_that_once_crashed(prelude, text):
 STILL_CRASHING = [
     pytest.param("budget ²", marks=pytest.mark.xfail(
         strict=True, reason="commands/numeric.py: str.isdigit() accepts '²', float() does not")),
-    pytest.param("open \x00", marks=pytest.mark.xfail(
-        strict=True, reason="sheets/format.py: Path.stat() raises ValueError on a NUL byte")),
-    pytest.param("open /", marks=pytest.mark.xfail(
-        strict=True, reason="commands/sheets.py: Path('/').with_suffix raises ValueError")),
-    pytest.param("save .", marks=pytest.mark.xfail(
-        strict=True, reason="commands/sheets.py: Path('.').with_suffix raises ValueError")),
-    pytest.param("save ~nosuchuser/x", marks=pytest.mark.xfail(
-        strict=True, reason="commands/sheets.py: expanduser raises RuntimeError")),
     pytest.param("plot entropy psi 1|2 over t --to " + "x" * 300 + ".svg", marks=pytest.mark.xfail(
         strict=True, reason="plots.py: its own atomic writer lets OSError (name too long) out")),
 ]

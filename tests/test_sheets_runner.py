@@ -180,6 +180,20 @@ def test_open_of_a_damaged_file_loads_what_it_can_and_names_the_line(tmp_path):
     assert any("cut short" in note for note in report.report.notes)
 
 
+@pytest.mark.parametrize("name, message", [
+    (".", "is a directory"), ("..", "is a directory"), ("/", "is a directory"),
+    ("{tmp}/", "is a directory"), ("{tmp}", "is a directory"),
+    ("~nosuchuser-ketsplit/x", "home directory"), ("a\x00b", "NUL"),
+])
+@pytest.mark.parametrize("action", ["save", "open"])
+def test_a_name_that_is_not_a_file_is_an_input_error(tmp_path, action, name, message):
+    session = Session()
+    session.run("psi = |00> + |11>")
+    with pytest.raises(InputError, match=message):
+        session.run(f"{action} {name.format(tmp=tmp_path)}")
+    assert "psi" in session.bindings and list(tmp_path.iterdir()) == []
+
+
 def test_open_adds_the_worksheet_extension(tmp_path, monkeypatch):
     monkeypatch.chdir(tmp_path)
     saved(tmp_path, name="plain.kss")

@@ -20,8 +20,17 @@ def sheet_path(call: CommandCall) -> Path:
         text = text[1:-1]
     if not text:
         raise call.error(f"{call.name}: name the worksheet file, as in '{call.name} notes{EXTENSION}'")
-    path = Path(text).expanduser()
-    return path if path.suffix else path.with_suffix(EXTENSION)
+    if "\0" in text:
+        raise call.error(f"{call.name}: a file name cannot hold a NUL character", *argument_place(call))
+    try:
+        path = Path(text).expanduser()
+    except RuntimeError:  # ~user for a user that does not exist
+        raise call.error(f"{call.name}: cannot find the home directory in {text!r}",
+                         *argument_place(call)) from None
+    if text.endswith(("/", "\\")) or path.name in ("", ".", "..") or path.is_dir():
+        raise call.error(f"{call.name}: {text} is a directory; name a file in it, as in "
+                         f"'{call.name} {path / ('notes' + EXTENSION)}'", *argument_place(call))
+    return path if path.suffix else path.with_name(path.name + EXTENSION)
 
 
 def argument_place(call: CommandCall) -> tuple[int, int]:

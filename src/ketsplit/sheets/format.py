@@ -127,6 +127,8 @@ def read_sheet(path: str | Path) -> Sheet:
         data = Path(path).read_bytes()
     except OSError as err:
         raise SheetError(f"cannot read {path}: {err.strerror or err}") from None
+    except ValueError:  # a NUL byte in the name
+        raise SheetError(f"cannot read {path!r}: a file name cannot hold a NUL character") from None
     return parse_sheet(data, str(path))
 
 
