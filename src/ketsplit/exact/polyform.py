@@ -61,6 +61,10 @@ class Coordinate:
     variables: tuple[sympy.Symbol, ...]    # (t,), (c, s), (e,), (x,) or (y,)
     scale: sympy.Rational = sympy.Integer(1)  # theta = scale * t for angles and growths
 
+    def __post_init__(self) -> None:
+        if self.kind not in KINDS or len(self.variables) != (2 if self.kind == "angle" else 1):
+            raise ValueError(f"a coordinate of kind {self.kind!r} with {len(self.variables)} variables")
+
     @property
     def period(self) -> sympy.Expr | None:
         """The period of an angle parameter (2 pi / scale), else None."""
