@@ -11,6 +11,12 @@ def run(text: str):
     return Session().run(text)[-1]
 
 
+def error_of(text: str) -> InputError:
+    with pytest.raises(InputError) as err:
+        Session().run(text)
+    return err.value
+
+
 def test_table_lists_rank_points_and_samples():
     # cos t|00> + sin t|11> on [0, pi]: rank 1 at t = 0, pi/2, pi (fact of the trade)
     result = run("real t in [0, pi]\nstrata cos(t)|00> + sin(t)|11> 1|2")
@@ -45,12 +51,22 @@ def test_no_parameters():
 
 
 def test_missing_cut_names_line_and_column():
-    with pytest.raises(InputError) as err:
-        Session().run("real t\nstrata cos(t)|000> + sin(t)|111>")
-    assert err.value.line == 2 and err.value.column > 1
+    err = error_of("real t\nstrata cos(t)|000> + sin(t)|111>")
+    assert err.line == 2 and err.column > 1
 
 
 def test_with_point_fixes_a_parameter():
     # at p = 0 the family cos t|00> + sin t cos p|11> is cos t|00> + sin t|11>
     out = run("real t, p in [0, pi]\nstrata cos(t)|00> + sin(t) cos(p)|11> with p=0").text()
     assert "t = 0; t = pi/2; t = pi" in out
+
+
+def test_a_with_point_that_leaves_transcendental_numbers():
+    # at t = 1: C = diag(cos 1, sin 1), both nonzero (cos 1 ~ 0.54, sin 1 ~ 0.84): rank 2
+    out = run("real t in [0, pi]\nstrata cos(t)|00> + sin(t)|11> with t=1").text()
+    assert "its rank is 2" in out
+
+
+def test_no_polynomial_form_points_at_the_state():
+    err = error_of("real t\nstrata |00> + t cos(t)|11>")
+    assert (err.line, err.column) == (2, 8) and "no polynomial form" in err.message

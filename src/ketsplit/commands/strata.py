@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import sympy
 
+from ..language.errors import InputError
 from ..render.ketprint import text
 from ..render.report import Note, Report, Table
 from ..numeric.values import exact_cell
@@ -19,7 +20,13 @@ from .registry import CommandCall, command
 def run_strata(call: CommandCall) -> Report:
     state, cut = call.state_and_cut()
     digits = call.session.settings.digits
-    found = strata(state, cut, budget=call.session.settings.strata_budget)
+    try:
+        found = strata(state, cut, budget=call.session.settings.strata_budget)
+    except InputError as err:
+        if err.span is not None:
+            raise
+        subject = _subject(call)
+        raise call.error(err.message, call.offset + call.args.index(subject), len(subject)) from None
     rows = tuple((s.rank, where(s, digits), point_cell(s.sample, digits)) for s in found)
     items = [Table(("rank", "where", "sample point"), rows)]
     notes = list(found.notes) + unused_ranges(call, state)

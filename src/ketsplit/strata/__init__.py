@@ -11,6 +11,7 @@ from __future__ import annotations
 from ..cuts import CoefficientMatrix, Cut, parse_cut
 from ..exact.polyform import NoPolynomialForm, compare
 from ..language.errors import InputError
+from ..numeric.strategy import exact_or_certified
 from ..states import State
 from .budget import Budget
 from .family import Family, exact_rank
@@ -27,7 +28,7 @@ def strata(state: State, cut: Cut | str | None = None, *, budget: float = DEFAUL
     check_ranges(state)
     state, notes = fix_point_ranges(state)
     if not state.symbols:
-        found = constant_strata(state, cut)
+        found = constant_strata(state, cut, budget)
         return Strata(found, notes + found.notes)
     try:
         family = Family.of(state, cut)
@@ -58,9 +59,16 @@ def fix_point_ranges(state: State) -> tuple[State, tuple[str, ...]]:
     return state.subs(fixed), notes
 
 
-def constant_strata(state: State, cut: Cut) -> Strata:
+def constant_strata(state: State, cut: Cut, budget: float) -> Strata:
+    """One stratum: the rank of a state without parameters."""
     matrix = CoefficientMatrix(state, cut)
-    rank = exact_rank(list(matrix.to_Matrix()), matrix.shape)
+    try:
+        rank = exact_rank(list(matrix.to_Matrix()), matrix.shape)
+    except ArithmeticError:  # transcendental numbers such as cos(1): the rank statement's path
+        outcome = exact_or_certified(state, cut, budget, digits=30)
+        rank = outcome.exact.rank if outcome.exact is not None else outcome.certified.rank
+        if rank is None:
+            raise InputError("the rank of this state is undecided at the precision tried") from None
     stratum = Stratum(rank, (), [{}], {}, f"the state has no parameters: its rank is {rank}")
     return Strata([stratum], ("the state has no parameters, so there are no strata",))
 
