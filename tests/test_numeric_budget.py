@@ -29,16 +29,23 @@ def test_budget_does_not_fire_when_the_work_ends_in_time():
 
 
 def test_schmidt_over_budget_falls_back_and_says_why():
-    # a 4x4 tridiagonal integer state whose exact path takes far longer than 0.3 s here;
-    # reference library: mpmath.svd_r of the same matrix, normalised
+    # an 8x8 bidiagonal integer state whose exact path (a degree-8 characteristic polynomial and
+    # its CRootOf vectors) takes many seconds here; reference library: mpmath.svd_r of the same
+    # matrix, normalised
+    diagonal = [1, 2, 3, 5, 7, 11, 13, 17]
+    terms = [f"{d}|{k},{k}>" for k, d in enumerate(diagonal)] + [f"|{k},{k + 1}>" for k in range(7)]
     session = Session()
-    results = session.run("budget 0.3\nschmidt |00> + |01> + 2|11> + |12> + 3|22> + |23> + 5|33>")
+    results = session.run("budget 0.3\nschmidt " + " + ".join(terms))
     out = results[1].text()
     assert "within the budget of 0.3 s" in out and "certified numeric" in out
     with mpmath.workdps(50):
-        m = mpmath.matrix([[1, 1, 0, 0], [0, 2, 1, 0], [0, 0, 3, 1], [0, 0, 0, 5]])
+        m = mpmath.matrix(8, 8)
+        for k, d in enumerate(diagonal):
+            m[k, k] = d
+            if k < 7:
+                m[k, k + 1] = 1
         values = mpmath.svd_r(m, compute_uv=False)
-        largest = max(values) / mpmath.sqrt(42)
+        largest = max(values) / mpmath.sqrt(sum(d * d for d in diagonal) + 7)
         assert mpmath.nstr(largest, 30, strip_zeros=False) in out
 
 

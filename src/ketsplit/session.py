@@ -230,7 +230,8 @@ def kind_of_symbol(symbol: sympy.Symbol) -> str:
 
 def relocate(err: InputError, statement: str, line: int) -> InputError:
     """Place an error raised on a lone statement at its line in the whole input."""
-    span = err.span or Span(1, 1, max(1, len(statement)))
+    indent = len(statement) - len(statement.lstrip())
+    span = err.span or Span(1, indent + 1, max(1, len(statement.strip())))
     return err.located(Span(line, span.column, span.length), statement)
 
 

@@ -18,6 +18,7 @@ from .language.errors import InputError
 from .render.ketprint import text as language_text
 
 KINDS = ("real", "positive", "complex", "integer")
+MAX_SIMPLIFY_OPS = 100
 
 
 @dataclass(frozen=True)
@@ -184,7 +185,13 @@ def abs_squared(value: sympy.Expr) -> sympy.Expr:
 
 
 def simplify_real(expr: sympy.Expr) -> sympy.Expr:
-    """Simplify a quantity known to be real (norms, traces, eigenvalues)."""
+    """Simplify a quantity known to be real (norms, traces, eigenvalues).
+
+    Closed forms of more than a hundred operations are left as built: sympy's
+    heuristic ``simplify`` can run for minutes on them and rarely shortens them.
+    """
+    if expr.has(sympy.acos, sympy.CRootOf) or sympy.count_ops(expr) > MAX_SIMPLIFY_OPS:
+        return expr
     if not expr.free_symbols:
         return sympy.nsimplify(expr) if expr.is_Float else sympy.radsimp(sympy.expand(expr))
     result = sympy.simplify(expr)

@@ -13,7 +13,10 @@ from __future__ import annotations
 import sympy
 from sympy.polys.matrices import DomainMatrix
 
+from .tidy import is_zero, tidy
+
 LAMBDA = sympy.Dummy("lambda")
+MAX_SYMBOLIC_CUBIC_OPS = 30  # larger cubic coefficients give unreadable (and slow) Viete forms
 
 
 class NoClosedForm(Exception):
@@ -32,19 +35,23 @@ def characteristic_polynomial(rho: sympy.Matrix) -> sympy.Poly:
             pass
         coeffs = dm.charpoly()
         return sympy.Poly([dm.domain.to_sympy(c) for c in coeffs], LAMBDA)
-    return sympy.Poly(rho.charpoly(LAMBDA).as_expr(), LAMBDA)
+    return sympy.Poly(rho.charpoly().as_expr(LAMBDA), LAMBDA)  # charpoly renames a Dummy
 
 
 def eigenvalues(rho: sympy.Matrix) -> list[tuple[sympy.Expr, int]]:
     """(eigenvalue, multiplicity) pairs of a Hermitian matrix, exactly."""
     poly = characteristic_polynomial(rho)
     extension = _extension_of(poly)
-    factored = sympy.factor_list(poly.as_expr(), LAMBDA, extension=extension) if extension else \
-        sympy.factor_list(poly.as_expr(), LAMBDA)
+    # factor over every symbol: with LAMBDA alone as generator, sympy can return a
+    # symbolic polynomial whole as the "content" and no factors at all
+    factored = sympy.factor_list(poly.as_expr(), extension=extension) if extension else \
+        sympy.factor_list(poly.as_expr())
     found: list[tuple[sympy.Expr, int]] = []
     for factor, power in factored[1]:
-        for root in solve_factor(sympy.Poly(factor, LAMBDA)):
-            found.append((root, power))
+        if factor.has(LAMBDA):
+            found.extend((root, power) for root in solve_factor(sympy.Poly(factor, LAMBDA)))
+    if sum(power for _, power in found) != poly.degree():
+        raise NoClosedForm(f"the characteristic polynomial {poly.as_expr()} did not factor completely")
     # distinct irreducible factors over a field share no root; only a symbolic
     # factorisation (which may be incomplete) can repeat an eigenvalue
     return merge_equal(found) if poly.free_symbols - {LAMBDA} else found
@@ -60,15 +67,18 @@ def solve_factor(factor: sympy.Poly) -> list[sympy.Expr]:
     degree = factor.degree()
     if degree <= 0:
         return []
-    coeffs = [sympy.simplify(c) for c in factor.all_coeffs()]
+    coeffs = [tidy(c) for c in factor.all_coeffs()]
     if degree == 1:
-        return [sympy.simplify(-coeffs[1] / coeffs[0])]
+        return [tidy(-coeffs[1] / coeffs[0])]
     if degree == 2:
         a, b, c = coeffs
-        disc = sympy.simplify(b * b - 4 * a * c)
+        disc = tidy(b * b - 4 * a * c)
         root = sympy.sqrt(disc)
-        return [sympy.simplify((-b + root) / (2 * a)), sympy.simplify((-b - root) / (2 * a))]
+        return [tidy((-b + root) / (2 * a)), tidy((-b - root) / (2 * a))]
     if degree == 3:
+        if sum(sympy.count_ops(c) for c in coeffs) > MAX_SYMBOLIC_CUBIC_OPS:
+            raise NoClosedForm("an irreducible symbolic cubic this large has no readable closed "
+                               "form; substitute parameter values (with t=...) for certified numbers")
         return viete_roots(*coeffs)
     if all(c.is_Rational for c in coeffs):
         return list(sympy.Poly(factor.as_expr(), LAMBDA).all_roots())
@@ -81,11 +91,11 @@ def viete_roots(a, b, c, d) -> list[sympy.Expr]:
     With x = y - b/(3a) the cubic becomes y^3 + p y + q = 0 (p <= 0 when all
     roots are real) and y_k = 2 sqrt(-p/3) cos(arccos(3q/(2p) sqrt(-3/p))/3 - 2 pi k/3).
     """
-    p = sympy.simplify((3 * a * c - b * b) / (3 * a * a))
-    q = sympy.simplify((2 * b ** 3 - 9 * a * b * c + 27 * a * a * d) / (27 * a ** 3))
+    p = tidy((3 * a * c - b * b) / (3 * a * a))
+    q = tidy((2 * b ** 3 - 9 * a * b * c + 27 * a * a * d) / (27 * a ** 3))
     shift = -b / (3 * a)
     if p == 0:
-        return [sympy.simplify(shift + sympy.real_root(-q, 3))] * 3 if q != 0 else [shift] * 3
+        return [tidy(shift + sympy.real_root(-q, 3))] * 3 if q != 0 else [shift] * 3
     amplitude = 2 * sympy.sqrt(-p / 3)
     angle = sympy.acos(sympy.radsimp(3 * q / (2 * p) * sympy.sqrt(-3 / p))) / 3
     return [shift + amplitude * sympy.cos(angle - 2 * sympy.pi * k / 3) for k in range(3)]
@@ -96,7 +106,7 @@ def merge_equal(pairs: list[tuple[sympy.Expr, int]]) -> list[tuple[sympy.Expr, i
     merged: list[list] = []
     for value, count in pairs:
         for entry in merged:
-            if sympy.simplify(entry[0] - value) == 0:
+            if is_zero(entry[0] - value):
                 entry[1] += count
                 break
         else:

@@ -29,6 +29,7 @@ import sympy
 from ..cuts import CoefficientMatrix, Cut
 from ..states import State, abs_squared, simplify_real
 from .eigen import eigenvalues
+from .tidy import is_zero, tidy
 from .pointeval import evaluate_at
 
 Vector = sympy.Matrix
@@ -110,26 +111,6 @@ def hermitian_product(block: sympy.Matrix) -> sympy.Matrix:
             rho[i, j] = value
             rho[j, i] = sympy.conjugate(value)
     return rho
-
-
-def tidy(value: sympy.Expr) -> sympy.Expr:
-    """A cheap simplification: full ``simplify`` only for small expressions.
-
-    Large symbolic expressions are left as built (expanding them only makes
-    them longer), so that a generic symbolic state does not spend minutes in
-    heuristic simplification.
-    """
-    if value.has(sympy.acos, sympy.CRootOf):
-        return value  # Viete and CRootOf forms: simplify only rewrites them at great cost
-    if sympy.count_ops(value) <= 40:
-        return sympy.simplify(value)
-    return value if value.free_symbols else sympy.radsimp(value)
-
-
-def is_zero(value: sympy.Expr) -> bool:
-    if value.is_zero is not None:
-        return bool(value.is_zero)
-    return sympy.simplify(value) == 0
 
 
 def is_rank_one(block: sympy.Matrix) -> bool:

@@ -148,6 +148,8 @@ class Builder:
         if label in self.bound:
             if self.bound[label] < 0:
                 self.fail(f"ket label {label} = {self.bound[label]} is negative", node)
+            self._limit(self.bound[label] + 1, "part_dimension",
+                        f"ket label {label} = {self.bound[label]}", node)
             return {self.bound[label]: sympy.Integer(1)}
         self.fail(f"ket label {label!r} is not a level: use digits, '+', '-', or a summation "
                   "variable of an enclosing sum(...)", node)
