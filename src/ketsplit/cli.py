@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from pathlib import Path
 
@@ -55,6 +56,9 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("cancelled", file=sys.stderr)
         return 130
+    except BrokenPipeError:  # the reader went away (ketsplit ... | head): stop quietly
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
     except Exception as err:  # a bug in the engine: say so in one line
         print(f"internal error ({type(err).__name__}: {err}); please report it", file=sys.stderr)
         return 3

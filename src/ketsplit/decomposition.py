@@ -57,13 +57,13 @@ class Decomposition:
 
     def schmidt_form(self) -> str:
         """The state rewritten in Schmidt form, in state-language syntax."""
-        from .render.ketprint import terms_text, text
+        from .render.ketprint import terms_text
         pieces = []
         for sigma, u, w in zip(self.coefficients, self.left, self.right):
             left = terms_text((a, f"|{l}>") for a, l in self.vector_terms(u, "left"))
             right = terms_text((a, f"|{l}>") for a, l in self.vector_terms(w, "right"))
-            pieces.append(f"{text(sigma)} ({left})({right})")
-        return " + ".join(pieces)
+            pieces.append((sigma, f"({left})({right})"))
+        return terms_text(pieces)
 
     def numeric(self, digits: int = 30, at=None) -> list[mpmath.mpf]:
         """Certified Schmidt coefficients, descending, at the point ``at`` ({"t": value}).
@@ -102,7 +102,7 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     pieces, _ = schmidt_pieces(state, cut)
     if normal is not state:  # decompose as typed, then scale: keeps symbolic forms short
         scale = 1 / sympy.sqrt(state.norm_squared())
-        pieces = [(tidy(sigma * scale), u, w) for sigma, u, w in pieces]
+        pieces = [(scaled(sigma, scale), u, w) for sigma, u, w in pieces]
     box = box_of(state)
     if box:  # the declared ranges prove signs: |cos t| is cos t on [0, pi/2]
         pieces = [(drop_abs(sigma, box), u.applyfunc(lambda v: drop_abs(v, box)),
@@ -117,6 +117,12 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
                                   [p[2] for p in pieces], True, ordered, tuple(notes))
     verify_rebuild(decomposition)
     return decomposition
+
+
+def scaled(sigma: sympy.Expr, scale: sympy.Expr) -> sympy.Expr:
+    """sigma * scale in a readable form: expanded radicals for numbers, tidied otherwise."""
+    product = sigma * scale
+    return sympy.expand(sympy.radsimp(product)) if not product.free_symbols else tidy(product)
 
 
 def order_pieces(pieces, box=None):

@@ -144,8 +144,8 @@ def rank_one_piece(block: sympy.Matrix) -> Piece:
 def simplify_sigma(eigenvalue: sympy.Expr) -> sympy.Expr:
     """sqrt of a nonnegative eigenvalue, denested and simplified."""
     sigma = sympy.sqrt(eigenvalue)
-    if not sigma.free_symbols:
-        sigma = sympy.sqrtdenest(sympy.radsimp(sigma))
+    if not sigma.free_symbols:  # denesting is what numbers need; simplify adds nothing but time
+        return sympy.expand(sympy.sqrtdenest(sympy.radsimp(sigma)))
     simplified = tidy(sigma)
     return simplified if sympy.count_ops(simplified) <= sympy.count_ops(sigma) else sigma
 

@@ -30,9 +30,12 @@ Two rigorous methods, the fast one first:
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
-import numpy
 from flint import acb, acb_mat, arb, ctx
+
+if TYPE_CHECKING:
+    import numpy
 
 REFINE_STEPS_MAX = 12
 FLOAT_BITS = 48   # what float64 eigenvectors are good for, roughly
@@ -41,6 +44,7 @@ GUARD_BITS = 32
 
 def to_numpy(matrix: acb_mat) -> numpy.ndarray:
     """Midpoints as complex128 (an approximation, only used to start the refinement)."""
+    import numpy  # imported on first use: it costs a tenth of a second at start-up
     rows = matrix.nrows()
     return numpy.array([[complex(matrix[i, j].mid()) for j in range(matrix.ncols())]
                         for i in range(rows)], dtype=complex)
@@ -116,6 +120,7 @@ def refined_vectors(a: acb_mat, bits: int) -> acb_mat | None:
     ``REFINE_STEPS_MAX`` steps in all).  The early steps run at the
     precision their accuracy needs (twice the last one), not at ``bits``.
     """
+    import numpy
     start = to_numpy(a)
     if not numpy.all(numpy.isfinite(start)) or not numpy.any(start):
         return None
