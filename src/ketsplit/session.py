@@ -133,6 +133,8 @@ class Session:
             try:
                 for statement, _ in split_statements(source):
                     done.append(self.execute(statement, number))
+            except InputError as err:  # show the whole line under the caret, not the lone statement
+                raise err.located(source=source) from None
             finally:
                 self.running = None
                 self.transcript.extend(transcribe(source, done, before))
