@@ -253,28 +253,15 @@ ONCE_CRASHED = [
     ("", "open \x00"),                     # ValueError from Path.stat, in sheets/format.py
     ("", "open /"), ("", "save ."),         # ValueError from Path.with_suffix, in commands/sheets.py
     ("", "save ~nosuchuser/x"),             # RuntimeError from expanduser, in commands/sheets.py
+    ("", "budget ²"),                       # str.isdigit() accepts '²', float() does not
+    ("real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>",
+     "plot entropy psi 1|2 over t --to " + "x" * 300 + ".svg"),  # OSError: file name too long
 ]
 
 
 @pytest.mark.parametrize("prelude, text", ONCE_CRASHED, ids=lambda s: s[:30])
 def test_inputs_that_once_crashed(prelude, text):
     outcome(text, prelude)
-
-
-# Crashes the fuzzer found in other areas, not fixed yet.  Strict: once the fix lands the case
-# passes, the mark fails the run, and the case moves up to ONCE_CRASHED.
-STILL_CRASHING = [
-    pytest.param("budget ²", marks=pytest.mark.xfail(
-        strict=True, reason="commands/numeric.py: str.isdigit() accepts '²', float() does not")),
-    pytest.param("plot entropy psi 1|2 over t --to " + "x" * 300 + ".svg", marks=pytest.mark.xfail(
-        strict=True, reason="plots.py: its own atomic writer lets OSError (name too long) out")),
-]
-
-
-@pytest.mark.parametrize("text", STILL_CRASHING, ids=lambda s: s[:20])
-def test_inputs_that_still_crash_elsewhere(text):
-    with limits.limits_set(seconds=120):  # the crash must be reached, however loaded the machine
-        outcome(text, "real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>")
 
 
 def test_a_flat_sum_of_thousands_of_kets_is_a_state():

@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import math
 import os
-import tempfile
 from dataclasses import dataclass
 from typing import Mapping, Sequence
 from xml.sax.saxutils import escape
@@ -21,6 +20,7 @@ from flint import acb, arb, fmpq
 
 from .figures import without_extrema
 from .language.errors import InputError
+from .sheets.atomic import write_atomic
 from .numeric.enclose import Encloser
 from .render.ketprint import text as expr_text
 
@@ -256,20 +256,8 @@ def write_chart(chart: Chart, path: str) -> str:
     if extension == ".png":
         _write_png(chart, path)
     else:
-        _write_atomically(path, svg_text(chart))
+        write_atomic(path, svg_text(chart))
     return os.path.abspath(path)
-
-
-def _write_atomically(path: str, content: str) -> None:
-    folder = os.path.dirname(os.path.abspath(path))
-    handle, temporary = tempfile.mkstemp(dir=folder, suffix=".part")
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8") as out:
-            out.write(content)
-        os.replace(temporary, path)
-    except BaseException:
-        os.unlink(temporary)
-        raise
 
 
 def _write_png(chart: Chart, path: str) -> None:

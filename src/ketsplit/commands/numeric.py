@@ -47,7 +47,8 @@ def run_numeric(call: CommandCall) -> Report:
 def run_budget(call: CommandCall) -> Report:
     text = call.args.strip()
     column = call.offset + len(call.args) - len(call.args.lstrip())
-    seconds = float(text) if text.replace(".", "", 1).isdigit() else None
+    plain = text.replace(".", "", 1)
+    seconds = float(text) if plain.isascii() and plain.isdigit() else None
     if seconds is None or not 0 <= seconds <= MAX_BUDGET:
         raise call.error(f"budget: expected seconds from 0 to {MAX_BUDGET:g}, found {text!r}",
                          column, len(text) or 1)

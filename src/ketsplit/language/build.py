@@ -107,8 +107,7 @@ class Builder:
         self._limit(len(node.labels), "parts", f"a ket of {len(node.labels)} parts", node)
         dims = self.scope.space_dims()
         if dims is not None and len(dims) != len(node.labels):
-            self.fail(f"this ket has {len(node.labels)} part(s) but the declared space has "
-                      f"{len(dims)}", node)
+            dims = None  # a factor of a product such as |0>|1>: the whole ket is checked later
         if all(label.isascii() and label.isdigit() and len(label) < 20 for label in node.labels):
             return self._basis_ket(node, dims)
         factors: list[dict[int, sympy.Expr]] = []

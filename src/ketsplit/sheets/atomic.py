@@ -27,7 +27,7 @@ class WriteError(InputError, OSError):
     """The file could not be written; the target, if it existed, is unchanged."""
 
     def __init__(self, path: Path, reason: str, code: int | None = None):
-        outcome = "the file was left as it was" if path.exists() else "nothing was written"
+        outcome = "the file was left as it was" if exists(path) else "nothing was written"
         super().__init__(f"cannot write {path}: {reason}; {outcome}")
         self.errno, self.strerror, self.filename = code, reason, str(path)
 
@@ -61,10 +61,23 @@ def refuse_read_only(target: Path) -> None:
     """A file marked read-only is not replaced, although its directory would allow it."""
     if "\x00" in str(target):  # the system cannot even be asked about such a name
         raise WriteError(target, "a file name cannot contain a NUL character", errno.EINVAL)
-    if target.is_dir():
-        raise WriteError(target, "it is a directory", errno.EISDIR)
-    if target.exists() and (not os.access(target, os.W_OK) or not target.stat().st_mode & 0o222):
-        raise WriteError(target, "the file is read-only", errno.EACCES)
+    try:
+        if target.is_dir():
+            raise WriteError(target, "it is a directory", errno.EISDIR)
+        if target.exists() and (not os.access(target, os.W_OK) or not target.stat().st_mode & 0o222):
+            raise WriteError(target, "the file is read-only", errno.EACCES)
+    except WriteError:
+        raise
+    except OSError as err:  # a name too long for the system, a loop of links, ...
+        raise WriteError(target, err.strerror or str(err), err.errno) from None
+
+
+def exists(path: Path) -> bool:
+    """Whether ``path`` exists; False when the system cannot even look it up."""
+    try:
+        return path.exists()
+    except OSError:
+        return False
 
 
 def reason(err: OSError, target: Path) -> str:
