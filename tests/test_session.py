@@ -86,3 +86,12 @@ def test_cli_success_and_input_error_exit_codes():
     bad = run_cli("-c", "schmidt (|00> + |11>")
     assert bad.returncode == 2
     assert "line 1, column" in bad.stderr and "Traceback" not in bad.stderr
+
+
+def test_a_product_ket_is_checked_against_the_space_as_a_whole():
+    # |0>|2> is one two-part ket: each factor alone has one part
+    assert ketsplit.ket("|0>|2>", dims=(3, 3)).dims == (3, 3)
+    with pytest.raises(InputError, match="outside its declared dimension 3"):
+        ketsplit.ket("|0>|3>", dims=(3, 3))
+    with pytest.raises(InputError, match="declared space has 2"):
+        ketsplit.ket("|0>", dims=(3, 3))

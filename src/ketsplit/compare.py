@@ -26,6 +26,7 @@ from .cuts import Cut, parse_cut, side_dimension
 from .decomposition import schmidt
 from .figures import tidy, without_extrema
 from .language.errors import InputError
+from .exact.tidy import algebraic_zero
 from .numeric.enclose import enclose
 from .states import State
 
@@ -50,19 +51,11 @@ def sign(expr: sympy.Expr) -> int:
             return 1
         if ball.real < 0:
             return -1
-        if bits == START_BITS and _algebraic_zero(expr):
+        if bits == START_BITS and algebraic_zero(expr):
             return 0
         bits *= 4
     raise InputError(f"cannot decide the comparison exactly: the sign of {sympy.sstr(expr)} "
                      f"is not settled at {MAX_BITS} bits")
-
-
-def _algebraic_zero(expr: sympy.Expr) -> bool:
-    x = sympy.Dummy("x")
-    try:
-        return sympy.minimal_polynomial(expr, x) == x
-    except (NotImplementedError, sympy.polys.polyerrors.PolynomialError, ValueError):
-        return False
 
 
 def decide_sign(expr: sympy.Expr) -> int:

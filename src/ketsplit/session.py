@@ -184,11 +184,12 @@ class Session:
             return value.symmetric_state(names, self.params)
         if not value.terms or all(v == 0 for v in value.terms.values()):
             raise InputError("the state is zero: every amplitude vanishes", span)
-        if self.space and len(self.space.dims) != value.nparts:
+        fresh = value.dims is None  # written here, not (only) from bound states
+        if fresh and self.space and len(self.space.dims) != value.nparts:
             raise InputError(f"this state has {value.nparts} part(s) but the declared space has "
                              f"{len(self.space.dims)}", span)
         inferred = tuple(max(2, 1 + max(label[p] for label in value.terms)) for p in range(value.nparts))
-        if self.space and any(i > d for i, d in zip(inferred, self.space.dims)):
+        if fresh and self.space and any(i > d for i, d in zip(inferred, self.space.dims)):
             part = next(k for k, (i, d) in enumerate(zip(inferred, self.space.dims)) if i > d)
             raise InputError(f"part {self.space.names[part]} has a label {inferred[part] - 1}, "
                              f"outside its declared dimension {self.space.dims[part]}", span)

@@ -25,6 +25,7 @@ import time
 import sympy
 
 from ..exact.polyform import NoPolynomialForm, polynomial_form
+from ..exact.tidy import algebraic_zero
 from ..states import Parameter
 
 MAX_OPS = 4000        # larger expressions skip the exact path
@@ -44,7 +45,7 @@ def proven_zero(expr: sympy.Expr, params: tuple[Parameter, ...]) -> bool:
     if sympy.expand(expr) == 0:
         return True
     if not expr.free_symbols:
-        return _algebraic_zero(expr) or sympy.simplify(expr) == 0
+        return algebraic_zero(expr) or sympy.simplify(expr) == 0
     try:
         return _zero_in_polynomial_form(expr, params)
     except NoPolynomialForm:
@@ -68,15 +69,6 @@ def _zero_in_polynomial_form(expr: sympy.Expr, params: tuple[Parameter, ...]) ->
                    for part in (real, imag))
     except sympy.polys.polyerrors.BasePolynomialError as why:
         raise Skipped(f"the polynomial form could not be reduced ({why})") from None
-
-
-def _algebraic_zero(number: sympy.Expr) -> bool:
-    """A constant is zero when its minimal polynomial is x (algebraic numbers only)."""
-    x = sympy.Dummy("x")
-    try:
-        return sympy.minimal_polynomial(number, x) == x
-    except (NotImplementedError, sympy.polys.polyerrors.BasePolynomialError, ValueError):
-        return False  # not algebraic (or not recognised as such): the random points decide
 
 
 def _zero_with_exponentials(expr: sympy.Expr) -> bool:

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from .. import limits
-from ..cuts import CUT_PATTERN, join_names, reduced
+from ..cuts import join_names, reduced
 from ..decomposition import Decomposition, schmidt
 from ..render.report import Field, Kets, Note, Report, Table
 from ..numeric.strategy import exact_or_certified
@@ -33,10 +33,6 @@ def decomposition_report(d: Decomposition, name: str, digits: int | None = None)
     return Report(f"Schmidt decomposition of {name} across {cut_text} ({method})", items, d.notes)
 
 
-def _subject(call: CommandCall) -> str:
-    """The state as typed, without the cut."""
-    return call.split_last(CUT_PATTERN)[0].strip()
-
 
 @command("schmidt", "schmidt STATE [CUT] [with NAME=VALUE, ...]",
          "Schmidt coefficients, vectors and rank across a cut, and the state rewritten",
@@ -46,8 +42,8 @@ def run_schmidt(call: CommandCall) -> Report:
     settings = call.session.settings
     outcome = exact_or_certified(state, cut, settings.exact_budget, settings.digits)
     if outcome.exact is None:
-        return certified_report(outcome.certified, state, cut, _subject(call)).with_notes(*outcome.notes)
-    return decomposition_report(outcome.exact, _subject(call), settings.digits)
+        return certified_report(outcome.certified, state, cut, call.subject()).with_notes(*outcome.notes)
+    return decomposition_report(outcome.exact, call.subject(), settings.digits)
 
 
 @command("reduce", "reduce STATE PARTS [with NAME=VALUE, ...]",

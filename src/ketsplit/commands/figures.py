@@ -119,9 +119,6 @@ def _decimal(value: sympy.Rational) -> str:
         return format((Decimal(int(value.p)) / Decimal(int(value.q))).normalize(), "f")
 
 
-def _subject(call: CommandCall) -> str:
-    return call.split_last(CUT_PATTERN)[0].strip()
-
 
 @command("figures", "figures STATE [CUT] [bits|nats] [FIGURE ...] [with NAME=VALUE, ...]",
          "entanglement figures across a cut: entropy, Renyi, purity, concurrence, negativity, ...",
@@ -136,7 +133,7 @@ def run_figures(call: CommandCall) -> Report:
     rows = tuple((label, value, certified(value, digits)) for label, value in values.items())
     items = (Field("squared Schmidt coefficients", list(d.squared)),
              Table(("figure", "exact", f"certified digits (up to {digits})"), rows))
-    return Report(f"entanglement figures of {_subject(trimmed)} across {cut.describe(state)}",
+    return Report(f"entanglement figures of {trimmed.subject()} across {cut.describe(state)}",
                   items, d.notes)
 
 
@@ -317,7 +314,7 @@ def run_plot(call: CommandCall) -> Report:
     d = schmidt(state, cut)
     markers, note = strata_markers(call, state, cut, symbol)
     title = f"{_figure_label(figure, unit) if figure != COEFFICIENTS else 'Schmidt coefficients'} of " \
-            f"{_subject(inner)} across {cut.describe(state)}"
+            f"{inner.subject()} across {cut.describe(state)}"
     chart = make_chart(title, plot_curves(Spectrum.of(d), figure, unit), symbol, bounds, markers)
     items: tuple = (Plot(terminal_lines(chart)),)
     if match.group(6):

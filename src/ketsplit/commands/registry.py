@@ -101,6 +101,10 @@ class CommandCall:
         check_point_ranges(self, state)
         return state.subs(self.point)
 
+    def subject(self) -> str:
+        """The state as typed, without the cut: the name a report gives it."""
+        return self.split_last(CUT_PATTERN)[0].strip()
+
     def state_and_cut(self) -> tuple[State, Cut]:
         text, cut_text, column = self.split_last(CUT_PATTERN)
         state = self.state(text, self.offset)

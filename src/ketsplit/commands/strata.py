@@ -9,7 +9,6 @@ from ..render.ketprint import text
 from ..render.report import Note, Report, Table
 from ..numeric.values import exact_cell
 from ..strata import Stratum, strata
-from .core import _subject
 from .registry import CommandCall, command
 
 
@@ -25,7 +24,7 @@ def run_strata(call: CommandCall) -> Report:
     except InputError as err:
         if err.span is not None:
             raise
-        subject = _subject(call)
+        subject = call.subject()
         raise call.error(err.message, call.offset + call.args.index(subject), len(subject)) from None
     rows = tuple((s.rank, where(s, digits), point_cell(s.sample, digits)) for s in found)
     items = [Table(("rank", "where", "sample point"), rows)]
@@ -33,7 +32,7 @@ def run_strata(call: CommandCall) -> Report:
     if any(has_digits(s, digits) for s in found):
         notes.append(f"≈ marks certified digits ({digits} asked for; every digit shown is certain) "
                      "of exact values")
-    title = f"rank strata of {_subject(call)} across {cut.describe(state)}"
+    title = f"rank strata of {call.subject()} across {cut.describe(state)}"
     if not found.complete:
         items.append(Note("incomplete: the time budget ran out (see the notes); "
                           "raise it with strata_budget in the session settings"))

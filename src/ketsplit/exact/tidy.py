@@ -41,3 +41,12 @@ def is_zero(value: sympy.Expr) -> bool:
             except (NotImplementedError, ZeroDivisionError, ValueError, KeyError):
                 pass
     return sympy.simplify(value) == 0
+
+
+def algebraic_zero(number: sympy.Expr) -> bool:
+    """A constant is zero when its minimal polynomial is x (algebraic numbers only)."""
+    x = sympy.Dummy("x")
+    try:
+        return sympy.minimal_polynomial(number, x) == x
+    except (NotImplementedError, sympy.polys.polyerrors.BasePolynomialError, ValueError):
+        return False  # not algebraic (or not recognised as such)
