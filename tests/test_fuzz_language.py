@@ -254,6 +254,8 @@ ONCE_CRASHED = [
     ("", "open /"), ("", "save ."),         # ValueError from Path.with_suffix, in commands/sheets.py
     ("", "save ~nosuchuser/x"),             # RuntimeError from expanduser, in commands/sheets.py
     ("", "budget ²"),                       # str.isdigit() accepts '²', float() does not
+    ("", "save " + "x" * 300),              # OSError from Path.is_dir: file name too long
+    ("", "-((1e-0))"),                      # int('') of an exponent of zeros
     ("real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>",
      "plot entropy psi 1|2 over t --to " + "x" * 300 + ".svg"),  # OSError: file name too long
 ]

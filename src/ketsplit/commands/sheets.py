@@ -27,7 +27,12 @@ def sheet_path(call: CommandCall) -> Path:
     except RuntimeError:  # ~user for a user that does not exist
         raise call.error(f"{call.name}: cannot find the home directory in {text!r}",
                          *argument_place(call)) from None
-    if text.endswith(("/", "\\")) or path.name in ("", ".", "..") or path.is_dir():
+    try:
+        is_directory = path.is_dir()
+    except OSError as err:  # a name too long for the system, a loop of links, ...
+        raise call.error(f"{call.name}: cannot use {text[:60]!r}: {err.strerror}",
+                         *argument_place(call)) from None
+    if text.endswith(("/", "\\")) or path.name in ("", ".", "..") or is_directory:
         raise call.error(f"{call.name}: {text} is a directory; name a file in it, as in "
                          f"'{call.name} {path / ('notes' + EXTENSION)}'", *argument_place(call))
     return path if path.suffix else path.with_name(path.name + EXTENSION)

@@ -84,7 +84,7 @@ class Builder:
         self._limit(len(digits), "number_digits", f"a number of {len(digits)} digits", node)
         if exponent:
             size = exponent.lstrip("+-").lstrip("0")
-            self._limit(int(size) if len(size) < 20 else 10 ** 20, "exponent",
+            self._limit(int(size or "0") if len(size) < 20 else 10 ** 20, "exponent",
                         f"exponent {exponent}" if len(size) < 20 else
                         f"an exponent of {len(size)} digits", node)
         fraction = Fraction(mantissa)  # exact decimal, parsed by the standard library
