@@ -22,6 +22,7 @@ from functools import cmp_to_key
 
 import sympy
 
+from .exact.coerce import as_expr
 from .cuts import Cut, parse_cut, side_dimension
 from .decomposition import schmidt
 from .figures import tidy, without_extrema
@@ -41,7 +42,7 @@ def sign(expr: sympy.Expr) -> int:
     x); a nonzero sign needs an enclosure that excludes zero.  Precision grows
     up to MAX_BITS; past that the comparison is refused, never guessed.
     """
-    expr = without_extrema(sympy.sympify(expr))
+    expr = without_extrema(as_expr(expr))
     if expr.is_zero or sympy.simplify(expr) == 0:
         return 0
     bits = START_BITS
@@ -61,7 +62,7 @@ def sign(expr: sympy.Expr) -> int:
 def decide_sign(expr: sympy.Expr) -> int:
     """The sign of a real quantity, proved; parameter-dependent signs only when sympy
     can decide them from the assumptions, else an InputError asking for a point."""
-    expr = sympy.sympify(expr)
+    expr = as_expr(expr)
     if not expr.free_symbols:
         return sign(expr)
     simplified = sympy.simplify(expr)
@@ -155,7 +156,7 @@ def identical(a: sympy.Expr, b: sympy.Expr) -> bool:
         return True
     if not difference.free_symbols:
         return decide_sign(difference) == 0
-    value = without_extrema(sympy.sympify(difference).subs(_random_point(difference.free_symbols)))
+    value = without_extrema(as_expr(difference).subs(_random_point(difference.free_symbols)))
     ball = enclose(value, START_BITS)
     if not ball.real.contains(0) or not ball.imag.contains(0):
         return False

@@ -16,6 +16,7 @@ from typing import Callable, Sequence
 
 import sympy
 
+from .exact.coerce import as_expr
 from .cuts import Cut, reduced, side_dimension
 from .decomposition import Decomposition, schmidt
 from .exact.signs import box_of, drop_abs
@@ -108,7 +109,7 @@ def tidy(expr: sympy.Expr) -> sympy.Expr:
     log(x^(1/(7 log 2)))); their arguments are tidied instead.  Max and Min of
     tidied values are kept as they are (simplify only slows down on them).
     """
-    expr = sympy.sympify(expr)
+    expr = as_expr(expr)
     if expr.is_Rational or expr.has(sympy.Max, sympy.Min) or sympy.count_ops(expr) > MAX_TIDY_OPS:
         return expr
     if expr.has(sympy.log):
@@ -216,7 +217,7 @@ measures = figures
 def renyi_of(spectrum: Spectrum, alpha: sympy.Expr, unit: str = "bits") -> sympy.Expr:
     """Renyi-alpha entropy log(sum p^alpha)/(1 - alpha); alpha = 1 is the von Neumann
     entropy, alpha = 0 the log of the rank, alpha = oo the min-entropy -log max p."""
-    alpha = sympy.sympify(alpha)
+    alpha = as_expr(alpha)
     base = unit_log(unit)
     if not (alpha.is_real and alpha.is_nonnegative) and alpha is not sympy.oo:
         raise InputError(f"the Renyi order must be a real number >= 0 (or oo), found {alpha}")

@@ -14,6 +14,7 @@ from typing import Iterable, Mapping
 
 import sympy
 
+from .exact.coerce import as_expr
 from .language.errors import InputError
 from .render.ketprint import text as language_text
 
@@ -72,8 +73,8 @@ class State:
     _cache: dict = field(default_factory=dict, repr=False, compare=False)
 
     def __post_init__(self) -> None:
-        # strict: a string amplitude is refused, never parsed (sympify would eval it)
-        amps = {tuple(k): sympy.sympify(v, strict=True) for k, v in dict(self.amplitudes).items()
+        # as_expr refuses a string amplitude: it never parses text
+        amps = {tuple(k): as_expr(v) for k, v in dict(self.amplitudes).items()
                 if v != 0}
         object.__setattr__(self, "amplitudes", MappingProxyType(amps))
         object.__setattr__(self, "dims", tuple(int(d) for d in self.dims))
@@ -166,7 +167,7 @@ class State:
             name = key if isinstance(key, str) else key.name
             if name not in by_name:
                 raise InputError(f"the state has no parameter named {name!r}")
-            table[by_name[name]] = sympy.sympify(value, strict=True)  # never parses text
+            table[by_name[name]] = as_expr(value)  # never parses text
         return table
 
     def __repr__(self) -> str:

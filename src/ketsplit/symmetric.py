@@ -29,6 +29,7 @@ from typing import Iterator, Mapping
 
 import sympy
 
+from .exact.coerce import as_expr
 from .cuts import Cut, check_dense, parse_cut
 from .language.build import KET_FUNCTIONS, KetValue
 from .language.errors import InputError
@@ -40,7 +41,7 @@ Weights = tuple[tuple[int, sympy.Expr], ...]  # (j, c_j) for the nonzero c_j, j 
 
 
 def clean_weights(weights: Mapping[int, sympy.Expr]) -> Weights:
-    return tuple(sorted((int(j), sympy.sympify(c)) for j, c in weights.items() if c != 0))
+    return tuple(sorted((int(j), as_expr(c)) for j, c in weights.items() if c != 0))
 
 
 class DickeAmplitudes(Mapping):

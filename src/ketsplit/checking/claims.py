@@ -30,6 +30,7 @@ from typing import Mapping
 import flint
 import sympy
 
+from ..exact.coerce import as_expr
 from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
 from ..language.build import KetValue
 from ..language.errors import InputError
@@ -99,7 +100,7 @@ def _nonnegative(claimed: list[sympy.Expr], params: tuple[Parameter, ...],
     """Each claimed coefficient is real and >= 0: proved over the declared ranges when the
     signs there can be (:func:`ketsplit.exact.signs.sign_on_box`), else c = |c| decided."""
     box = {p.symbol: p.range for p in params if p.is_real and p.range is not None}
-    if box and all(sign_on_box(sympy.sympify(c), box) == 1 for c in claimed):
+    if box and all(sign_on_box(as_expr(c), box) == 1 for c in claimed):
         return Verdict(True, "exact", "each claimed coefficient is >= 0 on the declared ranges",
                        domain_text(params))
     signs = [(f"c{k} - |c{k}|", c, sympy.Abs(c)) for k, c in enumerate(claimed, start=1)]

@@ -33,6 +33,7 @@ from typing import Callable, Mapping
 import flint
 import sympy
 
+from ..exact.coerce import as_expr
 from ..states import Parameter
 from ..numeric.budget import OverBudget, time_budget
 from ..numeric.digits import certain_decimal, zero_bound_text
@@ -216,7 +217,7 @@ def _refuted(difference: Difference, point: Point, entry: Entry, prec: int, opti
 
 def _exact_value(entry: Entry, point: Point) -> Shown | None:
     """The difference at the point as an exact rational (Gaussian) number, when it is one."""
-    expr = sympy.sympify(entry.exact) if entry.exact is not None else None
+    expr = as_expr(entry.exact) if entry.exact is not None else None
     if expr is None or not expr.is_rational_function(*point):
         return None  # only rational functions are sure to give an exact number quickly
     value = sympy.expand(expr.xreplace(dict(point)))

@@ -12,6 +12,7 @@ from typing import Iterable, Mapping
 import flint
 import sympy
 
+from ..exact.coerce import as_expr
 from ..numeric.enclose import Encloser, NotEnclosable
 
 
@@ -30,7 +31,7 @@ def values_at(exprs: Iterable[sympy.Expr], point: Mapping[sympy.Symbol, sympy.Ex
     encloser = Encloser(bits)
     try:
         for symbol, value in point.items():
-            encloser.memo[symbol] = encloser(sympy.sympify(value))
+            encloser.memo[symbol] = encloser(as_expr(value))
         return [encloser(expr) for expr in exprs]
     except NotEnclosable as why:
         raise NotEvaluable(why.message) from None

@@ -24,6 +24,7 @@ import time
 
 import sympy
 
+from ..exact.coerce import as_expr
 from ..exact.polyform import NoPolynomialForm, polynomial_form
 from ..exact.tidy import algebraic_zero
 from ..states import Parameter
@@ -38,7 +39,7 @@ class Skipped(Exception):
 
 def proven_zero(expr: sympy.Expr, params: tuple[Parameter, ...]) -> bool:
     """True when ``expr`` is identically zero by exact rewriting; False when not shown."""
-    expr = sympy.sympify(expr)
+    expr = as_expr(expr)
     if expr == 0:
         return True
     _guard(expr)

@@ -15,6 +15,7 @@ from typing import Iterator
 
 import sympy
 
+from ..exact.coerce import as_expr
 from ..language.errors import InputError
 from ..states import Parameter
 
@@ -62,7 +63,7 @@ def _value(param: Parameter, rng: random.Random, denominator: int) -> sympy.Expr
 
 def _inside(bounds, rng: random.Random, denominator: int) -> sympy.Expr:
     """A rational strictly inside [lo, hi] (or lo itself when lo == hi)."""
-    lo, hi = (sympy.sympify(b) for b in bounds)
+    lo, hi = (as_expr(b) for b in bounds)
     if lo == hi:
         return lo
     q = rng.randint(max(2, denominator // 2), denominator) if denominator > 10 else rng.randint(2, 10)

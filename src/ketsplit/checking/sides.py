@@ -18,6 +18,7 @@ from typing import Mapping
 import flint
 import sympy
 
+from ..exact.coerce import as_expr
 from ..language.build import KetValue
 from ..language.errors import InputError
 from ..render.ketprint import label_text
@@ -44,7 +45,7 @@ class Side:
     def symbols(self) -> set[sympy.Symbol]:
         found: set[sympy.Symbol] = set()
         for value in self.entries.values():
-            found |= sympy.sympify(value).free_symbols
+            found |= as_expr(value).free_symbols
         return found
 
 
@@ -59,7 +60,7 @@ def side_of(value) -> Side:
         entries = {(i, j): value[i, j] for i in range(value.rows) for j in range(value.cols)
                    if value[i, j] != 0}
         return Side("matrix", entries, value.shape)
-    return Side("number", {(): sympy.sympify(value)}, ())
+    return Side("number", {(): as_expr(value)}, ())
 
 
 def mismatch(left: Side, right: Side) -> str | None:
@@ -131,8 +132,8 @@ def _outer(side: Side, a: tuple, b: tuple) -> sympy.Expr:
 def paired_difference(pairs: list[tuple[str, sympy.Expr, sympy.Expr]],
                       params: tuple[Parameter, ...], quantity: str) -> Difference:
     """The Difference of (where, lhs, rhs) triples, evaluated pairwise in balls."""
-    lhs = [sympy.sympify(p[1]) for p in pairs]
-    rhs = [sympy.sympify(p[2]) for p in pairs]
+    lhs = [as_expr(p[1]) for p in pairs]
+    rhs = [as_expr(p[2]) for p in pairs]
 
     def numeric(point: Point, prec: int) -> list[Entry]:
         values = values_at(lhs + rhs, point, prec)

@@ -41,6 +41,7 @@ from typing import Iterable, Mapping, Sequence
 
 import sympy
 
+from .coerce import as_expr
 from ..numeric.enclose import enclose
 from ..states import Parameter
 
@@ -147,7 +148,7 @@ class PolyForm:
         square roots): a square root it does not know is a NoPolynomialForm.
         """
         rewriter = _Rewriter(self)
-        result = rewriter.run(sympy.sympify(expr))
+        result = rewriter.run(as_expr(expr))
         if len(rewriter.radicals) > len(self.radicals):
             raise NoPolynomialForm(f"{expr} has a square root this form was not built with")
         return result
@@ -171,7 +172,7 @@ class PolyForm:
         for c in self.coordinates:
             table.update(c.original())
         table.update({r.variable: r.source for r in self.radicals})
-        return sympy.sympify(expr).xreplace(table)
+        return as_expr(expr).xreplace(table)
 
     def forward(self, point: Mapping[sympy.Symbol, sympy.Expr]) -> dict[sympy.Symbol, sympy.Expr]:
         """Variables' values at a point given in the parameters (radicals included)."""
@@ -208,7 +209,7 @@ class PolyForm:
 
     def free_coordinates(self, expressions: Iterable[sympy.Expr]) -> tuple[Coordinate, ...]:
         """Coordinates none of whose variables occur in ``expressions``."""
-        used = set().union(*(sympy.sympify(e).free_symbols for e in expressions))
+        used = set().union(*(as_expr(e).free_symbols for e in expressions))
         used |= {v for r in self.radicals if r.variable in used for v in r.argument.free_symbols}
         return tuple(c for c in self.coordinates if not used & set(c.variables))
 
@@ -292,7 +293,7 @@ def angles_in_range(base: sympy.Expr, period: sympy.Expr, rng) -> list[sympy.Exp
 
 def compare(a: sympy.Expr, b: sympy.Expr) -> int:
     """The sign of a - b for real constants: 0 only when proved equal, else proved by balls."""
-    difference = sympy.sympify(a - b)
+    difference = as_expr(a - b)
     if difference == 0:
         return 0
     for bits in (64, 256, 1024, 4096):
@@ -316,7 +317,7 @@ def polynomial_form(expressions: Iterable[sympy.Expr], parameters: Sequence[Para
 
     Raises :class:`NoPolynomialForm` naming the parameter that cannot be expressed.
     """
-    exprs = [_exponential(sympy.sympify(e)) for e in expressions]
+    exprs = [_exponential(as_expr(e)) for e in expressions]
     coordinates: list[Coordinate] = []
     for param in parameters:
         coordinates.extend(_coordinates_of(param, exprs))

@@ -18,6 +18,7 @@ from typing import Callable
 import sympy
 from flint import acb, arb, ctx, fmpq
 
+from ..exact.coerce import as_expr
 from ..language.errors import InputError
 
 
@@ -79,7 +80,7 @@ class Encloser:
 
     def __call__(self, expr: sympy.Expr) -> acb:
         with ctx.workprec(self.bits):
-            return self.ball(sympy.sympify(expr))
+            return self.ball(as_expr(expr))
 
     def ball(self, expr: sympy.Expr) -> acb:
         found = self.memo.get(expr)

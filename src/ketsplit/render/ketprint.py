@@ -7,6 +7,7 @@ from typing import Iterable
 import sympy
 from sympy.printing.str import StrPrinter
 
+from ..exact.coerce import as_expr
 
 class LanguagePrinter(StrPrinter):
     """sympy's str printer, speaking our syntax: ``i``, ``^``, ``conj``, ``abs``."""
@@ -42,7 +43,7 @@ def text(expr) -> str:
     if isinstance(expr, sympy.MatrixBase):
         rows = [", ".join(text(expr[i, j]) for j in range(expr.cols)) for i in range(expr.rows)]
         return "[" + ", ".join(f"[{r}]" for r in rows) + "]"
-    return _PRINTER.doprint(sympy.sympify(expr))
+    return _PRINTER.doprint(as_expr(expr))
 
 
 def label_text(label: Iterable[int]) -> str:
@@ -60,7 +61,7 @@ def terms_text(terms: Iterable[tuple[sympy.Expr, str]]) -> str:
     """``c1|l1> + c2|l2>`` from (coefficient, ket text) pairs; '0' when there are none."""
     pieces: list[str] = []
     for coefficient, ket in terms:
-        coefficient = sympy.sympify(coefficient)
+        coefficient = as_expr(coefficient)
         sign = "+"
         if coefficient.could_extract_minus_sign():
             sign, coefficient = "-", -coefficient

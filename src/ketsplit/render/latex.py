@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import sympy
 
+from ..exact.coerce import as_expr
 from .report import Digits, Field, Kets, Note, Plot, Report, Table
 
 
@@ -27,7 +28,7 @@ def cell_latex(cell) -> str:
 def kets_latex(kets: Kets) -> str:
     out = ""
     for k, (coefficient, label) in enumerate(kets.terms):
-        coefficient = sympy.sympify(coefficient)
+        coefficient = as_expr(coefficient)
         sign = "-" if coefficient.could_extract_minus_sign() else "+"
         magnitude = -coefficient if sign == "-" else coefficient
         body = "" if magnitude == 1 else (

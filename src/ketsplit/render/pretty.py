@@ -12,6 +12,7 @@ import sympy
 from sympy.printing.pretty.pretty import PrettyPrinter
 from sympy.printing.pretty.stringpict import prettyForm, stringPict
 
+from ..exact.coerce import as_expr
 from .report import Digits, Kets, Table
 
 _PRINTER = PrettyPrinter({"use_unicode": True, "wrap_line": False})
@@ -52,7 +53,7 @@ def picture(cell) -> prettyForm:
 
 
 def expression(expr) -> prettyForm:
-    return _PRINTER._print(expr if isinstance(expr, sympy.MatrixBase) else sympy.sympify(expr))
+    return _PRINTER._print(expr if isinstance(expr, sympy.MatrixBase) else as_expr(expr))
 
 
 def beside(*pictures) -> prettyForm:
@@ -74,7 +75,7 @@ def kets_picture(kets: Kets) -> prettyForm:
     """``c₁ |l₁⟩ + c₂ |l₂⟩``: each coefficient drawn in 2-D, brackets around sums."""
     pieces: list[prettyForm] = []
     for coefficient, label in kets.terms:
-        coefficient = sympy.sympify(coefficient)
+        coefficient = as_expr(coefficient)
         negative = coefficient.could_extract_minus_sign()
         magnitude = -coefficient if negative else coefficient
         if pieces:

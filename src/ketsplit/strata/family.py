@@ -22,6 +22,7 @@ from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 from sympy.polys.polyerrors import NotInvertible
 
+from ..exact.coerce import as_expr
 from ..cuts import CoefficientMatrix, Cut
 from ..exact.polyform import PolyForm, polynomial_form, split_complex
 from ..language.errors import LimitError
@@ -128,7 +129,7 @@ class Family:
 
 def exact_rank(numbers: list[sympy.Expr], shape: tuple[int, int]) -> int:
     """The rank of a constant matrix over the smallest exact field of its entries."""
-    roots = set().union(*(sympy.sympify(n).atoms(sympy.CRootOf) for n in numbers))
+    roots = set().union(*(as_expr(n).atoms(sympy.CRootOf) for n in numbers))
     if len(roots) == 1:
         rank = rank_over_root(numbers, shape, roots.pop())
         if rank is not None:
@@ -164,7 +165,7 @@ def rank_over_root(numbers: list[sympy.Expr], shape: tuple[int, int], root: symp
     alpha = field.from_sympy(root)
     parts = []
     for number in numbers:
-        numer, denom = sympy.fraction(sympy.together(sympy.expand(sympy.sympify(number).xreplace({root: g}))))
+        numer, denom = sympy.fraction(sympy.together(sympy.expand(as_expr(number).xreplace({root: g}))))
         if denom.has(sympy.I):
             numer, denom = numer * sympy.conjugate(denom), denom * sympy.conjugate(denom)
         try:
