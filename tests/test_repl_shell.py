@@ -24,7 +24,7 @@ def test_a_line_with_an_open_bracket_or_a_trailing_operator_goes_on():
     shell = new_shell(mode=shell_mode(pretty=False))
     out = drive(shell, "psi = (|00> +" + ENTER + "|11>" + ENTER + ")/sqrt(2)" + ENTER,
                 "chi = |00> -" + ENTER + "|11>" + ENTER, "schmidt psi" + ENTER)
-    assert [e.source for e in shell.session.transcript][:2] == [
+    assert [e.source for e in shell.session.worklog][:2] == [
         "psi = (|00> + |11> )/sqrt(2)", "chi = |00> - |11>"]
     # (|00> + |11>)/sqrt(2): both Schmidt coefficients are 1/sqrt(2) (fact of the trade)
     assert "coefficients: [sqrt(2)/2, sqrt(2)/2]" in out
@@ -50,7 +50,7 @@ def test_an_error_prints_its_caret_and_the_session_goes_on():
 def test_a_line_is_atomic_an_error_later_on_it_undoes_what_came_before():
     shell = new_shell()
     drive(shell, "a = |0>; b = |1>; rank nothing 3|4" + ENTER)
-    assert shell.session.bindings == {} and shell.session.transcript == []
+    assert shell.session.bindings == {} and shell.session.worklog == []
 
 
 def test_ctrl_c_at_the_prompt_drops_the_input_and_ctrl_d_leaves():
@@ -90,7 +90,7 @@ def test_ctrl_c_cancels_a_running_computation_and_keeps_every_binding(lingering_
     assert "cancelled: the session is as it was before this line" in out
     assert set(shell.session.bindings) == {"psi"}
     assert shell.session.settings.digits == 40
-    assert [e.source for e in shell.session.transcript] == ["psi = |00> + |11>", "digits 40",
+    assert [e.source for e in shell.session.worklog] == ["psi = |00> + |11>", "digits 40",
                                                              "rank psi"]
     assert "rank: 2" in out
 

@@ -14,7 +14,7 @@ from hypothesis import strategies as st
 from ketsplit import Session, Settings
 from ketsplit.sheets.format import (FORMAT, Record, Sheet, SheetError, SheetLine, format_sheet,
                                     parse_sheet, protect, read_sheet)
-from ketsplit.sheets.runner import sheet_of_transcript
+from ketsplit.sheets.runner import sheet_of_worklog
 
 
 def written(lines, settings=Settings()) -> str:
@@ -53,7 +53,7 @@ def test_a_typed_comment_that_looks_like_a_marker_stays_a_comment():
 def test_results_are_comments_to_the_language_so_running_the_file_runs_only_statements():
     session = Session()
     session.run("rank |00> + |11>")
-    text = format_sheet(sheet_of_transcript(session.transcript, session.settings), "x", "y")
+    text = format_sheet(sheet_of_worklog(session.worklog, session.settings), "x", "y")
     replayed = Session().run(text)
     assert [r.kind for r in replayed] == ["rank"]
 

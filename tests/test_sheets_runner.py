@@ -54,7 +54,7 @@ def test_open_replays_and_gives_back_the_bindings(tmp_path):
     assert "psi" in other.bindings and "chi" not in other.bindings
     assert other.params["t"].range is not None
     assert "coefficients: [sqrt(3)/2, 1/2]" in report.text()
-    # what was opened is the transcript: saving again gives the same worksheet body
+    # what was opened is the work log: saving again gives the same worksheet body
     other.run(f"save {tmp_path / 'again.kss'}")
     again = read_sheet(tmp_path / "again.kss")
     assert [(e.source, e.records) for e in again.lines] == [
@@ -67,7 +67,7 @@ def test_save_and_open_are_not_recorded(tmp_path):
     assert [e.source for e in read_sheet(path).lines][-1] == "rank |00> + |11>"
     session.run(f"save {path}")
     assert [e.source for e in read_sheet(path).lines][-1] == "rank |00> + |11>; rank |01>"
-    assert all(not e.source.startswith(("save", "open")) for e in session.transcript)
+    assert all(not e.source.startswith(("save", "open")) for e in session.worklog)
 
 
 def test_a_tampered_result_fails_verify_naming_its_line(tmp_path):
@@ -150,7 +150,7 @@ def test_save_to_a_path_that_cannot_be_written_keeps_the_session(tmp_path):
         session.run(f"save {tmp_path / 'no-such-dir' / 'x.kss'}")
     assert caught.value.line == 1 and caught.value.column == 6
     assert "psi" in session.bindings
-    assert [e.source for e in session.transcript] == ["psi = |00> + |11>"]
+    assert [e.source for e in session.worklog] == ["psi = |00> + |11>"]
 
 
 @pytest.mark.parametrize("name, content, action, message", [

@@ -75,7 +75,7 @@ class Result:
 
 @dataclass(frozen=True)
 class Entry:
-    """A line of the transcript: the text as typed (comments kept), what it gave,
+    """A line of the work log: the text as typed (comments kept), what it gave,
     and the settings in force before it ran."""
 
     source: str
@@ -83,12 +83,12 @@ class Entry:
     settings: Settings = field(default_factory=Settings)
 
 
-# Statements that act on files; a transcript (and so a worksheet) never repeats them.
+# Statements that act on files; a work log (and so a worksheet) never repeats them.
 UNRECORDED = frozenset({"save", "open"})
 
 
-def transcribe(source: str, done: list[Result], before: Settings) -> list[Entry]:
-    """The transcript entry for one line: kept as typed when every statement on it
+def log_entries(source: str, done: list[Result], before: Settings) -> list[Entry]:
+    """The work-log entries for one line: kept as typed when every statement on it
     ran and is recorded; otherwise only the recorded statements that ran."""
     kept = tuple(r for r in done if r.kind not in UNRECORDED)
     statements = [s for s, _ in split_statements(source)]
@@ -105,7 +105,7 @@ class Session:
     bindings: dict[str, object] = field(default_factory=dict)
     params: dict[str, Parameter] = field(default_factory=dict)
     space: Space | None = None
-    transcript: list[Entry] = field(default_factory=list)  # lines run so far, for 'save'
+    worklog: list[Entry] = field(default_factory=list)  # lines run so far, for 'save'
     running: tuple | None = None  # (line, its results so far, settings before it) while it runs
 
     # -- the Scope protocol used by the builder ------------------------
@@ -125,7 +125,7 @@ class Session:
         """Run every statement of ``text`` (newline- or ';'-separated), its first
         line numbered ``first_line``.
 
-        Each line that ran, in full or up to an error, joins the transcript."""
+        Each line that ran, in full or up to an error, joins the work log."""
         results: list[Result] = []
         for number, source in enumerate(text.splitlines() or [text], start=first_line):
             before, done = self.settings, []
@@ -137,13 +137,13 @@ class Session:
                 raise err.located(source=source) from None
             finally:
                 self.running = None
-                self.transcript.extend(transcribe(source, done, before))
+                self.worklog.extend(log_entries(source, done, before))
             results.extend(done)
         return results
 
-    def transcript_so_far(self) -> list[Entry]:
-        """The transcript with what the line running now has done before this statement."""
-        return self.transcript + (transcribe(*self.running) if self.running else [])
+    def worklog_so_far(self) -> list[Entry]:
+        """The work log with what the line running now has done before this statement."""
+        return self.worklog + (log_entries(*self.running) if self.running else [])
 
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""

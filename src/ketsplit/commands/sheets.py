@@ -9,7 +9,7 @@ from ..render.report import Field, Report
 from ..session import Session
 from ..sheets.atomic import refuse_read_only
 from ..sheets.format import EXTENSION, MAGIC, SheetError, read_sheet
-from ..sheets.runner import Outcome, differences, replay, save, sheet_of_transcript
+from ..sheets.runner import Outcome, differences, replay, save, sheet_of_worklog
 from .registry import CommandCall, command
 
 
@@ -47,7 +47,7 @@ def argument_place(call: CommandCall) -> tuple[int, int]:
          "save photon-pair.kss", topic="worksheets")
 def run_save(call: CommandCall) -> Report:
     path = sheet_path(call)
-    sheet = sheet_of_transcript(call.session.transcript_so_far(), call.session.settings)
+    sheet = sheet_of_worklog(call.session.worklog_so_far(), call.session.settings)
     try:
         refuse_read_only(path)  # first, so that a read-only file is called so
         if path.exists() and not is_worksheet(path):
@@ -98,6 +98,6 @@ def replayed_items(outcome: Outcome) -> list[Field]:
 
 
 def adopt(session: Session, fresh: Session) -> None:
-    """Make ``session`` the replayed one (bindings, declarations, settings, transcript)."""
+    """Make ``session`` the replayed one (bindings, declarations, settings, work log)."""
     for f in dataclasses.fields(Session):
         setattr(session, f.name, getattr(fresh, f.name))

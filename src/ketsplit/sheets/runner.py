@@ -90,11 +90,11 @@ def run_line(session: Session, entry: SheetLine, files: bool = False) -> Outcome
     refused = None if files else refusal(entry)
     if refused:
         return Outcome(entry, (), refused)
-    before = len(session.transcript)
+    before = len(session.worklog)
     try:
         return Outcome(entry, tuple(session.run(entry.source, entry.line)))
     except InputError as err:
-        done = tuple(r for e in session.transcript[before:] for r in e.results)
+        done = tuple(r for e in session.worklog[before:] for r in e.results)
         return Outcome(entry, done, err)
 
 
@@ -203,11 +203,11 @@ def is_zero(expr: sympy.Expr) -> bool:
 
 # -- sheets from sessions and outcomes -----------------------------------------
 
-def sheet_of_transcript(transcript: list[Entry], settings) -> Sheet:
+def sheet_of_worklog(worklog: list[Entry], settings) -> Sheet:
     """The worksheet of a session: its lines as typed with their results."""
-    start = transcript[0].settings if transcript else settings
+    start = worklog[0].settings if worklog else settings
     lines = tuple(SheetLine(e.source, n, tuple(record_of(r) for r in e.results))
-                  for n, e in enumerate(transcript, start=1))
+                  for n, e in enumerate(worklog, start=1))
     return Sheet(lines, start)
 
 
