@@ -130,7 +130,9 @@ class State:
         return self._cache["norm2"]
 
     def is_normalised(self) -> bool:
-        return sympy.simplify(self.norm_squared() - 1) == 0
+        if "is_normalised" not in self._cache:
+            self._cache["is_normalised"] = sympy.simplify(self.norm_squared() - 1) == 0
+        return self._cache["is_normalised"]
 
     def normalised(self) -> "State":
         """The state divided by its norm; a zero state is an InputError."""

@@ -33,17 +33,21 @@ def decomposition_report(d: Decomposition, name: str, digits: int | None = None)
     return Report(f"Schmidt decomposition of {name} across {cut_text} ({method})", items, d.notes)
 
 
+def decompose(call: CommandCall):
+    """The state, the cut, and its decomposition: exact within the budget, else certified."""
+    state, cut = call.state_and_cut()
+    settings = call.session.settings
+    return state, cut, exact_or_certified(state, cut, settings.exact_budget, settings.digits)
+
 
 @command("schmidt", "schmidt STATE [CUT] [with NAME=VALUE, ...]",
          "Schmidt coefficients, vectors and rank across a cut, and the state rewritten",
          "schmidt cos(t)|00> + sin(t)|11> 1|2")
 def run_schmidt(call: CommandCall) -> Report:
-    state, cut = call.state_and_cut()
-    settings = call.session.settings
-    outcome = exact_or_certified(state, cut, settings.exact_budget, settings.digits)
+    state, cut, outcome = decompose(call)
     if outcome.exact is None:
         return certified_report(outcome.certified, state, cut, call.subject()).with_notes(*outcome.notes)
-    return decomposition_report(outcome.exact, call.subject(), settings.digits)
+    return decomposition_report(outcome.exact, call.subject(), call.session.settings.digits)
 
 
 @command("reduce", "reduce STATE PARTS [with NAME=VALUE, ...]",
@@ -61,9 +65,7 @@ def run_reduce(call: CommandCall) -> Report:
          "the generic Schmidt rank across a cut",
          "rank |000> + |111> 1|23")
 def run_rank(call: CommandCall) -> Report:
-    state, cut = call.state_and_cut()
-    settings = call.session.settings
-    outcome = exact_or_certified(state, cut, settings.exact_budget, settings.digits)
+    state, cut, outcome = decompose(call)
     if outcome.certified is not None:  # a rank proved by enclosures, or said to be undecided
         found = outcome.certified
         return Report(f"Schmidt rank across {cut.describe(state)}",

@@ -29,7 +29,7 @@ import sympy
 from ..cuts import CoefficientMatrix, Cut
 from ..states import State, abs_squared, simplify_real
 from .eigen import eigenvalues
-from .tidy import is_zero, tidy
+from .tidy import generic_point, is_zero, tidy
 from .pointeval import evaluate_at
 
 Vector = sympy.Matrix
@@ -178,8 +178,8 @@ def adjugate_columns(shifted: sympy.Matrix) -> list[Vector]:
 
 
 def _size(column: sympy.Matrix) -> float:
-    """A numeric size of a column at a generic point (parameters set to 1/3)."""
-    point = {s: sympy.Rational(1, 3) for s in column.free_symbols}
+    """A numeric size of a column at a generic point of its parameters."""
+    point = generic_point(column.free_symbols)
     with mpmath.workdps(30):
         return float(sum(abs(evaluate_at(v, point)) ** 2 for v in column))
 

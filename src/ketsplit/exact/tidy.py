@@ -22,6 +22,12 @@ def tidy(value: sympy.Expr) -> sympy.Expr:
     return value if value.free_symbols else sympy.radsimp(value)
 
 
+def generic_point(symbols) -> dict[sympy.Symbol, sympy.Rational]:
+    """Distinct small rationals for the symbols: a point where nothing special happens."""
+    return {s: sympy.Rational(3 + 2 * k, 7 + k)
+            for k, s in enumerate(sorted(symbols, key=lambda s: s.name))}
+
+
 def is_zero(value: sympy.Expr) -> bool:
     """Whether ``value`` vanishes identically.
 
@@ -32,8 +38,7 @@ def is_zero(value: sympy.Expr) -> bool:
     if value.is_zero is not None:
         return bool(value.is_zero)
     if value.free_symbols:
-        point = {s: sympy.Rational(3 + 2 * k, 7 + k) for k, s in
-                 enumerate(sorted(value.free_symbols, key=lambda s: s.name))}
+        point = generic_point(value.free_symbols)
         with mpmath.workdps(30):
             try:
                 if abs(evaluate_at(value, point)) > mpmath.mpf(10) ** -20:
