@@ -7,24 +7,20 @@ be decided, and verifies that the pieces rebuild the state before returning.
 
 from __future__ import annotations
 
-import random
 from dataclasses import dataclass, field
-from functools import cmp_to_key
 
 import mpmath
 import sympy
 
-from .cuts import Cut, parse_cut, side_index, side_label
-from .exact.pointeval import evaluate_at
-from .exact.signs import box_of, drop_abs, sign_on_box
-from .exact.schmidt import inner, nonzero_entries, schmidt_pieces, tidy
+from .cuts import Cut, parse_cut, side_label
+from .exact.order import order_pieces, scaled
+from .exact.schmidt import nonzero_entries, schmidt_pieces
+from .exact.selfcheck import DecompositionError as DecompositionError  # re-exported
+from .exact.selfcheck import verify_rebuild
+from .exact.signs import box_of, drop_abs
 from .render.ketprint import label_text
 from .render.ketprint import text as language_text
 from .states import State
-
-
-class DecompositionError(ArithmeticError):
-    """The decomposition failed its own rebuild check: a bug, never an output."""
 
 
 @dataclass(frozen=True, eq=False)
@@ -117,96 +113,3 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
                                   [p[2] for p in pieces], True, ordered, tuple(notes))
     verify_rebuild(decomposition)
     return decomposition
-
-
-def scaled(sigma: sympy.Expr, scale: sympy.Expr) -> sympy.Expr:
-    """sigma * scale in a readable form: expanded radicals for numbers, tidied otherwise."""
-    product = sigma * scale
-    return sympy.expand(sympy.radsimp(product)) if not product.free_symbols else tidy(product)
-
-
-def order_pieces(pieces, box=None):
-    """Descending order of the coefficients when every comparison is decidable."""
-    try:
-        return sorted(pieces, key=cmp_to_key(lambda a, b: compare_descending(a[0], b[0], box))), True
-    except ValueError:
-        return pieces, False
-
-
-def compare_descending(a: sympy.Expr, b: sympy.Expr, box=None) -> int:
-    """-1 if a > b, 1 if a < b, 0 if equal; ValueError when it depends on the parameters.
-
-    Numbers are compared by sympy's evalf, which raises its working precision
-    until the sign of a nonzero difference is certain; a difference that
-    evaluates to zero at 50 digits is then confirmed to be zero exactly.  A
-    symbolic difference is decided by the assumptions, or by interval
-    arithmetic over the declared ranges (``box``).
-    """
-    difference = a - b
-    if not difference.free_symbols:
-        value = sympy.N(difference, 50)
-        if value != 0 and abs(value) > sympy.Float(10) ** -45:
-            return -1 if value > 0 else 1
-        if sympy.simplify(difference) == 0:
-            return 0
-        raise ValueError("undecidable")
-    difference = sympy.simplify(difference)
-    sign = sign_on_box(difference, box) if box else None
-    if sign is not None and difference != 0:
-        return -sign
-    if difference.is_positive:
-        return -1
-    if difference.is_negative:
-        return 1
-    if difference.is_zero:
-        return 0
-    raise ValueError("undecidable")
-
-
-def verify_rebuild(decomposition: Decomposition) -> None:
-    """sum_k sigma_k u_k w_k^T must equal C, and the left vectors must be orthonormal.
-
-    Checked with 40-digit arithmetic (at two random points when there are
-    parameters): a wrong answer fails there with probability one, while an
-    exact zero test of trigonometric closed forms could take sympy minutes.
-    """
-    state, cut = decomposition.state, decomposition.cut
-    residual: dict[tuple[int, int], sympy.Expr] = {}
-    for label, amp in state.amplitudes.items():
-        i = side_index(label, cut.left, state.dims)
-        j = side_index(label, cut.right, state.dims)
-        residual[(i, j)] = -amp
-    for sigma, u, w in zip(decomposition.coefficients, decomposition.left, decomposition.right):
-        right = nonzero_entries(w)
-        for i, u_i in nonzero_entries(u):
-            for j, w_j in right:
-                residual[(i, j)] = residual.get((i, j), 0) + sigma * u_i * w_j
-    gram = [inner(a, b) - (1 if k == m else 0)
-            for k, a in enumerate(decomposition.left) for m, b in enumerate(decomposition.left) if m >= k]
-    spot_check(list(residual.values()) + gram, state)
-
-
-def spot_check(expressions: list[sympy.Expr], state: State, points: int = 2) -> None:
-    """Every expression must vanish (to 25 of 40 digits) at random points of the parameters."""
-    rng = random.Random(20261201)
-    symbols = sorted(state.symbols, key=lambda s: s.name)
-    for _ in range(points if symbols else 1):
-        values = {}
-        for s in symbols:
-            param = state.parameter(s.name)
-            if param is not None and param.range is not None:
-                lo, hi = param.range
-                values[s] = lo + sympy.Rational(rng.randint(1, 999), 1000) * (hi - lo)
-            elif s.is_positive:
-                values[s] = sympy.Rational(rng.randint(1, 999), 500)
-            elif s.is_real:
-                values[s] = sympy.Rational(rng.randint(-999, 999), 500)
-            else:
-                values[s] = sympy.Rational(rng.randint(-999, 999), 500) + sympy.I * sympy.Rational(
-                    rng.randint(-999, 999), 500)
-        with mpmath.workdps(40):
-            numbers = [evaluate_at(c, values) for c in expressions]
-        for number in numbers:
-            if not mpmath.isfinite(number) or abs(number) > mpmath.mpf(10) ** -25:
-                raise DecompositionError(
-                    f"the Schmidt pieces do not rebuild the state at {values} (residual {number})")
