@@ -1,0 +1,137 @@
+"""Exact proofs that an expression vanishes identically (rewriting, never sampling).
+
+1. ``expand``: many hand identities die here already.
+2. The polynomial form of :mod:`ketsplit.exact.polyform` (angles as c, s with
+   c^2 + s^2 = 1, phases as points of the unit circle, complex parameters as
+   x + i y, square roots and moduli as variables w with w^2 = f): the real
+   and imaginary parts of the numerator must reduce to 0 modulo those
+   relations (a Groebner basis).
+3. A constant: zero when it is algebraic with minimal polynomial x, or when
+   simplify makes it 0 (cos(1)^2 + sin(1)^2 - 1); both only for small constants.
+4. For what has no polynomial form (a complex parameter inside exp, t cos t):
+   sympy's rewriting with exponentials, over one denominator, expanded.
+
+``False`` means "not shown", never "nonzero".  Size guards, decided from the
+expression (operation count, powers of sums), keep each step from running
+away: :class:`TooLarge` says which one declined.
+"""
+
+from __future__ import annotations
+
+import sympy
+
+from ..exact.coerce import as_expr
+from ..exact.polyform import NoPolynomialForm, polynomial_form
+from ..states import Parameter, make_symbol
+
+MAX_OPS = 4000        # larger expressions are not rewritten
+MAX_POWER = 16        # (sum)^n with n above this is not expanded
+SMALL_CONSTANT = 40   # simplify / minimal_polynomial only for constants up to this many operations
+
+
+class TooLarge(Exception):
+    """The exact rewriting declined (too large); the message says why."""
+
+
+def kind_of(symbol: sympy.Symbol) -> str:
+    if symbol.is_integer:
+        return "integer"
+    if symbol.is_positive:
+        return "positive"
+    if symbol.is_real:
+        return "real"
+    return "complex"
+
+
+def parameters_of(symbols, box=None) -> tuple[Parameter, ...] | None:
+    """Parameters standing for these symbols (with their box ranges), or None when a
+    symbol is not one ketsplit makes (its assumptions do not round-trip)."""
+    box = box or {}
+    found = []
+    for symbol in sorted(symbols, key=lambda s: s.name):
+        param = Parameter(symbol.name, kind_of(symbol), box.get(symbol))
+        if make_symbol(param.name, param.kind) != symbol:
+            return None
+        found.append(param)
+    return tuple(found)
+
+
+def identically_zero(expr: sympy.Expr, params: tuple[Parameter, ...] | None = None) -> bool:
+    """True when exact rewriting proves ``expr`` == 0; False when it does not."""
+    expr = as_expr(expr)
+    if expr == 0:
+        return True
+    guard(expr)
+    if sympy.expand(expr) == 0:
+        return True
+    if not expr.free_symbols:
+        return constant_zero(expr) is True
+    if params is None:
+        params = parameters_of(expr.free_symbols)
+    try:
+        if params is None:
+            raise NoPolynomialForm("symbols that are not ketsplit parameters")
+        return _zero_in_polynomial_form(expr, params)
+    except NoPolynomialForm:
+        return _zero_with_exponentials(expr)
+
+
+def constant_zero(number: sympy.Expr) -> bool | None:
+    """A small constant: True when zero, False when its minimal polynomial proves it nonzero,
+    None when not shown (simplify proves zeros only; large constants are not tried)."""
+    if sympy.count_ops(number) > SMALL_CONSTANT:
+        return None
+    if is_algebraic_form(number):
+        x = sympy.Dummy("x")
+        try:
+            return sympy.minimal_polynomial(number, x) == x
+        except (NotImplementedError, sympy.polys.polyerrors.BasePolynomialError, ValueError):
+            return None
+    return True if sympy.simplify(number) == 0 else None
+
+
+def is_algebraic_form(number: sympy.Expr) -> bool:
+    """Built from rationals, i and rational powers only (so minimal_polynomial applies)."""
+    for node in sympy.preorder_traversal(number):
+        if node.is_Rational or node is sympy.I or node.is_Add or node.is_Mul:
+            continue
+        if node.is_Pow and node.exp.is_Rational:
+            continue
+        return False
+    return True
+
+
+def _zero_in_polynomial_form(expr: sympy.Expr, params: tuple[Parameter, ...]) -> bool:
+    used = tuple(p for p in params if p.symbol in expr.free_symbols)
+    form = polynomial_form([expr], used)
+    real, imag, _ = form.real_equations(expr)
+    for part in (real, imag):
+        guard(part)
+    if real == 0 and imag == 0:
+        return True
+    if not form.relations:
+        return False
+    # a Groebner basis over QQ stays one over any extension holding the parts' coefficients
+    basis = sympy.groebner(list(form.relations), *form.variables, order="lex")
+    try:
+        return all(sympy.reduced(part, list(basis.exprs), *form.variables, order="lex")[1] == 0
+                   for part in (real, imag))
+    except sympy.polys.polyerrors.BasePolynomialError as why:
+        raise TooLarge(f"the polynomial form could not be reduced ({why})") from None
+
+
+def _zero_with_exponentials(expr: sympy.Expr) -> bool:
+    rewritten = expr.rewrite(sympy.exp)
+    guard(rewritten)
+    numerator = sympy.numer(sympy.together(rewritten))
+    guard(numerator)
+    return sympy.expand(numerator, power_exp=True) == 0
+
+
+def guard(expr: sympy.Expr) -> None:
+    """Raise TooLarge when rewriting ``expr`` could run away."""
+    if sympy.count_ops(expr) > MAX_OPS:
+        raise TooLarge(f"the expression has more than {MAX_OPS} operations")
+    for power in expr.atoms(sympy.Pow):
+        if power.base.is_Add and power.exp.is_Integer and abs(power.exp) > MAX_POWER:
+            raise TooLarge(f"a power above {MAX_POWER} of a sum would be expanded")
