@@ -16,6 +16,11 @@ matrix.  The Dicke bases are orthonormal, so M has the Schmidt coefficients of
 the state; its exact decomposition is that of a two-part state whose levels
 stand for the Dicke states of each side.
 
+The reduced state on any m of the n qubits follows from the same splitting
+(see :func:`dicke_reduced`), so ``reduce``, ``figures``, ``cuts``, ``check``
+and ``compare`` all work on the n + 1 weights; ordinary labels are produced
+only on demand, and refused up front (limit ``terms``) when there are too many.
+
 In the language, ``dicke(n, k)`` builds a :class:`SymmetricKet`; sums and
 scalar multiples of symmetric kets stay symmetric; anything else (a tensor
 product, a sum with an ordinary ket) expands into ordinary labels.
@@ -29,8 +34,9 @@ from typing import Iterator, Mapping
 
 import sympy
 
+from . import limits
 from .exact.coerce import as_expr
-from .cuts import Cut, check_dense, parse_cut
+from .cuts import Cut, check_dense, parse_cut, parse_parts
 from .language.build import KET_FUNCTIONS, KetValue
 from .language.errors import InputError
 from .states import Parameter, State, abs_squared, simplify_real
@@ -44,20 +50,39 @@ def clean_weights(weights: Mapping[int, sympy.Expr]) -> Weights:
     return tuple(sorted((int(j), as_expr(c)) for j, c in weights.items() if c != 0))
 
 
+def label_count(n: int, weights: Mapping[int, object]) -> int:
+    """How many ordinary labels sum_j c_j D(n, j) has: sum of C(n, j), by arithmetic alone."""
+    return sum(int(sympy.binomial(n, j)) for j in weights)
+
+
+def check_listable(n: int, weights: Mapping[int, object]) -> int:
+    """The number of ordinary labels, refused up front (limit ``terms``) when too many to list."""
+    count = label_count(n, weights)
+    terms = " + ".join(f"dicke({n}, {j})" for j in sorted(weights))
+    limits.check(count, "terms", f"writing {terms} in ordinary labels ({count} basis kets; keep it "
+                 "a sum of dicke(n, k) terms so that it stays in the Dicke basis)")
+    return count
+
+
 class DickeAmplitudes(Mapping):
-    """The amplitudes of sum_j c_j D(n, j) on ordinary labels, produced only on demand."""
+    """The amplitudes of sum_j c_j D(n, j) on ordinary labels, produced only on demand.
+
+    Listing them is refused (LimitError, limit ``terms``) before it starts when
+    there are too many: the count is known from the binomials.
+    """
 
     def __init__(self, n: int, weights: Weights):
         self.n = n
         self.weights = dict(weights)
+        self.scaled = {j: c / sympy.sqrt(sympy.binomial(n, j)) for j, c in weights}
 
     def __getitem__(self, label: tuple[int, ...]) -> sympy.Expr:
         if len(label) != self.n or any(v not in (0, 1) for v in label) or sum(label) not in self.weights:
             raise KeyError(label)
-        j = sum(label)
-        return self.weights[j] / sympy.sqrt(sympy.binomial(self.n, j))
+        return self.scaled[sum(label)]
 
     def __iter__(self) -> Iterator[tuple[int, ...]]:
+        check_listable(self.n, self.weights)
         for j in sorted(self.weights):
             for ones in combinations(range(self.n), j):
                 label = [0] * self.n
@@ -66,7 +91,7 @@ class DickeAmplitudes(Mapping):
                 yield tuple(label)
 
     def __len__(self) -> int:
-        return sum(int(sympy.binomial(self.n, j)) for j in self.weights)
+        return check_listable(self.n, self.weights)
 
 
 @dataclass(frozen=True, eq=False)
@@ -140,10 +165,8 @@ class SymmetricKet(KetValue):
 
     @property
     def terms(self) -> dict[tuple[int, ...], sympy.Expr]:  # type: ignore[override]
-        amplitudes = DickeAmplitudes(self.nparts, clean_weights(self.weights))
-        check_dense(len(amplitudes), "symmetric state written out in ordinary labels (keep it a sum "
-                    "of dicke(n, k) terms so that it stays in the Dicke basis);")
-        return dict(amplitudes.items())
+        """The ordinary labels; refused up front (limit ``terms``) when there are too many."""
+        return dict(DickeAmplitudes(self.nparts, clean_weights(self.weights)).items())
 
     def coefficients(self):
         return self.weights.values()
@@ -178,8 +201,12 @@ def symmetric_sum(left: KetValue, right: KetValue) -> SymmetricKet | None:
     return None
 
 
-def dicke_ket(n: int, k: int) -> SymmetricKet:
+def dicke_ket(*args: int) -> SymmetricKet:
     """``dicke(n, k)`` in the language: the normalised Dicke state of n qubits with k ones."""
+    if len(args) != 2:
+        raise ValueError(f"expected two integer arguments, as in dicke(3, 1) (n parts, k ones); "
+                         f"found {len(args)}")
+    n, k = args
     if not 1 <= n <= MAX_SYMMETRIC_PARTS:
         raise ValueError(f"the number of parts must be from 1 to {MAX_SYMMETRIC_PARTS}, found {n}")
     if not 0 <= k <= n:
@@ -207,19 +234,88 @@ def side_names(state: State, parts: tuple[int, ...]) -> str:
     return ",".join(names)
 
 
+def dicke_share(n: int, j: int, k: int, m: int) -> sympy.Rational:
+    """C(k, m) C(n-k, j-m) / C(n, j): the squared weight of D(k, m) D(n-k, j-m) in D(n, j)."""
+    return sympy.binomial(k, m) * sympy.binomial(n - k, j - m) / sympy.binomial(n, j)
+
+
+def dicke_matrix(state: SymmetricState, k: int) -> dict[tuple[int, int], sympy.Expr]:
+    """The nonzero entries M[m, l] of the state across k | n - k in the Dicke bases of the sides."""
+    n = state.nparts
+    return {(m, j - m): c * sympy.sqrt(dicke_share(n, j, k, m))
+            for j, c in state.weights for m in range(max(0, j - (n - k)), min(k, j) + 1)}
+
+
 def dicke_split(state: SymmetricState, cut: Cut | str | None) -> tuple[State, Cut]:
     """The two-part state of M (Vandermonde splitting) in the Dicke bases of the two sides."""
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
     n, k = state.nparts, len(cut.left)
-    amplitudes = {}
-    for j, c in state.weights:
-        for m in range(max(0, j - (n - k)), min(k, j) + 1):
-            share = sympy.binomial(k, m) * sympy.binomial(n - k, j - m) / sympy.binomial(n, j)
-            amplitudes[(m, j - m)] = c * sympy.sqrt(share)
     names = (side_names(state, cut.left), side_names(state, cut.right))
-    split = State((k + 1, n - k + 1), amplitudes, names, state.params)
+    split = State((k + 1, n - k + 1), dicke_matrix(state, k), names, state.params)
     return split, Cut((0,), (1,))
+
+
+def dicke_reduced(state: SymmetricState, m: int) -> sympy.Matrix:
+    """The reduced state of the normalised state on any m of its qubits, in the Dicke basis
+    D(m, 0), ..., D(m, m) of those qubits: an (m + 1) x (m + 1) matrix.
+
+    Derivation.  Split each label with j ones into its m kept bits (a ones) and
+    its n - m traced bits (j - a ones).  Grouping the C(n, j) labels by a gives
+    C(m, a) C(n-m, j-a) of them for each a (Vandermonde's identity), so
+
+        D(n, j) = sum_a sqrt(C(m, a) C(n-m, j-a) / C(n, j)) D(m, a) D(n-m, j-a).
+
+    Write psi = sum_j c_j D(n, j) = sum_{a, l} M[a, l] D(m, a) D(n-m, l) with
+    M[a, j - a] = c_j sqrt(C(m, a) C(n-m, j-a) / C(n, j)).  The traced states
+    D(n-m, l) are orthonormal, so the partial trace is rho = M M^dagger.  For a
+    single Dicke state D(n, k) each row of M has one entry (l = k - a), so rho
+    is diagonal with the hypergeometric weights C(m, a) C(n-m, k-a) / C(n, k);
+    for m = 1 they are (n - k)/n and k/n.
+    """
+    normal = state.normalised()
+    entries = dicke_matrix(normal, m)
+    rows: dict[int, list[tuple[int, sympy.Expr]]] = {}
+    for (a, l), value in entries.items():
+        rows.setdefault(l, []).append((a, value))
+    rho = sympy.zeros(m + 1, m + 1)
+    for column in rows.values():  # M M^dagger, one traced Dicke state D(n-m, l) at a time
+        for a, x in column:
+            for b, y in column:
+                rho[a, b] += x * sympy.conjugate(y)
+    return rho.applyfunc(sympy.expand) if not state.symbols else \
+        sympy.Matrix(m + 1, m + 1, lambda a, b: entry_tidy(rho[a, b], a == b))
+
+
+def entry_tidy(value: sympy.Expr, diagonal: bool) -> sympy.Expr:
+    """A density-matrix entry simplified: real on the diagonal."""
+    return simplify_real(value) if diagonal else sympy.simplify(value)
+
+
+def symmetric_reduced(state: SymmetricState, keep: tuple[int, ...] | str) -> sympy.Matrix:
+    """The reduced state on the parts ``keep`` in their ordinary basis (2^m x 2^m), the same
+    contract as :func:`ketsplit.cuts.reduced`, built from :func:`dicke_reduced`.
+
+    With |x| the number of ones of an m-bit label x, D(m, a) has amplitude
+    C(m, a)^(-1/2) on every x with |x| = a, so rho[x, y] = R[|x|, |y|] /
+    sqrt(C(m, |x|) C(m, |y|)), R the Dicke-basis block.  Which parts are kept
+    does not matter: the state is symmetric.
+    """
+    if isinstance(keep, str):
+        keep = parse_parts(keep, state)
+    m = len(keep)
+    check_dense(4 ** m, "reduced density matrix")
+    block = dicke_reduced(state, m)
+    ones = [bin(x).count("1") for x in range(2 ** m)]
+    scale = [1 / sympy.sqrt(sympy.binomial(m, a)) for a in range(m + 1)]
+    return sympy.Matrix(2 ** m, 2 ** m, lambda x, y: block[ones[x], ones[y]] * scale[ones[x]]
+                        * scale[ones[y]])
+
+
+def symmetric_spectrum(state: SymmetricState, cut: Cut | str | None) -> list[sympy.Expr]:
+    """The squared Schmidt coefficients across ``cut``, descending where the order is decided;
+    for a single Dicke state (or a GHZ-like sum) read off M directly (:func:`monomial_schmidt`)."""
+    return symmetric_schmidt(state, cut).squared
 
 
 DICKE_NOTE = ("symmetric state: the vectors are in the Dicke bases of the two sides, "
@@ -265,3 +361,86 @@ def unit_vector(index: int, size: int) -> sympy.Matrix:
     vector = sympy.zeros(size, 1)
     vector[index] = 1
     return vector
+
+
+# -- every cut, one class of cuts per size --------------------------------------
+@dataclass(frozen=True)
+class CutClass(Cut):
+    """The ``count`` cuts with ``len(left)`` parts on one side, shown by one of them: a
+    permutation of the parts maps each to every other and leaves the state as it is."""
+
+    count: int = 1
+
+    def describe(self, state: State) -> str:
+        example = f"{side_names(state, self.left)}|{side_names(state, self.right)}"
+        alike = f"all {self.count} alike by symmetry, e.g. " if self.count > 1 else ""
+        return f"{len(self.left)}|{len(self.right)} ({alike}{example})"
+
+
+def cut_classes(n: int) -> list[CutClass]:
+    """One class per size k = 1 .. n//2; when k = n - k each cut is counted once."""
+    return [CutClass(tuple(range(k)), tuple(range(k, n)),
+                     int(sympy.binomial(n, k)) // (2 if 2 * k == n else 1)) for k in range(1, n // 2 + 1)]
+
+
+def symmetric_overview(state: SymmetricState, unit: str = "bits"):
+    """The ``cuts`` overview of a symmetric state: rank and entropy for each class of cuts.
+
+    The groups that split off follow from the 1|n-1 class alone: if one part
+    splits off, every part does (symmetry), so the state is fully product;
+    otherwise no group splits off either, since a product across some k|n-k
+    cut would, by symmetry, be a product across every k|n-k cut, and their
+    intersections separate every pair of parts, making the state fully product.
+    """
+    from .figures import CutSummary, Overview, Spectrum, spectrum_figures
+    n = state.nparts
+    if n < 2:
+        raise InputError("a state of one part has no cuts")
+    limits.check(n // 2, "parts", f"an overview of {n // 2} classes of cuts (a symmetric state "
+                 f"of {n} parts)")
+    summaries = []
+    for cut in cut_classes(n):
+        spectrum = Spectrum.of(symmetric_schmidt(state, cut))
+        summaries.append(CutSummary(cut, spectrum.rank,
+                                    spectrum_figures(spectrum, unit, ("entropy",))["entropy"]))
+    product = summaries[0].rank == 1
+    groups = tuple((p,) for p in range(n)) if product else (tuple(range(n)),)
+    return Overview(tuple(summaries), groups, bool(state.symbols))
+
+
+# -- checks: two symmetric sides compare their Dicke weights ---------------------
+class DickeLabel(tuple):
+    """The key (j,) of D(n, j) when two symmetric states are compared weight by weight;
+    ``where`` names it in a verdict."""
+
+    where: str
+
+    def __new__(cls, n: int, j: int) -> "DickeLabel":
+        label = super().__new__(cls, (j,))
+        label.where = f"dicke({n}, {j})"
+        return label
+
+
+def dicke_weights(value) -> tuple[int, dict[int, sympy.Expr]] | None:
+    """(n, {j: c_j}) of a symmetric ket or state, else None."""
+    if isinstance(value, SymmetricKet):
+        return value.nparts, dict(value.weights)
+    if isinstance(value, SymmetricState):
+        return value.nparts, dict(value.weights)
+    return None
+
+
+def dicke_basis_pair(lhs, rhs) -> tuple:
+    """Both sides of a check written in the Dicke basis when both are symmetric states of the
+    same n (ket values keyed by :class:`DickeLabel`), else both as they are.
+
+    The D(n, j) are orthonormal, so sum_j a_j D(n, j) = sum_j b_j D(n, j) exactly when
+    a_j = b_j for every j (and up to a phase exactly when the outer products agree): the
+    check compares n + 1 weights instead of 2^n amplitudes.
+    """
+    left, right = dicke_weights(lhs), dicke_weights(rhs)
+    if left is None or right is None or left[0] != right[0]:
+        return lhs, rhs
+    n = left[0]
+    return tuple(KetValue({DickeLabel(n, j): c for j, c in weights.items()}, n, None)
+                 for _, weights in (left, right))

@@ -5,6 +5,7 @@ from __future__ import annotations
 from typing import Iterable, Mapping
 
 from ..states import Parameter
+from ..symmetric import dicke_basis_pair
 from .decide import BUDGET, Options, decide
 from .points import domain_text
 from .sides import equality, mismatch, parameters, phase_equality, side_of
@@ -32,6 +33,7 @@ def check(lhs, rhs, *, real: str | Iterable[str] = (), positive: str | Iterable[
 def compare_values(lhs, rhs, declared: Mapping[str, Parameter], up_to_phase: bool,
                    options: Options) -> Verdict:
     """The verdict on two built values (KetValue, State, matrix, number)."""
+    lhs, rhs = dicke_basis_pair(lhs, rhs)  # two symmetric states: compare Dicke weights
     left, right = side_of(lhs), side_of(rhs)
     params = parameters(left.symbols() | right.symbols(), declared)
     why = mismatch(left, right)

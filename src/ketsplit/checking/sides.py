@@ -82,6 +82,8 @@ def _size_text(size: tuple[int, ...]) -> str:
 
 
 def where_text(side: Side, key: tuple) -> str:
+    if hasattr(key, "where"):  # a DickeLabel (ketsplit.symmetric): one Dicke state's weight
+        return key.where
     if side.kind == "ket":
         return label_text(key)
     if side.kind == "matrix":
