@@ -14,19 +14,18 @@ from __future__ import annotations
 
 __version__ = "0.1.0"
 
-from .api import ket, reduced, schmidt
+from .api import (check, conversion_probability, convertible, figures, ket, lu_equivalent,
+                  measures, rank, reduced, renyi, schmidt, strata)
+from .checking import Verdict
 from .cuts import Cut, parse_cut
 from .decomposition import Decomposition
 from .language.errors import InputError, LimitError
 from .session import Result, Session, Settings
 from .states import Parameter, State
-from .checking import Verdict, check
-from .figures import figures, measures, renyi  # noqa: E402  (the function shadows the module name)
-from .compare import conversion_probability, convertible, lu_equivalent
+from .strata import Stratum
 from .symmetric import SymmetricState, dicke
-from .strata import Stratum, strata  # noqa: E402  (the function shadows the package name)
 
-__all__ = ["ket", "schmidt", "reduced", "State", "Parameter", "Cut", "parse_cut",
+__all__ = ["ket", "schmidt", "rank", "reduced", "State", "Parameter", "Cut", "parse_cut",
            "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
            "figures", "measures", "renyi", "lu_equivalent", "convertible", "conversion_probability",
            "check", "Verdict", "dicke", "SymmetricState", "strata", "Stratum", "__version__"]

@@ -1,16 +1,40 @@
-"""The stable Python entry points, each a thin wrapper over the engine."""
+"""The stable Python entry points, each a thin wrapper over the engine.
+
+Every function here runs under the same time limit as a statement
+(``ketsplit.limits``: ``seconds``), and past it raises the same LimitError;
+every one takes the route the shell takes (:func:`ketsplit.decomposition.decompose`).
+"""
 
 from __future__ import annotations
 
-from typing import Iterable, Mapping
+import functools
+from typing import Callable, Iterable, Mapping, TypeVar
 
 import sympy
 
-from . import cuts, decomposition
+from . import checking as _checking
+from . import compare as _compare
+from . import cuts, decomposition, limits
+from . import figures as _figures
+from . import strata as _strata
 from .language.build import KetValue
 from .language.errors import InputError
+from .numeric.point import at_point
 from .session import Session
 from .states import State
+from .timebudget import time_limited
+
+Function = TypeVar("Function", bound=Callable)
+
+
+def bounded(function: Function) -> Function:
+    """``function`` under the time limit ``seconds``, like a statement of the shell."""
+    @functools.wraps(function)
+    def within_limit(*args, **kwargs):
+        seconds = limits.current().seconds
+        with time_limited(seconds, lambda: limits.over_time(seconds)):
+            return function(*args, **kwargs)
+    return within_limit
 
 
 def _names(names: str | Iterable[str]) -> list[str]:
@@ -19,6 +43,7 @@ def _names(names: str | Iterable[str]) -> list[str]:
     return list(names)
 
 
+@bounded
 def ket(text: str, *, real: str | Iterable[str] = (), positive: str | Iterable[str] = (),
         complex: str | Iterable[str] = (), integer: str | Iterable[str] = (),
         ranges: Mapping[str, tuple] | None = None, dims: Iterable[int] | None = None) -> State:
@@ -60,13 +85,42 @@ def _bound(session: Session, value) -> sympy.Expr:
         if isinstance(value, int) else value
 
 
-def schmidt(state: State, cut: str | cuts.Cut | None = None) -> decomposition.Decomposition:
-    """The exact Schmidt decomposition of the normalised state across ``cut``."""
-    return decomposition.schmidt(state, cut)
+@bounded
+def schmidt(state: State, cut: str | cuts.Cut | None = None, *, method: str = "auto",
+            digits: int = 30, at: Mapping | None = None) -> decomposition.Decomposition:
+    """The Schmidt decomposition of the normalised ``state`` across ``cut``.
+
+    ``method``: "auto" (closed forms where the structure has them, certified
+    numbers otherwise, exactly as the ``schmidt`` statement), "exact" or
+    "certified".  ``digits``: certified digits.  ``at={"t": "pi/6"}`` sets
+    parameters first.  ``Decomposition.kinds`` says per coefficient whether it
+    is exact or certified.
+    """
+    if at:
+        state = at_point(state, at)
+    return decomposition.decompose(state, cut, method, digits)
 
 
+@bounded
+def rank(state: State, cut: str | cuts.Cut | None = None, *, at: Mapping | None = None) -> int | None:
+    """The Schmidt rank (generic for a family); None when undecided at the precision ceiling."""
+    return schmidt(state, cut, at=at).rank
+
+
+@bounded
 def reduced(state: State, keep: str | Iterable[int]) -> sympy.Matrix:
     """The exact reduced density matrix on ``keep`` ("1", "13", "A,C", or 0-based indices)."""
     if not isinstance(keep, str):
         keep = tuple(keep)
     return cuts.reduced(state, keep)
+
+
+# The engine's other entry points, each under the same time limit.
+figures = bounded(_figures.figures)
+measures = figures
+renyi = bounded(_figures.renyi)
+lu_equivalent = bounded(_compare.lu_equivalent)
+convertible = bounded(_compare.convertible)
+conversion_probability = bounded(_compare.conversion_probability)
+strata = bounded(_strata.strata)
+check = bounded(_checking.check)

@@ -1,16 +1,23 @@
-"""The Schmidt decomposition as a value: coefficients, vectors, rank, and checks.
+"""The Schmidt decomposition as a value, and the one route every question takes.
 
-``schmidt(state, cut)`` normalises the state, decomposes it exactly
-(:mod:`ketsplit.exact.schmidt`), orders the coefficients where the order can
-be decided, and verifies that the pieces rebuild the state before returning.
+:func:`decompose` is the route: :mod:`ketsplit.planner` chooses closed forms
+or certified numbers from the structure of the state (a caller may override
+with ``method``), and the answer is one :class:`Decomposition` either way,
+saying per coefficient whether it is exact or certified.
+
+:func:`schmidt` is the closed-form route alone: it normalises the state,
+decomposes it exactly (:mod:`ketsplit.exact.schmidt`), orders the
+coefficients where the order can be decided, and verifies that the pieces
+rebuild the state before returning.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import mpmath
 import sympy
+from flint import ctx
 
 from .cuts import Cut, parse_cut, side_label
 from .exact.order import order_pieces, scaled
@@ -20,6 +27,10 @@ from .exact.selfcheck import verify_rebuild
 from .exact.signs import box_of, drop_abs
 from .render.ketprint import label_text
 from .render.ketprint import text as language_text
+from .exact.eigen import NoClosedForm
+from .language.errors import InputError
+from .numeric.schmidt import CertifiedSchmidt, certified_schmidt
+from .planner import plan
 from .states import State
 
 
@@ -35,14 +46,28 @@ class Decomposition:
     exact: bool = True
     ordered: bool = True              # False when the order depends on the parameters
     notes: tuple[str, ...] = field(default=())
+    route: str = "exact"              # the planner's route: exact | symmetric | certified
+    reason: str = ""                  # why the planner chose it
+    certified: CertifiedSchmidt | None = None  # the ball enclosures, on the certified route
+    algebraic: tuple[sympy.Expr, ...] = ()     # polynomials in x whose roots are the squared
+                                               # coefficients (certified route, when known)
 
     @property
-    def rank(self) -> int:
-        return len(self.coefficients)
+    def rank(self) -> int | None:
+        """The Schmidt rank; None when a certified coefficient may be zero (undecided)."""
+        return self.certified.rank if self.certified is not None else len(self.coefficients)
+
+    @property
+    def kinds(self) -> tuple[str, ...]:
+        """Per coefficient: "exact" (a closed form or an exact algebraic number) or "certified"."""
+        return ("exact" if self.exact else "certified",) * len(self.coefficients)
 
     @property
     def squared(self) -> list[sympy.Expr]:
         """Squared coefficients: the nonzero eigenvalues of either reduced state."""
+        if self.certified is not None:
+            with ctx.workprec(self.certified.bits):
+                return [c * c for c in self.coefficients]
         return [sympy.simplify(c ** 2) for c in self.coefficients]
 
     def vector_terms(self, vector: sympy.Matrix, side: str) -> list[tuple[sympy.Expr, str]]:
@@ -74,6 +99,9 @@ class Decomposition:
 
     def __repr__(self) -> str:
         from .render.ketprint import text
+        if self.certified is not None:
+            coeffs = ", ".join(self.certified.texts())
+            return f"Decomposition(rank={self.certified.rank_text()}, certified=[{coeffs}])"
         coeffs = ", ".join(text(c) for c in self.coefficients)
         return f"Decomposition(rank={self.rank}, coefficients=[{coeffs}])"
 
@@ -113,3 +141,55 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
                                   [p[2] for p in pieces], True, ordered, tuple(notes))
     verify_rebuild(decomposition)
     return decomposition
+
+
+def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
+              digits: int = 30) -> Decomposition:
+    """The Schmidt decomposition by the planner's route (closed form or certified numbers).
+
+    ``method``: "auto" (the planner decides from the structure), "exact" or
+    "certified".  A state with free parameters has no certified numbers: give
+    it values first (``State.subs`` or a ``with`` clause).
+    """
+    if not isinstance(cut, Cut) and not _symmetric(state):
+        cut = parse_cut(cut, state)
+    chosen = plan(state, cut, method)
+    if chosen.route == "certified":
+        return certified_decomposition(state, cut, digits, chosen.reason, chosen.factors)
+    try:
+        found = schmidt(state, cut)
+    except NoClosedForm as why:
+        if method == "exact" or state.symbols:
+            raise no_closed_form(state, str(why)) from None
+        return certified_decomposition(state, cut, digits, f"no closed form ({why})")
+    return replace(found, route=chosen.route, reason=chosen.reason)
+
+
+def _symmetric(state: State) -> bool:
+    from .symmetric import SymmetricState
+    return isinstance(state, SymmetricState)
+
+
+def no_closed_form(state: State, why: str) -> InputError:
+    """The refusal of a closed form, saying how to get certified numbers instead."""
+    names = sorted(s.name for s in state.symbols)
+    if not names:
+        return InputError(f"{why}; certified numbers are given by the default method (auto) or "
+                          "method='certified'")
+    return InputError(f"{why}; for certified numbers give the parameters values: "
+                      f"'with {names[0]}=...' (ketsplit.schmidt(state.subs({names[0]}=...)))")
+
+
+def certified_decomposition(state: State, cut: Cut | str | None, digits: int, reason: str,
+                            factors: tuple[sympy.Poly, ...] = ()) -> Decomposition:
+    """The certified route: ball enclosures of the coefficients, the rank proved or undecided."""
+    if state.symbols:
+        raise no_closed_form(state, "certified numbers need a value for every parameter")
+    found = certified_schmidt(state, cut, digits)
+    if not isinstance(cut, Cut):
+        cut = parse_cut(cut, state) if not _symmetric(state) else cut
+    notes = (f"certified numbers: {reason}",)
+    x = sympy.Symbol("x")
+    algebraic = tuple(f.as_expr().subs(f.gen, x) for f in factors)
+    return Decomposition(state, cut, list(found.coefficients), [], [], False, True, notes,
+                         "certified", reason, found, algebraic)

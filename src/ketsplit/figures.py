@@ -15,10 +15,11 @@ from functools import lru_cache
 from typing import Callable, Sequence
 
 import sympy
+from flint import arb, ctx
 
 from .exact.coerce import as_expr
 from .cuts import Cut, reduced, side_dimension
-from .decomposition import Decomposition, schmidt
+from .decomposition import Decomposition, decompose
 from .exact.signs import box_of, drop_abs
 from .language.errors import InputError
 from .states import State, simplify_real
@@ -208,7 +209,10 @@ def figures(state: State, cut: Cut | str | None = None, unit: str = "bits") -> d
     log_negativity, participation, geometric.  ``unit`` is "bits" or "nats"
     and applies to the logarithmic ones.
     """
-    return spectrum_figures(Spectrum.of(schmidt(state, cut)), unit)
+    found = decompose(state, cut)
+    if found.certified is not None:
+        return certified_figures(found, NAMES, unit)
+    return spectrum_figures(Spectrum.of(found), unit)
 
 
 measures = figures
@@ -232,7 +236,10 @@ def renyi_of(spectrum: Spectrum, alpha: sympy.Expr, unit: str = "bits") -> sympy
 
 def renyi(state: State, cut: Cut | str | None, alpha, unit: str = "bits") -> sympy.Expr:
     """The Renyi-alpha entropy of the reduced state of ``state`` across ``cut``."""
-    return renyi_of(Spectrum.of(schmidt(state, cut)), alpha, unit)
+    found = decompose(state, cut)
+    if found.certified is not None:
+        return certified_figures(found, (as_expr(alpha),), unit)[as_expr(alpha)]
+    return renyi_of(Spectrum.of(found), alpha, unit)
 
 
 # -- every cut of a many-part state ------------------------------------------
@@ -242,8 +249,8 @@ MAX_OVERVIEW_PARTS = 10  # 511 cuts
 @dataclass(frozen=True)
 class CutSummary:
     cut: Cut
-    rank: int
-    entropy: sympy.Expr
+    rank: int | None          # None: undecided at the precision ceiling
+    entropy: sympy.Expr | arb  # exact, or a certified ball
 
 
 @dataclass(frozen=True)
@@ -259,6 +266,11 @@ class Overview:
     summaries: tuple[CutSummary, ...]
     groups: tuple[tuple[int, ...], ...]
     generic: bool                          # ranks are generic (the state has parameters)
+
+    @property
+    def decided(self) -> bool:
+        """Every rank is proved, so the product split below is proved too."""
+        return all(s.rank is not None for s in self.summaries)
 
     @property
     def fully_product(self) -> bool:
@@ -284,6 +296,9 @@ def every_cut(nparts: int) -> list[Cut]:
 def overview(state: State, unit: str = "bits") -> Overview:
     """Schmidt rank and entropy across every cut, and which parts split off."""
     from .language.errors import LimitError
+    from .symmetric import SymmetricState, symmetric_overview  # one row per class of cuts
+    if isinstance(state, SymmetricState):
+        return symmetric_overview(state, unit)
     if state.nparts < 2:
         raise InputError("a state of one part has no cuts")
     if state.nparts > MAX_OVERVIEW_PARTS:
@@ -292,9 +307,10 @@ def overview(state: State, unit: str = "bits") -> Overview:
                          "(ketsplit.figures.MAX_OVERVIEW_PARTS): ask for single cuts instead")
     summaries = []
     for cut in every_cut(state.nparts):
-        spectrum = Spectrum.of(schmidt(state, cut))
-        summaries.append(CutSummary(cut, spectrum.rank, spectrum_figures(spectrum, unit, ("entropy",))
-                                    ["entropy"]))
+        found = decompose(state, cut)
+        entropy = certified_figures(found, ("entropy",), unit) if found.certified is not None else \
+            spectrum_figures(Spectrum.of(found), unit, ("entropy",))
+        summaries.append(CutSummary(cut, found.rank, entropy["entropy"]))
     return Overview(tuple(summaries), product_groups(state.nparts, summaries), bool(state.symbols))
 
 
@@ -310,6 +326,10 @@ def product_groups(nparts: int, summaries: Sequence[CutSummary]) -> tuple[tuple[
 def verdict(overview: Overview, state: State) -> str:
     """One line: fully product, which parts split off, or entangled across every cut."""
     from .cuts import join_names
+    if not overview.decided:
+        undecided = ", ".join(s.cut.describe(state) for s in overview.summaries if s.rank is None)
+        return (f"undecided: the rank across {undecided} is not proved at the precision ceiling "
+                "(write the amplitudes exactly, or raise 'digits')")
     if overview.fully_product:
         text = "fully product: every part splits off"
     elif overview.entangled_across_every_cut:
@@ -318,3 +338,92 @@ def verdict(overview: Overview, state: State) -> str:
         pieces = " ⊗ ".join(join_names(state, g) for g in overview.groups)
         text = f"splits as {pieces}; entangled within each group of more than one part"
     return text + (" (for generic parameter values)" if overview.generic else "")
+
+
+# -- figures of a certified decomposition, in ball arithmetic -----------------
+def certified_figures(found: Decomposition, names: Sequence[str | sympy.Expr],
+                      unit: str = "bits") -> dict[str | sympy.Expr, arb]:
+    """The named figures (and Renyi orders) as balls, from the certified coefficients.
+
+    Coefficients whose enclosures still contain zero (an undecided rank) are
+    included with their enclosures, so every ball holds the true value.
+    """
+    certified = found.certified
+    log_base = {"bits": arb(2).log(), "nats": arb(1)}.get(unit)
+    if log_base is None:
+        raise unit_error(unit)
+    with ctx.workprec(certified.bits):
+        log_base = arb(2).log() if unit == "bits" else arb(1)
+        sigmas = list(certified.coefficients) + list(certified.undecided)
+        p = [(s * s).nonnegative_part() for s in sigmas]
+        purity = sum((x * x for x in p), arb(0))
+        total = sum(sigmas, arb(0))
+        values: dict[str | sympy.Expr, arb] = {}
+        for name in names:
+            values[name] = _ball_figure(name, p, purity, total, log_base)
+        return values
+
+
+def unit_error(unit: str) -> InputError:
+    return InputError(f"unknown entropy unit {unit!r}; expected one of {', '.join(UNITS)}")
+
+
+def _ball_figure(name, p: list[arb], purity: arb, total: arb, log_base: arb) -> arb:
+    if not isinstance(name, str):
+        return _ball_renyi(as_expr(name), p, log_base)
+    formulas = {
+        "entropy": lambda: -sum((_xlogx(x) for x in p), arb(0)) / log_base,
+        "renyi2": lambda: -purity.log() / log_base,
+        "purity": lambda: purity,
+        "linear_entropy": lambda: 1 - purity,
+        "concurrence": lambda: (2 * (1 - purity)).nonnegative_part().sqrt(),
+        "negativity": lambda: (total * total - 1) / 2,
+        "log_negativity": lambda: 2 * total.log() / log_base,
+        "participation": lambda: 1 / purity,
+        "geometric": lambda: 1 - _ball_max(p),
+    }
+    if name not in formulas:
+        raise unknown_figure(name)
+    return formulas[name]()
+
+
+def _xlogx(x: arb) -> arb:
+    """x log x for a ball of nonnegative x, including balls that touch zero
+    (x log x is continuous at 0, decreasing on [0, 1/e], and >= -1/e)."""
+    if x > 0:
+        return x * x.log()
+    upper = x.upper()
+    if upper <= 0:
+        return arb(0)
+    low = upper * upper.log() if upper < arb(1) / arb(1).exp() else -1 / arb(1).exp()
+    return arb(0).union(low.lower()).union(arb(0).max(upper * upper.log()))
+
+
+def _ball_max(values: list[arb]) -> arb:
+    largest = values[0]
+    for v in values[1:]:
+        largest = largest.max(v)
+    return largest
+
+
+def _ball_renyi(alpha: sympy.Expr, p: list[arb], log_base: arb) -> arb:
+    """Renyi-alpha entropy of certified squared coefficients (alpha = 1: von Neumann)."""
+    if not (alpha.is_real and alpha.is_nonnegative) and alpha is not sympy.oo:
+        raise InputError(f"the Renyi order must be a real number >= 0 (or oo), found {alpha}")
+    if alpha == 1:
+        return -sum((_xlogx(x) for x in p), arb(0)) / log_base
+    if alpha is sympy.oo:
+        return -_ball_max(p).log() / log_base
+    a = arb(str(sympy.Float(alpha, 40))) if not alpha.is_Rational else arb(int(alpha.p)) / int(alpha.q)
+    if alpha == 0:
+        return arb(len([x for x in p if x > 0])).log() / log_base if all(x > 0 for x in p) else arb.nan()
+    total = sum((_power(x, a) for x in p), arb(0))
+    return total.log() / ((1 - a) * log_base)
+
+
+def _power(x: arb, a: arb) -> arb:
+    """x^a for a ball of nonnegative x and a > 0 (balls touching zero give [0, upper^a])."""
+    if x > 0:
+        return (a * x.log()).exp()
+    upper = x.upper()
+    return arb(0) if upper <= 0 else arb(0).union((a * upper.log()).exp())

@@ -147,6 +147,12 @@ def how_to_change(name: str) -> str:
     return f"the limit {name} = {shown(getattr(_current, name))} (change it with 'limits {name}=N')"
 
 
+def over_time(seconds: float, span: Span | None = None, source: str | None = None) -> LimitError:
+    """The error of a computation stopped by the time limit (statements and the Python API)."""
+    return LimitError(f"stopped after {seconds:g} s: the computation ran longer than "
+                      f"{how_to_change('seconds')}; it had no effect", span, source)
+
+
 def refuse(what: str, name: str, span: Span | None = None, source: str | None = None) -> LimitError:
     """A LimitError saying what was asked for and which limit stands in the way."""
     return LimitError(f"{what} is beyond {how_to_change(name)}", span, source)

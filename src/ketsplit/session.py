@@ -19,7 +19,7 @@ from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue
 from . import limits
 from .language.errors import InputError, LimitError, Span
 from .language.tokens import Kind, tokenize
-from .timebudget import StatementTimeout, alarm
+from .timebudget import time_limited
 from .render.report import Report
 from .states import KINDS, Parameter, State, make_symbol
 
@@ -148,20 +148,15 @@ class Session:
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""
         from .commands import dispatch
-        seconds, armed = limits.current().seconds, False
+        seconds = limits.current().seconds
         try:
-            with alarm(seconds) as armed:  # not armed inside an enclosing statement's limit
+            with time_limited(seconds, lambda: limits.over_time(seconds, Span(line, 1, len(statement)),
+                                                                statement)):
                 return dispatch(self, statement, line)
         except InputError as err:
             raise relocate(err, statement, line) from None
         except RecursionError:
             raise InputError("the statement is nested too deeply to evaluate",
-                             Span(line, 1, len(statement)), statement) from None
-        except StatementTimeout:
-            if not armed:
-                raise
-            raise LimitError(f"stopped after {seconds:g} s: the statement ran longer than "
-                             f"{limits.how_to_change('seconds')}; it had no effect",
                              Span(line, 1, len(statement)), statement) from None
         except ValueError as err:  # CPython refuses to print integers of more than 4300 digits
             if "integer string conversion" not in str(err):

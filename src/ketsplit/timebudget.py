@@ -21,7 +21,7 @@ import signal
 import threading
 import time
 from contextlib import contextmanager
-from typing import Iterator
+from typing import Callable, Iterator
 
 REFIRE = 0.5  # seconds between repeated raises when the first one was swallowed
 
@@ -64,3 +64,20 @@ def alarm(seconds: float, exception: type[BaseException] = StatementTimeout) -> 
         signal.signal(signal.SIGALRM, previous)
         if outer_left > 0:
             signal.setitimer(signal.ITIMER_REAL, max(outer_left - (time.monotonic() - started), 1e-3))
+
+
+@contextmanager
+def time_limited(seconds: float, refuse: Callable[[], BaseException]) -> Iterator[None]:
+    """Run the block under the statement time limit; past it, raise ``refuse()``.
+
+    The one place where a run-away computation becomes a clear error, shared
+    by the statements of a Session and by every Python API function.
+    """
+    armed = False
+    try:
+        with alarm(seconds) as armed:
+            yield
+    except StatementTimeout:
+        if not armed:  # an enclosing limit fired: it reports itself
+            raise
+        raise refuse() from None

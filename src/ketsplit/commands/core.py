@@ -4,9 +4,13 @@ from __future__ import annotations
 
 from .. import limits
 from ..cuts import join_names, reduced
-from ..decomposition import Decomposition, schmidt
+import sympy
+
+from .. import decomposition
+from ..cuts import Cut
+from ..decomposition import Decomposition
+from ..states import State
 from ..render.report import Field, Kets, Note, Report, Table
-from ..numeric.strategy import exact_or_certified
 from ..numeric.values import exact_cell
 from .numeric import certified_report
 from .registry import COMMANDS, CommandCall, command
@@ -33,21 +37,32 @@ def decomposition_report(d: Decomposition, name: str, digits: int | None = None)
     return Report(f"Schmidt decomposition of {name} across {cut_text} ({method})", items, d.notes)
 
 
-def decompose(call: CommandCall):
-    """The state, the cut, and its decomposition: exact within the budget, else certified."""
+def descending_text(polynomial: sympy.Expr) -> str:
+    """A polynomial in x written from its highest power down, in our syntax."""
+    from ..render.ketprint import terms_text
+    x = sympy.Symbol("x")
+    terms = sympy.Poly(polynomial, x).terms()
+    return terms_text((c, "" if not k else "x" if k == 1 else f"x^{k}") for (k,), c in terms).rstrip()
+
+
+def decompose(call: CommandCall) -> tuple[State, Cut, Decomposition]:
+    """The state, the cut, and its decomposition by the planner's route."""
     state, cut = call.state_and_cut()
-    settings = call.session.settings
-    return state, cut, exact_or_certified(state, cut, settings.exact_budget, settings.digits)
+    return state, cut, decomposition.decompose(state, cut, digits=call.session.settings.digits)
 
 
 @command("schmidt", "schmidt STATE [CUT] [with NAME=VALUE, ...]",
          "Schmidt coefficients, vectors and rank across a cut, and the state rewritten",
          "schmidt cos(t)|00> + sin(t)|11> 1|2")
 def run_schmidt(call: CommandCall) -> Report:
-    state, cut, outcome = decompose(call)
-    if outcome.exact is None:
-        return certified_report(outcome.certified, state, cut, call.subject()).with_notes(*outcome.notes)
-    return decomposition_report(outcome.exact, call.subject(), call.session.settings.digits)
+    state, cut, found = decompose(call)
+    if found.certified is not None:
+        report = certified_report(found.certified, state, cut, call.subject())
+        if found.algebraic:
+            roots_of = "; ".join(descending_text(p) for p in found.algebraic)
+            report = report.with_items(Field("squared coefficients are the roots of", roots_of))
+        return report.with_notes(*found.notes)
+    return decomposition_report(found, call.subject(), call.session.settings.digits)
 
 
 @command("reduce", "reduce STATE PARTS [with NAME=VALUE, ...]",
@@ -65,16 +80,13 @@ def run_reduce(call: CommandCall) -> Report:
          "the generic Schmidt rank across a cut",
          "rank |000> + |111> 1|23")
 def run_rank(call: CommandCall) -> Report:
-    state, cut, outcome = decompose(call)
-    if outcome.certified is not None:  # a rank proved by enclosures, or said to be undecided
-        found = outcome.certified
-        return Report(f"Schmidt rank across {cut.describe(state)}",
-                      (Field("rank", found.rank if found.rank is not None else found.rank_text()),),
-                      outcome.notes)
-    d = outcome.exact
+    state, cut, found = decompose(call)
+    if found.certified is not None:  # a rank proved by enclosures, or said to be undecided
+        rank = found.rank if found.rank is not None else found.certified.rank_text()
+        return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", rank),), found.notes)
     note = () if not state.symbols or call.point else (
         "generic rank: it can drop at special parameter values (see 'strata')",)
-    return Report(f"Schmidt rank across {cut.describe(d.state)}", (Field("rank", d.rank),), note)
+    return Report(f"Schmidt rank across {cut.describe(found.state)}", (Field("rank", found.rank),), note)
 
 
 @command("digits", "digits N", "set the number of certified digits shown for numeric values",

@@ -6,13 +6,14 @@ import re
 from dataclasses import replace
 
 import sympy
+from flint import arb
 
 from ..compare import compare_across
 from ..cuts import CUT_PATTERN, Cut, parse_cut
-from ..decomposition import schmidt
+from ..decomposition import decompose
 from ..numeric.digits import digits_cell
 from ..numeric.values import certified_real
-from ..figures import (LOGARITHMIC, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
+from ..figures import (certified_figures, LOGARITHMIC, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
                        unknown_figure, verdict, without_extrema)
 from ..language.errors import InputError, Span
 from ..plots import Marker, make_chart, terminal_lines, write_chart
@@ -103,6 +104,13 @@ def certified(value: sympy.Expr, digits: int) -> Digits | str:
     return digits_cell(certified_real(without_extrema(value), digits), digits)
 
 
+def entropy_cells(value, digits: int) -> tuple:
+    """(exact, certified digits) cells of an exact value or of a certified ball."""
+    if isinstance(value, arb):
+        return "no closed form", digits_cell(value, digits)
+    return value, certified(value, digits)
+
+
 def _terminates(value: sympy.Rational) -> bool:
     q = int(value.q)
     for prime in (2, 5):
@@ -127,11 +135,18 @@ def run_figures(call: CommandCall) -> Report:
     trimmed, options = split_options(call)
     unit, wanted = _selection(call, options)
     state, cut = trimmed.state_and_cut()
-    d = schmidt(state, cut)
-    values = _figure_values(Spectrum.of(d), wanted, unit)
     digits = call.session.settings.digits
-    rows = tuple((label, value, certified(value, digits)) for label, value in values.items())
-    items = (Field("squared Schmidt coefficients", list(d.squared)),
+    d = decompose(state, cut, digits=digits)
+    if d.certified is not None:
+        balls = certified_figures(d, wanted, unit)
+        rows = tuple((_figure_label(w, unit), "no closed form", digits_cell(balls[w], digits))
+                     for w in wanted)
+        squared = [digits_cell(ball, digits) for ball in d.squared]
+    else:
+        values = _figure_values(Spectrum.of(d), wanted, unit)
+        rows = tuple((label, value, certified(value, digits)) for label, value in values.items())
+        squared = list(d.squared)
+    items = (Field("squared Schmidt coefficients", squared),
              Table(("figure", "exact", f"certified digits (up to {digits})"), rows))
     return Report(f"entanglement figures of {trimmed.subject()} across {cut.describe(state)}",
                   items, d.notes)
@@ -151,8 +166,8 @@ def run_cuts(call: CommandCall) -> Report:
     state = trimmed.state()
     found = overview(state, unit)
     digits = call.session.settings.digits
-    rows = tuple((s.cut.describe(state), s.rank, s.entropy, certified(s.entropy, digits))
-                 for s in found.summaries)
+    rows = tuple((s.cut.describe(state), s.rank if s.rank is not None else "undecided",
+                  *entropy_cells(s.entropy, digits)) for s in found.summaries)
     notes = ("ranks are generic: they can drop at special parameter values (see 'strata')",) \
         if found.generic else ()
     return Report(f"every cut of {trimmed.args.strip()} ({len(rows)} bipartitions)",
@@ -311,7 +326,7 @@ def run_plot(call: CommandCall) -> Report:
     inner = replace(call, args=match.group(4), offset=call.offset + match.start(4))
     state, cut = inner.state_and_cut()
     symbol, bounds = plotted_parameter(call, state, match.group(5), call.offset + match.start(5))
-    d = schmidt(state, cut)
+    d = decompose(state, cut, method="exact")
     markers, note = strata_markers(call, state, cut, symbol)
     title = f"{_figure_label(figure, unit) if figure != COEFFICIENTS else 'Schmidt coefficients'} of " \
             f"{inner.subject()} across {cut.describe(state)}"

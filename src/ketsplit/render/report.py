@@ -71,3 +71,6 @@ class Report:
 
     def with_notes(self, *notes: str) -> "Report":
         return Report(self.title, self.items, self.notes + tuple(n for n in notes if n))
+
+    def with_items(self, *items: Item) -> "Report":
+        return Report(self.title, self.items + items, self.notes)

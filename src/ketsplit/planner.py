@@ -1,0 +1,184 @@
+"""Which route answers a Schmidt question, chosen from the problem's structure alone.
+
+Every question about a decomposition (``schmidt``, ``rank``, ``figures``,
+``cuts``, ``compare``, ``plot``, ``check``, ``strata`` and the Python API)
+asks :func:`plan` first.  The answer depends only on the state and the cut,
+never on the clock, so a worksheet gives the same kind of answer on a fast
+and on a slow machine:
+
+- a permutation-symmetric state keeps its Dicke basis (``symmetric``);
+- a state with free parameters is decomposed in closed form (``exact``);
+  where its structure has no closed form the answer asks for a point;
+- a state of numbers is split into independent blocks.  A block whose
+  smaller side is at most 2 always has a closed form.  For larger blocks
+  with Gaussian-rational entries the characteristic polynomial of the
+  smaller reduced state is factored over the integers (python-flint; cheaper
+  than one certified eigenvalue solve): irreducible factors of degree at
+  most :data:`MAX_CLOSED_DEGREE` are solved in closed form, larger ones make
+  the block ``certified`` (the squared coefficients are then exact algebraic
+  numbers, the roots of the named factors, shown with certified digits).
+  Algebraic entries (square roots, roots of unity) take the closed form on
+  small sides; transcendental numbers (pi, e, cos 1) and large sides go to
+  certified numbers directly.
+
+A caller may override the choice (``method="exact"`` or ``"certified"``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+import flint
+import sympy
+from sympy.polys.polyerrors import CoercionFailed
+
+from .cuts import CoefficientMatrix, Cut
+from .states import State
+
+Route = Literal["exact", "certified", "symmetric"]
+METHODS = ("auto", "exact", "certified")
+
+MAX_CLOSED_DEGREE = 3     # irreducible factors up to this degree are solved in closed form
+MAX_ALGEBRAIC_SIDE = 4    # blocks with algebraic entries try closed forms up to this side
+MAX_PROBED_SIDE = 32      # Gaussian-rational blocks up to this side have their charpoly factored
+
+
+@dataclass(frozen=True)
+class Plan:
+    """The route and why; ``factors`` are the irreducible factors that decided it."""
+
+    route: Route
+    reason: str
+    factors: tuple[sympy.Poly, ...] = ()
+
+
+def plan(state: State, cut: Cut, method: str = "auto") -> Plan:
+    """The route for the Schmidt decomposition of ``state`` across ``cut``."""
+    from .symmetric import SymmetricState
+    if method not in METHODS:
+        raise ValueError(f"method must be one of {', '.join(METHODS)}, found {method!r}")
+    if isinstance(state, SymmetricState):
+        return Plan("symmetric", "a permutation-symmetric state keeps its Dicke basis")
+    if method == "exact":
+        return Plan("exact", "closed forms were asked for")
+    if method == "certified":
+        return Plan("certified", "certified numbers were asked for")
+    if state.symbols:
+        return Plan("exact", "the state has free parameters: closed forms in them")
+    return _plan_numbers(CoefficientMatrix(state, cut))
+
+
+def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
+    """Closed forms where every block has them, else certified numbers."""
+    factors: list[sympy.Poly] = []
+    scales: list[tuple[int, int]] = []  # (factors so far, the block's common denominator)
+    for rows, cols in matrix.blocks():
+        side = min(len(rows), len(cols))
+        if side <= 2:
+            continue
+        members = set(rows)
+        entries = {(i, j): v for (i, j), v in matrix.entries.items() if i in members}
+        integers = _gaussian_integers(entries, rows, cols)
+        if integers is None:
+            if side <= MAX_ALGEBRAIC_SIDE and _algebraic(entries.values()):
+                continue
+            why = "transcendental numbers among the amplitudes" if side <= MAX_ALGEBRAIC_SIDE else \
+                f"a block of side {side} with algebraic amplitudes"
+            return Plan("certified", f"{why}: certified numbers")
+        if side > MAX_PROBED_SIDE:
+            return Plan("certified", f"a dense block of side {side}: certified numbers")
+        real, imag, scale = integers
+        factors += [f for f in irreducible_factors(real, imag) if f.degree() > 1 or f.TC() != 0]
+        scales.append((len(factors), scale))
+    large = [f.degree() for f in factors if f.degree() > MAX_CLOSED_DEGREE]
+    if large:
+        degrees = ", ".join(map(str, large))
+        return Plan("certified", "the squared coefficients are roots of irreducible polynomials of "
+                    f"degree {degrees}, which have no closed form: certified digits",
+                    normalised_factors(factors, scales, matrix))
+    return Plan("exact", "every block has a closed-form spectrum")
+
+
+def _gaussian_integers(entries: dict, rows: list[int], cols: list[int]):
+    """(real, imaginary) integer matrices of the block scaled by a common denominator, or None."""
+    smaller_rows = len(rows) <= len(cols)
+    row_at = {r: k for k, r in enumerate(rows)}
+    col_at = {c: k for k, c in enumerate(cols)}
+    values = {}
+    for (i, j), v in entries.items():
+        try:
+            z = sympy.QQ_I.from_sympy(v)
+        except (CoercionFailed, TypeError, ValueError):
+            return None
+        key = (row_at[i], col_at[j]) if smaller_rows else (col_at[j], row_at[i])
+        values[key] = (z.x, z.y if smaller_rows else -z.y)
+    scale = 1
+    for x, y in values.values():
+        scale = sympy.ilcm(scale, int(x.denominator), int(y.denominator))
+    shape = (len(rows), len(cols)) if smaller_rows else (len(cols), len(rows))
+    real, imag = flint.fmpz_mat(*shape), flint.fmpz_mat(*shape)
+    for (i, j), (x, y) in values.items():
+        real[i, j] = int(x * scale)
+        imag[i, j] = int(y * scale)
+    return real, imag, scale
+
+
+def normalised_factors(factors: list[sympy.Poly], scales: list[tuple[int, int]],
+                       matrix: CoefficientMatrix) -> tuple[sympy.Poly, ...]:
+    """The factors rewritten so that their roots are the squared Schmidt coefficients.
+
+    A block scaled by s has eigenvalues s^2 lambda; the squared coefficients
+    are lambda / |psi|^2.  Empty when some amplitude is not Gaussian-rational
+    (the norm is then not rational and the factors of the probed blocks alone
+    would not name every coefficient).
+    """
+    try:
+        numbers = [sympy.QQ_I.from_sympy(v) for v in matrix.entries.values()]
+    except (CoercionFailed, TypeError, ValueError):
+        return ()
+    norm = sum((z.x ** 2 + z.y ** 2 for z in numbers), sympy.QQ(0))
+    x = sympy.Dummy("x")
+    found, start = [], 0
+    for end, scale in scales:
+        stretch = sympy.Rational(scale) ** 2 * sympy.Rational(norm.numerator, norm.denominator)
+        for f in factors[start:end]:
+            mapped = sympy.Poly(f.as_expr().subs(f.gen, stretch * x), x)
+            found.append(mapped.primitive()[1] * sympy.sign(mapped.LC()))
+        start = end
+    return tuple(found)
+
+
+def irreducible_factors(real: flint.fmpz_mat, imag: flint.fmpz_mat) -> list[sympy.Poly]:
+    """Irreducible factors over QQ of the charpoly of B B^H, with B = real + i imag.
+
+    B B^H = A + i S with A = R R^T + I I^T and S = I R^T - R I^T; the real
+    matrix [[A, -S], [S, A]] has characteristic polynomial p(x)^2 where p is
+    that of B B^H, so its factors (with halved multiplicities) are p's.
+    """
+    a = real * real.transpose() + imag * imag.transpose()
+    s = imag * real.transpose() - real * imag.transpose()
+    n = a.nrows()
+    embedded = flint.fmpz_mat(2 * n, 2 * n)
+    for i in range(n):
+        for j in range(n):
+            embedded[i, j] = embedded[i + n, j + n] = a[i, j]
+            embedded[i, j + n], embedded[i + n, j] = -s[i, j], s[i, j]
+    _, factors = embedded.charpoly().factor()
+    x = sympy.Dummy("x")
+    return [sympy.Poly([int(c) for c in reversed(f.coeffs())], x) for f, _ in factors]
+
+
+def _algebraic(values) -> bool:
+    """Every amplitude is an algebraic number (no pi, e, or transcendental function values)."""
+    for v in values:
+        if v.is_Rational:
+            continue
+        if v.has(sympy.pi, sympy.E, sympy.exp, sympy.log, sympy.sin, sympy.cos, sympy.tan,
+                 sympy.sinh, sympy.cosh, sympy.tanh, sympy.atan, sympy.acos, sympy.asin):
+            if not v.is_algebraic:
+                return False
+    return True
+
+
+__all__ = ["Plan", "plan", "METHODS", "irreducible_factors"]
