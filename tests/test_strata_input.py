@@ -7,6 +7,7 @@ import sympy
 
 import ketsplit
 from ketsplit import InputError
+from ketsplit.language.errors import LimitError
 from ketsplit.states import Parameter, State
 from ketsplit.strata import strata
 
@@ -43,9 +44,8 @@ def test_transcendental_mixture_is_an_input_error():
         strata(ketsplit.ket("|00> + t cos(t)|11>", real="t"), "1|2")
 
 
-def test_time_budget_hit_says_so_and_keeps_the_generic_stratum():
+def test_time_limit_hit_is_a_clear_error_never_a_partial_table():
+    # issue 11: an exhausted limit must not return part of the strata as if complete
     psi = ketsplit.ket("cos(t)|00> + sin(t) cos(p)|11> + sin(t) sin(p)|22>", real="t p")
-    found = strata(psi, "1|2", budget=0.05)
-    assert not found.complete
-    assert any("budget" in n for n in found.notes)
-    assert found[0].rank == 3
+    with pytest.raises(LimitError, match="time limit .* no table is given"):
+        strata(psi, "1|2", budget=0.05)

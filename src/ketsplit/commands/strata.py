@@ -33,10 +33,17 @@ def run_strata(call: CommandCall) -> Report:
         notes.append(f"≈ marks certified digits ({digits} asked for; every digit shown is certain) "
                      "of exact values")
     title = f"rank strata of {call.subject()} across {cut.describe(state)}"
-    if not found.complete:
-        items.append(Note("incomplete: the time budget ran out (see the notes); "
-                          "raise it with strata_budget in the session settings"))
+    if found.undecided:
+        items.append(Note("UNDECIDED: these loci were neither found to hold a point of the ranges "
+                          "nor proved empty; they are not strata"))
+        items.append(Table(("rank <=", "on", "why undecided", "how to decide"),
+                           tuple((u.rank, equations_text(u.equations), u.reason, u.hint)
+                                 for u in found.undecided)))
     return Report(title, tuple(items), tuple(notes))
+
+
+def equations_text(equations) -> str:
+    return ", ".join(f"{text(e)} = 0" for e in equations)
 
 
 def where(stratum: Stratum, digits: int) -> str:

@@ -9,33 +9,49 @@ and :mod:`ketsplit.exact.polyform` for the polynomial variables.
 from __future__ import annotations
 
 from ..cuts import CoefficientMatrix, Cut, parse_cut
-from ..exact.polyform import NoPolynomialForm, compare
+from ..exact.polyform import NoPolynomialForm
 from ..language.errors import InputError
 from ..numeric.strategy import exact_or_certified
 from ..states import State
 from .budget import Budget
 from .family import Family, exact_rank
-from .model import Stratum, Strata, StrataError
+from .holomorphic import holomorphic_family, HolomorphicSearch
+from .model import Stratum, Strata, StrataError, Undecided
+from .proved import Undecidable, order
 from .search import Search
 
-DEFAULT_BUDGET = 30.0  # seconds of exact algebra before the search stops and says so
+DEFAULT_BUDGET = 30.0  # seconds of exact algebra before the search stops with a LimitError
 
 
 def strata(state: State, cut: Cut | str | None = None, *, budget: float = DEFAULT_BUDGET) -> Strata:
-    """Every Schmidt rank of the family across ``cut`` inside the declared ranges, generic first."""
+    """Every Schmidt rank of the family across ``cut`` inside the declared ranges, generic first.
+
+    The answer never depends on the clock: when ``budget`` seconds run out the
+    computation stops with a LimitError saying what was not finished.
+    """
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
-    check_ranges(state)
-    state, notes = fix_point_ranges(state)
+    try:
+        check_ranges(state)
+        state, notes = fix_point_ranges(state)
+        found = family_strata(state, cut, budget)
+    except Undecidable as err:
+        raise InputError(f"strata: {err}") from None
+    return Strata(found, notes + found.notes, found.undecided)
+
+
+def family_strata(state: State, cut: Cut, budget: float) -> Strata:
+    """Complex parameters met only polynomially are answered over C; the rest over the reals."""
     if not state.symbols:
-        found = constant_strata(state, cut, budget)
-        return Strata(found, notes + found.notes)
+        return constant_strata(state, cut, budget)
+    holomorphic = holomorphic_family(state, cut)
+    if holomorphic is not None:
+        return HolomorphicSearch(holomorphic, Budget(budget)).run()
     try:
         family = Family.of(state, cut)
     except NoPolynomialForm as err:
         raise InputError(f"strata: {err}") from None
-    found = Search(family, Budget(budget)).run()
-    return Strata(found, notes + found.notes, found.complete)
+    return Search(family, Budget(budget)).run()
 
 
 def check_ranges(state: State) -> None:
@@ -45,14 +61,14 @@ def check_ranges(state: State) -> None:
         if not param.is_real:
             raise InputError(f"the complex parameter {param.name} cannot have a range")
         lo, hi = param.range
-        if compare(lo, hi) > 0:
+        if order(lo, hi) > 0:
             raise InputError(f"the range of {param.name} is empty: {lo} > {hi}")
 
 
 def fix_point_ranges(state: State) -> tuple[State, tuple[str, ...]]:
     """Parameters whose range is one point [v, v] are set to v first."""
     fixed = {p.name: p.range[0] for p in state.params
-             if p.range is not None and compare(p.range[0], p.range[1]) == 0}
+             if p.range is not None and order(p.range[0], p.range[1]) == 0}
     if not fixed:
         return state, ()
     notes = tuple(f"{name} is fixed at {value} by its range" for name, value in fixed.items())
@@ -73,4 +89,4 @@ def constant_strata(state: State, cut: Cut, budget: float) -> Strata:
     return Strata([stratum], ("the state has no parameters, so there are no strata",))
 
 
-__all__ = ["strata", "Stratum", "Strata", "StrataError", "DEFAULT_BUDGET"]
+__all__ = ["strata", "Stratum", "Strata", "StrataError", "Undecided", "DEFAULT_BUDGET"]

@@ -1,12 +1,13 @@
-"""A wall-clock budget shared by the steps of one strata computation.
+"""A wall-clock limit shared by the steps of one strata computation.
 
 Groebner bases can grow without warning.  A :class:`Budget` carries one
 deadline for the whole search; :meth:`Budget.run` runs a step under
 :func:`ketsplit.numeric.budget.time_budget` with what is left (a timer signal
 that interrupts sympy's pure-Python loops; it is armed only in the main
 thread, elsewhere the deadline is checked between steps by
-:meth:`Budget.check`).  Running out raises :class:`BudgetExceeded`; the search
-keeps what it found before.
+:meth:`Budget.check`).  Running out raises :class:`BudgetExceeded`, a
+:class:`~ketsplit.language.errors.LimitError`: the limit stops the whole
+computation, it never shortens the answer.
 """
 
 from __future__ import annotations
@@ -15,13 +16,14 @@ import time
 from dataclasses import dataclass, field
 from typing import Callable, TypeVar
 
+from ..language.errors import LimitError
 from ..numeric.budget import OverBudget, time_budget
 
 T = TypeVar("T")
 
 
-class BudgetExceeded(Exception):
-    """The time budget ran out."""
+class BudgetExceeded(LimitError):
+    """The time limit ran out before the strata were complete."""
 
 
 @dataclass
@@ -34,7 +36,7 @@ class Budget:
         return self.seconds - (time.monotonic() - self.start)
 
     def exceeded(self) -> BudgetExceeded:
-        return BudgetExceeded(f"the time budget of {self.seconds:g} s was used up")
+        return BudgetExceeded(f"the time limit of {self.seconds:g} s ran out")
 
     def check(self) -> None:
         if self.remaining <= 0:

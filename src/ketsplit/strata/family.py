@@ -75,19 +75,7 @@ class Family:
         return sympy.Matrix(self.entries)
 
     def minors(self, size: int) -> list[sympy.Expr]:
-        """Every size x size minor, expanded (the entries themselves for size 1)."""
-        m, n = self.shape
-        count = comb(m, size) * comb(n, size)
-        if count > MAX_MINORS:
-            raise LimitError(f"deciding rank {size - 1} needs {count} minors of size {size}; the "
-                             f"limit is {MAX_MINORS} (ketsplit.strata.family.MAX_MINORS)")
-        found = []
-        for rows in combinations(range(m), size):
-            for cols in combinations(range(n), size):
-                value = sympy.expand(self.matrix.extract(list(rows), list(cols)).det(method="berkowitz"))
-                if value != 0:
-                    found.append(value)
-        return found
+        return nonzero_minors(self.matrix, size)
 
     def rank_conditions(self, rank: int) -> list[sympy.Expr]:
         """Real polynomials whose common zeros are where the rank is at most ``rank``."""
@@ -125,6 +113,22 @@ class Family:
         for r in self.form.radicals:
             values[r.variable] = sympy.sqrt(sympy.expand(r.argument.xreplace(values)))
         return values
+
+
+def nonzero_minors(matrix: sympy.Matrix, size: int) -> list[sympy.Expr]:
+    """Every size x size minor that does not vanish identically, expanded."""
+    m, n = matrix.shape
+    count = comb(m, size) * comb(n, size)
+    if count > MAX_MINORS:
+        raise LimitError(f"deciding rank {size - 1} needs {count} minors of size {size}; the "
+                         f"limit is {MAX_MINORS} (ketsplit.strata.family.MAX_MINORS)")
+    found = []
+    for rows in combinations(range(m), size):
+        for cols in combinations(range(n), size):
+            value = sympy.expand(matrix.extract(list(rows), list(cols)).det(method="berkowitz"))
+            if value != 0:
+                found.append(value)
+    return found
 
 
 def exact_rank(numbers: list[sympy.Expr], shape: tuple[int, int]) -> int:

@@ -16,7 +16,9 @@ class Stratum:
     rank are listed in strata of their own); the generic stratum has none.
     ``points`` lists every point (parameter symbol -> exact value) when the
     stratum is finite inside the ranges, else None.  ``sample`` is one point
-    of the stratum, its rank verified exactly.
+    of the stratum inside the ranges, its rank verified exactly; a stratum is
+    only ever listed with one (the generic stratum may instead rest on the
+    proof that its rank holds on an open dense part of the ranges).
     """
 
     rank: int
@@ -31,17 +33,33 @@ class Stratum:
         return not self.equations
 
 
+@dataclass(frozen=True, eq=False)
+class Undecided:
+    """A locus where the rank is at most ``rank`` that was neither sampled nor proved empty.
+
+    It is not a stratum: ``reason`` says what was tried, ``hint`` how to decide it.
+    """
+
+    rank: int
+    equations: tuple[sympy.Expr, ...]
+    reason: str
+    hint: str
+
+
 class Strata(list):
     """A list of :class:`Stratum`, generic first, with the notes of the computation.
 
-    ``complete`` is False when the time budget ran out; the strata found until
-    then are kept and ``notes`` says where the search stopped.
+    Every listed stratum is proved (with a verified sample point); loci proved
+    to hold no point inside the ranges are named in ``notes``; loci that were
+    neither are in ``undecided``, never in the list.  A computation that runs
+    out of time raises :class:`~ketsplit.language.errors.LimitError` instead of
+    returning part of the list.
     """
 
-    def __init__(self, items=(), notes: tuple[str, ...] = (), complete: bool = True):
+    def __init__(self, items=(), notes: tuple[str, ...] = (), undecided: tuple[Undecided, ...] = ()):
         super().__init__(items)
         self.notes = tuple(notes)
-        self.complete = complete
+        self.undecided = tuple(undecided)
 
 
 class StrataError(ArithmeticError):

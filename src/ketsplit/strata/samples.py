@@ -15,7 +15,8 @@ from typing import Iterator
 
 import sympy
 
-from ..exact.polyform import Coordinate, admissible, compare
+from ..exact.polyform import Coordinate, admissible
+from .proved import inside
 
 NICE_RATIONALS = tuple(sympy.Rational(p, q) for p, q in (
     (1, 1), (2, 1), (1, 2), (0, 1), (-1, 1), (3, 1), (1, 3), (-2, 1), (3, 2), (-1, 2), (5, 1)))
@@ -48,21 +49,20 @@ def _angles(coordinate: Coordinate) -> Iterator[sympy.Expr]:
     step = sympy.pi / (12 * coordinate.scale)
     rng = coordinate.parameter.range or (sympy.Integer(0), coordinate.period)
     lo, hi = rng
-    first = int(sympy.ceiling(sympy.N(lo / step, 30)))
-    last = int(sympy.floor(sympy.N(hi / step, 30)))
+    first = int(sympy.ceiling(lo / step))
+    last = int(sympy.floor(hi / step))
     if coordinate.parameter.range is None:
         last -= 1
     multiples = list(range(first, last + 1))
     preference = (4, 3, 6, 2, 1, 12)  # pi/4 and pi/3 first: endpoints are often special
     order = sorted(multiples, key=lambda k: (preference.index(12 // int(sympy.gcd(k, 12))), abs(k)))
     found = [k * step for k in order]
-    yield from (v for v in found if compare(v, lo) >= 0 and compare(v, hi) <= 0)
+    yield from (v for v in found if inside(v, lo, hi))
     if not found:
         for tau in (sympy.Rational(1, 2), sympy.Rational(1, 3), sympy.Rational(2, 3)):
             base = 2 * sympy.atan(tau) / coordinate.scale
             yield from (base + k * coordinate.period for k in range(-3, 4)
-                        if compare(base + k * coordinate.period, lo) >= 0
-                        and compare(base + k * coordinate.period, hi) <= 0)
+                        if inside(base + k * coordinate.period, lo, hi))
 
 
 def _inner_rationals(rng) -> Iterator[sympy.Expr]:

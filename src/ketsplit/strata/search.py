@@ -24,19 +24,21 @@ from __future__ import annotations
 
 import random
 from dataclasses import dataclass, field
+from functools import cmp_to_key
 from itertools import combinations
 
 import sympy
 
 from ..cuts import CoefficientMatrix, Cut
-from ..exact.polyform import Coordinate, compare, real_imag
+from ..exact.polyform import Coordinate, real_imag
 from ..render.ketprint import text
-from ..language.errors import LimitError
 from ..states import State
 from . import samples
 from .budget import Budget, BudgetExceeded
 from .family import Family, exact_rank
-from .model import Stratum, Strata, StrataError
+from .model import Stratum, Strata, StrataError, Undecided
+from .proved import order, sign_of, zero
+from .region import Located, locate, nowhere_zero
 from .solve import Component, Point, components, groebner, is_finite, real_points, univariate_points
 
 
@@ -56,6 +58,7 @@ class Search:
     points: list[Found] = field(default_factory=list)
     curves: list[tuple[Stratum, Component]] = field(default_factory=list)
     notes: list[str] = field(default_factory=list)
+    undecided: list[Undecided] = field(default_factory=list)
 
     def __post_init__(self) -> None:
         form = self.family.form
@@ -69,20 +72,19 @@ class Search:
     def run(self) -> Strata:
         self.notes.extend(period_notes(self.family.form.coordinates))
         generic = self.generic_rank()
-        complete = True
         # one coordinate: every lower point is a root of the rank-(R-1) conditions, and its
         # exact rank is taken one by one, so the lower levels need no minors of their own
         lowest = generic - 1 if self.single_coordinate() is not None else 0
         for rank in range(generic - 1, lowest - 1, -1):
             try:
                 self.level(rank)
-            except (BudgetExceeded, LimitError) as err:
-                complete = False
-                self.notes.append(f"{err.args[0]} while looking for the points of rank <= {rank}; "
-                                  "the strata shown were found before that and the list is "
-                                  "incomplete")
-                break
-        return Strata(self.assemble(generic), tuple(self.notes), complete)
+            except BudgetExceeded as err:
+                raise BudgetExceeded(
+                    f"strata: {err.message} while looking for the points of rank <= {rank}, so no "
+                    "table is given (it would be incomplete); raise the limit (strata_budget in "
+                    "the shell, budget= in Python), narrow the ranges, or fix a parameter with "
+                    "'with'") from None
+        return Strata(self.assemble(generic), tuple(self.notes), tuple(self.undecided))
 
     def generic_rank(self) -> int:
         """The rank at a random exact point, proved to be the largest rank."""
@@ -153,9 +155,10 @@ class Search:
         filler = fillers[0] if fillers else {}
         basis = groebner(core, involved, self.budget) if core else ()
         if basis and is_finite(basis, involved):
-            found = [p for values in real_points(basis, involved, self.budget)
-                     for p in self.first_checked(values, fillers, rank)]
+            solutions = real_points(basis, involved, self.budget)
+            found = [p for values in solutions for p in self.first_checked(values, fillers, rank)]
             if not found:
+                self.unsettled(rank, core, solutions, fillers)
                 return
             stratum = self.curve_stratum(rank, core, found[0], free) if half_free(free) else \
                 self.free_stratum(rank, core, found, free)
@@ -163,8 +166,70 @@ class Search:
             sample = self.sample_on(core, involved, free, filler, rank)
             if sample is None and self.definite_points(core, involved, filler):
                 return
+            if sample is None:
+                sample = self.settle(core, involved, filler, rank)
+                if sample is None:
+                    return
             stratum = self.curve_stratum(rank, self.shown(component, core, rank), sample, free)
         self.curves.append((stratum, Component(tuple(core), involved, False)))
+
+    def unsettled(self, rank: int, core, solutions: list[Point], fillers) -> None:
+        """A component with finitely many real points, none of them of rank r inside the ranges."""
+        if not any(self.family.form.parameter_values({**values, **filler})
+                   for values in solutions for filler in fillers):
+            self.note_empty(rank, core, "its real points, solved exactly, lie outside the ranges"
+                            if solutions else "it has no real point (exact algebra)")
+            return
+        self.undecided.append(Undecided(
+            rank, self.equations(core),
+            "its points in the ranges have a lower rank at the values tried for the other parameters",
+            "fix the other parameters with 'with NAME=VALUE' to see the rank there"))
+
+    def settle(self, core, involved, filler, rank) -> Found | None:
+        """A sample of a component the simple values missed, or a proof that the ranges hold none
+        (noted), or an undecided locus (recorded); never a stratum without a point."""
+        located = self.locate(core, involved)
+        if located.point is not None:
+            found = self.checked(with_radicals(self.family, {**located.point, **filler}), rank)
+            if found:
+                return found[0]
+            reason = (f"the point found on it ({point_text(located.point)}) does not have rank "
+                      f"{rank} inside the ranges")
+        elif located.empty:
+            self.note_empty(rank, core, located.proof)
+            return None
+        else:
+            reason = located.proof
+        self.undecided.append(Undecided(rank, self.equations(core), reason, UNDECIDED_HINT))
+        return None
+
+    def locate(self, core, involved) -> Located:
+        """Look for a point of the component inside the ranges (see :mod:`.region`)."""
+        coords = [c for c in self.family.form.coordinates if set(c.variables) & set(involved)]
+        params = {c.parameter for c in coords}
+        if any(p.range is None for p in params):
+            return Located(None, False, "some of its parameters have no range, so no bounded "
+                                        "box could be searched")
+        box = {p.symbol: p.range for p in params}
+        equations = self.equations(core)
+        if nowhere_zero(equations, box, self.budget):
+            return Located(None, True, "range arithmetic over the ranges, bisected, keeps its "
+                                       "equations away from zero")
+        exact = len(core) == 1 and not self.family.form.radicals and all(
+            c.kind == "value" and all(end.is_Rational for end in c.parameter.range) for c in coords)
+        if not exact:
+            return Located(None, False, "range arithmetic could not exclude it and it is not one "
+                                        "polynomial equation in plain parameters")
+        variable_box = {c.variables[0]: c.parameter.range for c in coords}
+        return locate(core[0], variable_box, self.budget)
+
+    def equations(self, core) -> tuple[sympy.Expr, ...]:
+        return tuple(self.family.form.original(b) for b in core)
+
+    def note_empty(self, rank: int, core, proof: str) -> None:
+        shown = ", ".join(f"{text(e)} = 0" for e in self.equations(core))
+        self.notes.append(f"rank <= {rank} on {shown} has no point inside the ranges (proved: "
+                          f"{proof}); it is not listed")
 
     def shown(self, component: Component, core: list[sympy.Expr], rank: int) -> list[sympy.Expr]:
         """The component's equations: its basis, or the rank conditions when they are shorter
@@ -239,20 +304,17 @@ class Search:
             verify(self.family, f)
         shown = [{k: v for k, v in f.point.items() if k.name not in names} for f in found]
         places = "; ".join(point_text(p) for p in unique_points(shown))
-        equations = tuple(self.family.form.original(b) for b in core)
+        equations = self.equations(core)
         description = f"rank {rank} where {places}, for every {', '.join(names)}"
         return Stratum(rank, equations, None, found[0].point, description, names)
 
-    def curve_stratum(self, rank, core, sample: Found | None, free) -> Stratum:
-        equations = tuple(self.family.form.original(b) for b in core)
+    def curve_stratum(self, rank, core, sample: Found, free) -> Stratum:
+        equations = self.equations(core)
         shown = ", ".join(f"{text(e)} = 0" for e in equations)
         names = free_names(free)
         extra = f", for every {', '.join(names)}" if names else ""
         description = f"rank {rank} on {shown}{extra}"
-        if sample is None:
-            description += " (no real sample point was found on it: it may hold no real point)"
-        point = verified_sample(self.family, sample) if sample else None
-        return Stratum(rank, equations, None, point, description, names)
+        return Stratum(rank, equations, None, verified_sample(self.family, sample), description, names)
 
     def assemble(self, generic: int) -> list[Stratum]:
         if any(f.point and any(v.has(sympy.CRootOf) for v in f.point.values()) for f in self.points):
@@ -270,7 +332,7 @@ class Search:
         return result
 
     def points_stratum(self, rank: int, found: list[Found]) -> Stratum:
-        found = sorted(found, key=point_order)
+        found = sorted(found, key=cmp_to_key(point_order))
         for f in found:
             verify(self.family, f)
         equations = tuple(self.family.form.original(c) for c in self.family.rank_conditions(rank))
@@ -290,14 +352,25 @@ class Search:
                 sample = verified_sample(self.family, found[0])
                 break
         if sample is None:
-            self.notes.append("no simple sample point of the generic rank was found")
-        lower = bool(self.points or self.curves)
-        if rank == 1 and not lower:
-            description = "a product state for every parameter value in the ranges"
-        else:
-            description = f"rank {rank} {'everywhere else' if lower else 'for every parameter value'}" \
-                          " in the ranges"
-        return Stratum(rank, (), None, sample, description)
+            self.notes.append(f"no simple sample point of the generic rank was found; rank {rank} "
+                              "holds on an open dense part of the ranges (its minors are not all "
+                              "identically zero)")
+        return Stratum(rank, (), None, sample, self.generic_description(rank))
+
+    def generic_description(self, rank: int) -> str:
+        """'for every parameter value' only when every lower locus is proved empty."""
+        if self.undecided:
+            return f"rank {rank} everywhere in the ranges except the listed strata and possibly " \
+                   "the undecided loci"
+        if self.points or self.curves:
+            return f"rank {rank} everywhere else in the ranges"
+        if rank == 1:
+            return "a product state for every parameter value in the ranges"
+        return f"rank {rank} for every parameter value in the ranges"
+
+
+UNDECIDED_HINT = ("declare narrower ranges for its parameters, or ask at a point of it "
+                  "('strata ... with NAME=VALUE' or 'rank ... with NAME=VALUE')")
 
 
 def half_free(free: tuple[Coordinate, ...]) -> bool:
@@ -323,7 +396,7 @@ def semidefinite(quadratic: sympy.Expr, gens) -> bool:
     matrix = sympy.hessian(homogeneous, variables) / 2
     for sign in (1, -1):
         signed = sign * matrix
-        if all(compare(signed.extract(list(rows), list(rows)).det(), sympy.Integer(0)) >= 0
+        if all(sign_of(signed.extract(list(rows), list(rows)).det()) >= 0
                for size in range(1, len(variables) + 1)
                for rows in combinations(range(len(variables)), size)):
             return True
@@ -385,7 +458,7 @@ def same_point(a: dict, b: dict) -> bool:
 def same_value(x: sympy.Expr, y: sympy.Expr) -> bool:
     xr, xi = real_imag(x)
     yr, yi = real_imag(y)
-    return compare(xr, yr) == 0 and compare(xi, yi) == 0
+    return order(xr, yr) == 0 and order(xi, yi) == 0
 
 
 def unique_points(points: list[dict]) -> list[dict]:
@@ -402,21 +475,18 @@ def on_component(values: Point, component: Component) -> bool:
 
 def is_zero(value: sympy.Expr) -> bool:
     value = sympy.expand(value)
-    if value == 0:
-        return True
-    try:
-        return exact_rank([value], (1, 1)) == 0
-    except ArithmeticError:
-        return sympy.simplify(value) == 0
+    return value == 0 or zero(value)
 
 
-def point_order(found: Found) -> tuple:
-    """Points in increasing order of their parameters (by name), real part then imaginary."""
-    key = []
-    for _, value in sorted(found.point.items(), key=lambda kv: kv[0].name):
-        re_part, im_part = real_imag(value)
-        key.extend((float(sympy.N(re_part, 30)), float(sympy.N(im_part, 30))))
-    return tuple(key)
+def point_order(a: Found, b: Found) -> int:
+    """Points in increasing order of their parameters (by name), real part then imaginary
+    (a comparison proved by the decision layer)."""
+    for symbol, value in sorted(a.point.items(), key=lambda kv: kv[0].name):
+        for x, y in zip(real_imag(value), real_imag(b.point[symbol])):
+            step = order(x, y)
+            if step:
+                return step
+    return 0
 
 
 def point_text(point: dict) -> str:

@@ -13,10 +13,9 @@ Systems here are real polynomials in real variables (see
   roots are kept: over the rationals they are exact (radicals or CRootOf,
   isolated by sympy's exact real-root isolation); over an algebraic
   extension, factors of degree <= 2 are solved in radicals with the sign of
-  the discriminant proved by ball arithmetic, and higher factors are solved
-  through their norm over the rationals, keeping the roots at which the factor
-  cannot be separated from zero at 4096 bits (every point found is later
-  checked exactly by its rank).
+  the discriminant proved by the decision layer, and higher factors are solved
+  through their norm over the rationals, keeping the roots of the norm at
+  which the decision layer proves the factor zero.
 """
 
 from __future__ import annotations
@@ -26,9 +25,8 @@ from typing import Sequence
 
 import sympy
 
-from ..exact.polyform import compare
-from ..numeric.enclose import enclose
 from .budget import Budget
+from .proved import sign_of, zero
 
 Point = dict[sympy.Symbol, sympy.Expr]
 
@@ -67,8 +65,12 @@ def is_finite(basis: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol]) -> bool
 
 
 def components(polys: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget: Budget,
-               depth: int = 0) -> list[Component]:
-    """The variety split along factorisations; empty pieces dropped."""
+               depth: int = 0, real: bool = True) -> list[Component]:
+    """The variety split along factorisations; empty pieces dropped.
+
+    ``real``: the variables are real, so a sum of squared monomials vanishes only
+    where each monomial does; over C (``real=False``) it is split by its factors.
+    """
     basis = groebner(polys, gens, budget)
     if basis == (1,) or any(b.is_number and b != 0 for b in basis):
         return []
@@ -78,7 +80,7 @@ def components(polys: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget
     for element in basis:
         factors = [f.as_expr() for f, _ in sympy.Poly(element, *gens, extension=True).factor_list()[1]
                    if not f.is_ground]
-        squares = [square_monomials(f, gens) for f in factors]
+        squares = [square_monomials(f, gens) if real else [] for f in factors]
         if len(factors) > 1 or any(squares) or (factors and sympy.expand(factors[0] - element) != 0
                                                 and sympy.expand(factors[0] + element) != 0):
             pieces: list[Component] = []
@@ -86,7 +88,7 @@ def components(polys: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget
                 budget.check()
                 extra = monomials or [factor]
                 pieces.extend(replace(piece, whole=False) for piece in
-                              components(list(basis) + extra, gens, budget, depth + 1))
+                              components(list(basis) + extra, gens, budget, depth + 1, real))
             return outermost(pieces)
     return [Component(basis, tuple(gens), False)]
 
@@ -122,6 +124,18 @@ def contains(outer: Component, inner: Component) -> bool:
 def real_points(basis: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget: Budget
                 ) -> list[Point]:
     """Every real solution of a zero-dimensional lex basis, exactly."""
+    return _back_substitute(basis, gens, budget, real_roots)
+
+
+def complex_points(basis: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budget: Budget
+                   ) -> list[Point]:
+    """Every complex solution of a zero-dimensional lex basis, exactly."""
+    return _back_substitute(basis, gens, budget, all_roots)
+
+
+def _back_substitute(basis, gens, budget: Budget, roots_of) -> list[Point]:
+    """The last variable from a univariate element, each earlier one from the gcd of the
+    elements after substituting the later values (``roots_of`` picks real or all roots)."""
     points: list[Point] = [{}]
     for k in reversed(range(len(gens))):
         var, later = gens[k], set(gens[k + 1:])
@@ -129,14 +143,26 @@ def real_points(basis: Sequence[sympy.Expr], gens: Sequence[sympy.Symbol], budge
         extended: list[Point] = []
         for point in points:
             budget.check()
-            values = [sympy.expand(b.xreplace(point)) for b in level]
-            values = [v for v in values if v != 0]
+            values = [v for v in (sympy.expand(b.xreplace(point)) for b in level) if v != 0]
             if not values:
                 raise ArithmeticError(f"the system is not zero-dimensional in {var}")
-            for root in real_roots(common_factor(values, var), var):
-                extended.append({**point, var: root})
+            extended.extend({**point, var: root} for root in roots_of(common_factor(values, var), var))
         points = extended
     return points
+
+
+def all_roots(poly: sympy.Poly, var: sympy.Symbol) -> list[sympy.Expr]:
+    """The distinct complex roots of a squarefree univariate polynomial: in radicals when
+    sympy finds them all, else as algebraic numbers (CRootOf) proved roots by the decision layer."""
+    if poly.degree() <= 0:
+        return []
+    found = list(dict.fromkeys(sympy.roots(poly.as_expr(), var, multiple=True)))
+    if len(found) == poly.degree():
+        return found
+    if poly.domain.is_ZZ or poly.domain.is_QQ:
+        return list(dict.fromkeys(sympy.Poly(poly.as_expr(), var).all_roots()))
+    expr = poly.as_expr()
+    return [r for r in dict.fromkeys(poly.lift().all_roots()) if zero(expr.subs(var, r))]
 
 
 def univariate_points(polys: Sequence[sympy.Expr], var: sympy.Symbol) -> list[sympy.Expr]:
@@ -179,16 +205,11 @@ def _factor_roots(factor: sympy.Poly, var: sympy.Symbol) -> list[sympy.Expr]:
     if factor.degree() == 2:
         a, b, c = coeffs
         disc = sympy.expand(b * b - 4 * a * c)
-        if compare(disc, sympy.Integer(0)) < 0:
+        if sign_of(disc) < 0:
             return []
         root = sympy.sqrt(disc)
         return [sympy.radsimp((-b + s * root) / (2 * a)) for s in (1, -1)]
     expr = factor.as_expr()
     candidates = sympy.Poly(expr, var, extension=True).lift().real_roots()
-    return [r for r in dict.fromkeys(candidates) if not _separated(expr.subs(var, r))]
-
-
-def _separated(value: sympy.Expr) -> bool:
-    """True when ball arithmetic proves the constant nonzero (up to 4096 bits)."""
-    return any(not enclose(value, bits).contains(0) for bits in (64, 256, 1024, 4096))
+    return [r for r in dict.fromkeys(candidates) if zero(expr.subs(var, r))]
 
