@@ -11,7 +11,7 @@ from __future__ import annotations
 from ..cuts import CoefficientMatrix, Cut, parse_cut
 from ..exact.polyform import NoPolynomialForm
 from ..language.errors import InputError
-from ..numeric.strategy import exact_or_certified
+from ..decomposition import decompose
 from ..states import State
 from .budget import Budget
 from .family import Family, exact_rank
@@ -81,8 +81,7 @@ def constant_strata(state: State, cut: Cut, budget: float) -> Strata:
     try:
         rank = exact_rank(list(matrix.to_Matrix()), matrix.shape)
     except ArithmeticError:  # transcendental numbers such as cos(1): the rank statement's path
-        outcome = exact_or_certified(state, cut, budget, digits=30)
-        rank = outcome.exact.rank if outcome.exact is not None else outcome.certified.rank
+        rank = decompose(state, cut).rank
         if rank is None:
             raise InputError("the rank of this state is undecided at the precision tried") from None
     stratum = Stratum(rank, (), [{}], {}, f"the state has no parameters: its rank is {rank}")
