@@ -30,7 +30,8 @@ MIN_DIGITS, MAX_DIGITS = limits.Limits.min_digits, limits.Limits.max_digits  # d
 class Settings:
     digits: int = 30            # certified digits shown for numeric values
     entropy_unit: str = "bits"  # or "nats"
-    exact_budget: float = 20.0  # seconds the exact path may take before numbers are used
+    exact_budget: float = 20.0  # seconds of exact algebra one 'check' may spend (see checking)
+    method: str = "auto"        # the route: auto (from the structure), exact or certified
     strata_budget: float = 30.0  # seconds of exact algebra one 'strata' statement may take
 
 

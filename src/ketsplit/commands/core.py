@@ -48,7 +48,8 @@ def descending_text(polynomial: sympy.Expr) -> str:
 def decompose(call: CommandCall) -> tuple[State, Cut, Decomposition]:
     """The state, the cut, and its decomposition by the planner's route."""
     state, cut = call.state_and_cut()
-    return state, cut, decomposition.decompose(state, cut, digits=call.session.settings.digits)
+    settings = call.session.settings
+    return state, cut, decomposition.decompose(state, cut, settings.method, settings.digits)
 
 
 @command("schmidt", "schmidt STATE [CUT] [with NAME=VALUE, ...]",

@@ -7,6 +7,7 @@ from dataclasses import replace
 from ..cuts import CUT_PATTERN, Cut
 from ..numeric.digits import digits_cell
 from ..numeric.schmidt import CertifiedSchmidt, certified_schmidt
+from ..planner import METHODS
 from ..render.report import Field, Report, Table
 from ..states import State
 from .registry import CommandCall, command
@@ -41,9 +42,23 @@ def run_numeric(call: CommandCall) -> Report:
     return certified_report(result, state, cut, call.split_last(CUT_PATTERN)[0].strip())
 
 
+@command("method", "method auto|exact|certified",
+         "which route answers: auto (chosen from the state's structure), exact, or certified",
+         "method certified", topic="settings")
+def run_method(call: CommandCall) -> Report:
+    text = call.args.strip()
+    if text not in METHODS:
+        column = call.offset + len(call.args) - len(call.args.lstrip())
+        raise call.error(f"method: expected one of {', '.join(METHODS)}, found {text!r}",
+                         column, len(text) or 1)
+    call.session.settings = replace(call.session.settings, method=text)
+    return Report(f"method {text}")
+
+
 @command("budget", "budget SECONDS",
-         f"time the exact path may take before certified numbers are used (0 to {MAX_BUDGET:g}; "
-         "0 = numbers only)", "budget 5", topic="settings")
+         "the older spelling of 'method': budget 0 asks for certified numbers, any other value "
+         f"for the automatic route (0 to {MAX_BUDGET:g}; the route never depends on the clock)",
+         "budget 0", topic="settings")
 def run_budget(call: CommandCall) -> Report:
     text = call.args.strip()
     column = call.offset + len(call.args) - len(call.args.lstrip())
@@ -52,5 +67,8 @@ def run_budget(call: CommandCall) -> Report:
     if seconds is None or not 0 <= seconds <= MAX_BUDGET:
         raise call.error(f"budget: expected seconds from 0 to {MAX_BUDGET:g}, found {text!r}",
                          column, len(text) or 1)
-    call.session.settings = replace(call.session.settings, exact_budget=seconds)
-    return Report(f"budget {seconds:g} s for the exact path")
+    method = "certified" if seconds == 0 else "auto"
+    call.session.settings = replace(call.session.settings, exact_budget=seconds, method=method)
+    return Report(f"budget {seconds:g} s: method {method}",
+                  notes=("the route is chosen from the state's structure, never from the clock; "
+                         "'budget 0' asks for certified numbers (as 'method certified')",))

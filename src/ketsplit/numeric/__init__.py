@@ -7,5 +7,6 @@
 - :mod:`.blocks`    one block of a coefficient matrix: balls and exact facts
 - :mod:`.schmidt`   certified Schmidt coefficients with a proved rank
 - :mod:`.point`     a state at a numeric parameter point, checked
-- :mod:`.budget`, :mod:`.strategy`  exact first within a time budget, then certified numbers
+- :mod:`.budget`    a wall-clock timer for one step of a check (the route itself is chosen by
+                    :mod:`ketsplit.planner`, never by the clock)
 """
