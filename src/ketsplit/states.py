@@ -20,6 +20,7 @@ from .render.ketprint import text as language_text
 
 KINDS = ("real", "positive", "complex", "integer")
 MAX_SIMPLIFY_OPS = 100
+TRANSCENDENTAL_LOOKING = (sympy.cos, sympy.sin, sympy.tan, sympy.exp, sympy.log)
 
 
 @dataclass(frozen=True)
@@ -196,7 +197,11 @@ def simplify_real(expr: sympy.Expr) -> sympy.Expr:
     if expr.has(sympy.acos, sympy.CRootOf) or sympy.count_ops(expr) > MAX_SIMPLIFY_OPS:
         return expr
     if not expr.free_symbols:
-        return sympy.nsimplify(expr) if expr.is_Float else sympy.radsimp(sympy.expand(expr))
+        if expr.is_Float:
+            return sympy.nsimplify(expr)
+        expanded = sympy.expand(expr)
+        # radsimp asks minimal_polynomial about cos(pi/202)-like terms: minutes for nothing
+        return expanded if expanded.has(*TRANSCENDENTAL_LOOKING) else sympy.radsimp(expanded)
     result = sympy.simplify(expr)
     return sympy.factor_terms(result)
 

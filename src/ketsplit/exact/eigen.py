@@ -13,14 +13,11 @@ from __future__ import annotations
 import sympy
 from sympy.polys.matrices import DomainMatrix
 
+from .errors import NoClosedForm
 from .tidy import is_zero, tidy
 
 LAMBDA = sympy.Dummy("lambda")
 MAX_SYMBOLIC_CUBIC_OPS = 30  # larger cubic coefficients give unreadable (and slow) Viete forms
-
-
-class NoClosedForm(Exception):
-    """An eigenvalue has no closed form this module can write (the numeric path takes over)."""
 
 
 def characteristic_polynomial(rho: sympy.Matrix) -> sympy.Poly:
@@ -63,24 +60,37 @@ def _extension_of(poly: sympy.Poly) -> list[sympy.Expr] | None:
 
 
 def solve_factor(factor: sympy.Poly) -> list[sympy.Expr]:
-    """Roots of one factor: linear and quadratic in radicals, cubic in Viète form."""
+    """Roots of one irreducible factor: degree 1 and 2 in radicals, a cubic in Viete form.
+
+    Numbers are only expanded (simplify adds nothing to them but time).  A
+    cubic or higher factor whose coefficients are not rational has no closed
+    form here: NoClosedForm says so at once, from the degree alone.
+    """
     degree = factor.degree()
     if degree <= 0:
         return []
-    coeffs = [tidy(c) for c in factor.all_coeffs()]
+    raw = factor.all_coeffs()
+    symbolic = any(c.free_symbols for c in raw)
+    coeffs = [tidy(c) for c in raw] if symbolic else [sympy.expand(c) for c in raw]
+    neat = tidy if symbolic else sympy.expand
     if degree == 1:
-        return [tidy(-coeffs[1] / coeffs[0])]
+        return [neat(-coeffs[1] / coeffs[0])]
     if degree == 2:
         a, b, c = coeffs
-        disc = tidy(b * b - 4 * a * c)
-        root = sympy.sqrt(disc)
-        return [tidy((-b + root) / (2 * a)), tidy((-b - root) / (2 * a))]
+        root = sympy.sqrt(neat(b * b - 4 * a * c))
+        if not symbolic and root.is_Pow and root.base.is_Add:
+            root = sympy.sqrtdenest(root)
+        return [neat((-b + root) / (2 * a)), neat((-b - root) / (2 * a))]
+    rational = all(c.is_Rational for c in coeffs)
+    if not symbolic and not rational:
+        raise NoClosedForm(f"an irreducible factor of degree {degree} with algebraic coefficients "
+                           "has no closed form here: its roots are exact algebraic numbers")
     if degree == 3:
         if sum(sympy.count_ops(c) for c in coeffs) > MAX_SYMBOLIC_CUBIC_OPS:
             raise NoClosedForm("an irreducible symbolic cubic this large has no readable closed "
                                "form; substitute parameter values (with t=...) for certified numbers")
         return viete_roots(*coeffs)
-    if all(c.is_Rational for c in coeffs):
+    if rational:
         return list(sympy.Poly(factor.as_expr(), LAMBDA).all_roots())
     raise NoClosedForm(f"a factor of degree {degree} with coefficients {coeffs} has no closed form here")
 

@@ -1,4 +1,10 @@
-"""Ordering of Schmidt pieces: descending coefficients where the order is decidable."""
+"""Ordering of Schmidt pieces: descending coefficients where the order is decided.
+
+Every comparison goes through the decision layer (:func:`ketsplit.arith.decide.compare`):
+exact algebra or balls that exclude equality for numbers, range arithmetic
+over the declared box for parameters.  An undecided comparison leaves the
+pieces in the order found and says so (``ordered`` False).
+"""
 
 from __future__ import annotations
 
@@ -6,18 +12,18 @@ from functools import cmp_to_key
 
 import sympy
 
-from .signs import sign_on_box
-from .tidy import tidy
+from ..arith.decide import compare
+from .tidy import neat_number, tidy
 
 
 def scaled(sigma: sympy.Expr, scale: sympy.Expr) -> sympy.Expr:
     """sigma * scale in a readable form: expanded radicals for numbers, tidied otherwise."""
     product = sigma * scale
-    return sympy.expand(sympy.radsimp(product)) if not product.free_symbols else tidy(product)
+    return neat_number(product) if not product.free_symbols else tidy(product)
 
 
 def order_pieces(pieces, box=None):
-    """Descending order of the coefficients when every comparison is decidable."""
+    """Descending order of the coefficients when every comparison is decided."""
     try:
         return sorted(pieces, key=cmp_to_key(lambda a, b: compare_descending(a[0], b[0], box))), True
     except ValueError:
@@ -25,30 +31,10 @@ def order_pieces(pieces, box=None):
 
 
 def compare_descending(a: sympy.Expr, b: sympy.Expr, box=None) -> int:
-    """-1 if a > b, 1 if a < b, 0 if equal; ValueError when it depends on the parameters.
-
-    Numbers are compared by sympy's evalf, which raises its working precision
-    until the sign of a nonzero difference is certain; a difference that
-    evaluates to zero at 50 digits is then confirmed to be zero exactly.  A
-    symbolic difference is decided by the assumptions, or by interval
-    arithmetic over the declared ranges (``box``).
-    """
-    difference = a - b
-    if not difference.free_symbols:
-        value = sympy.N(difference, 50)
-        if value != 0 and abs(value) > sympy.Float(10) ** -45:
-            return -1 if value > 0 else 1
-        if sympy.simplify(difference) == 0:
-            return 0
-        raise ValueError("undecidable")
-    difference = sympy.simplify(difference)
-    sign = sign_on_box(difference, box) if box else None
-    if sign is not None and difference != 0:
-        return -sign
-    if difference.is_positive:
-        return -1
-    if difference.is_negative:
-        return 1
-    if difference.is_zero:
+    """-1 if a > b, 1 if a < b, 0 if equal; ValueError when undecided (or parameter-dependent)."""
+    if a == b:
         return 0
-    raise ValueError("undecidable")
+    decided = compare(a, b, box)
+    if not decided.known:
+        raise ValueError(decided.proof)
+    return -decided.value

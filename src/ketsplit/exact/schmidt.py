@@ -23,14 +23,14 @@ from __future__ import annotations
 
 from itertools import combinations
 
-import mpmath
 import sympy
 
 from ..cuts import CoefficientMatrix, Cut
 from ..states import State, abs_squared, simplify_real
 from .eigen import eigenvalues
-from .tidy import generic_point, is_zero, tidy
-from .pointeval import evaluate_at
+from .errors import NoClosedForm
+from .numbers import number_block, number_pieces
+from .tidy import is_zero, tidy
 
 Vector = sympy.Matrix
 DENSE_VECTOR_SIZE = 4096  # side spaces larger than this hold Schmidt vectors sparsely
@@ -38,13 +38,24 @@ Piece = tuple[sympy.Expr, Vector, Vector]  # (sigma, left vector, right vector) 
 
 
 def decompose_block(block: sympy.Matrix) -> list[Piece]:
-    """Schmidt pieces of one block, with vectors in the block's own coordinates."""
+    """Schmidt pieces of one block, with vectors in the block's own coordinates.
+
+    Algebraic numbers go through their exact number field
+    (:mod:`ketsplit.exact.numbers`); parameters and transcendental numbers take
+    the closed forms below, with every zero test by the decision layer.
+    """
     if block.rows > block.cols:
         return [(s, u, w) for s, w, u in decompose_block(block.T)]
+    found = number_block(block)
+    if found is not None:
+        return number_pieces(found)
     if block.rows == 1 or is_rank_one(block):
         return [rank_one_piece(block)]
     if block.rows == 2:
         return two_row_pieces(block)
+    if not block.free_symbols:
+        raise NoClosedForm("a block of side 3 or more with transcendental numbers (pi, e, ...) "
+                           "among its amplitudes: its spectrum is given as certified numbers")
     rho = hermitian_product(block)
     pieces: list[Piece] = []
     for value, multiplicity in eigenvalues(rho):
@@ -169,19 +180,14 @@ def eigenvectors(rho: sympy.Matrix, value: sympy.Expr, multiplicity: int) -> lis
 
 
 def adjugate_columns(shifted: sympy.Matrix) -> list[Vector]:
-    """The column of adj(rho - lambda I) of largest numeric size: an eigenvector of a
-    simple eigenvalue (every column is a multiple of it; the largest is safely nonzero)."""
+    """A column of adj(rho - lambda I) that is not zero: an eigenvector of a simple
+    eigenvalue (every column is a multiple of it; adj has rank one)."""
     adjugate = shifted.adjugate()
-    sizes = [_size(adjugate[:, j]) for j in range(adjugate.cols)]
-    best = max(range(adjugate.cols), key=lambda j: sizes[j])
-    return [adjugate[:, best].applyfunc(tidy)]
-
-
-def _size(column: sympy.Matrix) -> float:
-    """A numeric size of a column at a generic point of its parameters."""
-    point = generic_point(column.free_symbols)
-    with mpmath.workdps(30):
-        return float(sum(abs(evaluate_at(v, point)) ** 2 for v in column))
+    for j in range(adjugate.cols):
+        column = adjugate[:, j].applyfunc(tidy)
+        if not all(is_zero(v) for v in column):
+            return [column]
+    raise NoClosedForm("no nonzero column of the adjugate: the eigenvalue is not simple")
 
 
 def orthonormalise(vectors: list[Vector]) -> list[Vector]:
@@ -216,10 +222,8 @@ def embed(vector: Vector, positions: list[int], size: int) -> Vector:
 
 
 def nonzero_entries(vector: Vector) -> list[tuple[int, sympy.Expr]]:
-    """(index, value) of the nonzero entries, without walking a large sparse vector."""
-    if isinstance(vector, sympy.SparseMatrix):
-        return sorted((i, v) for (i, _), v in vector.todok().items() if v != 0)
-    return [(i, vector[i]) for i in range(vector.rows) if vector[i] != 0]
+    """(index, value) of the nonzero entries, without walking a large vector entry by entry."""
+    return sorted((i, v) for (i, _), v in vector.todok().items() if v != 0)
 
 
 def inner(a: Vector, b: Vector) -> sympy.Expr:

@@ -1,51 +1,61 @@
-"""Cheap simplification and zero tests for closed forms (shared by the exact modules)."""
+"""Cheap simplification and exact zero tests for closed forms (shared by the exact modules).
+
+Every zero test goes through the decision layer (:mod:`ketsplit.arith.decide`):
+exact algebra, or a ball that excludes zero.  An undecided test stops the
+exact route with NoClosedForm, naming the value, so the caller can take the
+certified route; it never guesses.
+"""
 
 from __future__ import annotations
 
-import mpmath
 import sympy
 
-from .pointeval import evaluate_at
+from ..arith import decide
+from .errors import UndecidedZero
+
+MAX_RADSIMP_OPS = 40  # numbers larger than this are only expanded (radsimp -> minimal_polynomial)
 
 
 def tidy(value: sympy.Expr) -> sympy.Expr:
-    """A cheap simplification: full ``simplify`` only for small expressions.
+    """A cheap simplification: full ``simplify`` only for small symbolic expressions.
 
-    Large symbolic expressions are left as built (expanding them only makes
-    them longer), so that a generic symbolic state does not spend minutes in
-    heuristic simplification.
+    Numbers are expanded, with radicals moved out of denominators only when
+    they are small and not nested (:func:`neat_number`).  Large symbolic
+    expressions are left as built (expanding them only makes them longer).
     """
     if value.has(sympy.acos, sympy.CRootOf):
         return value  # Viete and CRootOf forms: simplify only rewrites them at great cost
+    if not value.free_symbols:
+        return neat_number(value)
     if sympy.count_ops(value) <= 40:
         return sympy.simplify(value)
-    return value if value.free_symbols else sympy.radsimp(value)
+    return value
 
 
-def generic_point(symbols) -> dict[sympy.Symbol, sympy.Rational]:
-    """Distinct small rationals for the symbols: a point where nothing special happens."""
-    return {s: sympy.Rational(3 + 2 * k, 7 + k)
-            for k, s in enumerate(sorted(symbols, key=lambda s: s.name))}
+def neat_number(value: sympy.Expr) -> sympy.Expr:
+    """A number expanded, and rationalised by radsimp when small with unnested radicals."""
+    value = sympy.expand(value)
+    if value.is_Rational or sympy.count_ops(value) > MAX_RADSIMP_OPS or _nested_root(value):
+        return value
+    if value.has(sympy.cos, sympy.sin, sympy.exp, sympy.log, sympy.acos, sympy.CRootOf):
+        return value  # radsimp would ask minimal_polynomial about transcendental-looking terms
+    return sympy.expand(sympy.radsimp(value))
 
 
-def is_zero(value: sympy.Expr) -> bool:
-    """Whether ``value`` vanishes identically.
+def _nested_root(value: sympy.Expr) -> bool:
+    return any(p.exp.is_Rational and not p.exp.is_Integer and p.base.has(sympy.Pow)
+               for p in value.atoms(sympy.Pow))
 
-    A symbolic value is first evaluated at a generic point (parameters set to
-    different small rationals): a clearly nonzero value there cannot be
-    identically zero, which spares ``simplify`` on large closed forms.
-    """
-    if value.is_zero is not None:
-        return bool(value.is_zero)
-    if value.free_symbols:
-        point = generic_point(value.free_symbols)
-        with mpmath.workdps(30):
-            try:
-                if abs(evaluate_at(value, point)) > mpmath.mpf(10) ** -20:
-                    return False
-            except (NotImplementedError, ZeroDivisionError, ValueError, KeyError):
-                pass
-    return sympy.simplify(value) == 0
+
+def is_zero(value: sympy.Expr, box=None) -> bool:
+    """Whether ``value`` vanishes (identically, for parameters), decided exactly or by a
+    ball that excludes zero; UndecidedZero when the decision layer cannot tell."""
+    if value == 0:
+        return True
+    found = decide.is_zero(value, box)
+    if not found.known:
+        raise UndecidedZero(f"cannot decide whether {sympy.sstr(value)[:80]} is zero: {found.proof}")
+    return bool(found.value)
 
 
 def algebraic_zero(number: sympy.Expr) -> bool:

@@ -1,0 +1,266 @@
+"""Exact Schmidt pieces of a block of numbers, computed in its exact number field.
+
+The entries of the block and their complex conjugates are put into one exact
+domain F (ZZ, QQ, the Gaussian rationals or an algebraic field QQ<a>, the
+form :func:`sympy.polys.constructor.construct_domain` gives them).  Every
+decision is then exact arithmetic in F: the rank, the reduced state
+rho = B B^dagger, its characteristic polynomial and the factors of it.  No
+zero test is made on floats and nothing is simplified heuristically.
+
+Eigenvectors come without a nullspace over radicals.  With m the product of
+the distinct irreducible factors of the characteristic polynomial (rho is
+Hermitian, so m is its minimal polynomial) and lambda a root of the factor f,
+P = m(rho) / (rho - lambda) maps everything into the eigenspace of lambda and
+is lambda-times-a-projector there: P = P(lambda) Pi.  Its entries are
+polynomials in lambda over F (reduced modulo f), computed exactly; a column c
+with P_cc != 0 (an exact test in F[lambda]/(f), a field) is an eigenvector
+whose squared norm is P(lambda) P_cc, and its conjugate is row c of P, because
+P is Hermitian.  The closed form of lambda (radicals for degree 2, Viete for a
+rational cubic, CRootOf beyond) enters only when the result is written out.
+
+Blocks whose entries are not algebraic numbers return None here (the caller
+takes the symbolic route or declines with NoClosedForm).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import sympy
+from sympy.polys.constructor import construct_domain
+from sympy.polys.matrices import DomainMatrix
+from sympy.polys.polyerrors import BasePolynomialError, CoercionFailed
+
+from .eigen import LAMBDA, NoClosedForm, solve_factor
+
+Vector = sympy.Matrix
+Piece = tuple[sympy.Expr, Vector, Vector]
+
+
+@dataclass(frozen=True)
+class NumberBlock:
+    """A block B and its conjugate over one exact field F (rows <= columns)."""
+
+    matrix: DomainMatrix      # B over F
+    conjugate: DomainMatrix   # conj(B) over F
+
+    @property
+    def field(self):
+        return self.matrix.domain
+
+    def expr(self, element) -> sympy.Expr:
+        """An element of F as a readable sympy number (roots of unity as radicals)."""
+        return radical_form(self.field.to_sympy(element))
+
+
+def number_block(block: sympy.Matrix) -> NumberBlock | None:
+    """The block over the exact number field of its entries, or None when they are not
+    algebraic numbers (parameters, pi, e, ...)."""
+    if block.free_symbols:
+        return None
+    values = list(block)
+    conjugates = [sympy.conjugate(v) for v in values]
+    try:
+        domain, elements = construct_domain(values + conjugates, extension=True)
+    except (BasePolynomialError, CoercionFailed, NotImplementedError, ValueError):
+        return None
+    if not (domain.is_ZZ or domain.is_QQ or domain.is_ZZ_I or domain.is_QQ_I or domain.is_AlgebraicField):
+        return None
+    field = domain.get_field()
+    elements = [field.convert_from(e, domain) for e in elements]
+    shape = block.shape
+    size = len(values)
+
+    def matrix(items) -> DomainMatrix:
+        rows = [items[r * shape[1]:(r + 1) * shape[1]] for r in range(shape[0])]
+        return DomainMatrix(rows, shape, field)
+
+    return NumberBlock(matrix(elements[:size]), matrix(elements[size:]))
+
+
+def radical_form(value: sympy.Expr) -> sympy.Expr:
+    """exp(i pi r) for rational r written as radicals where sympy's cos/sin evaluate to them."""
+    replacements = {}
+    for atom in value.atoms(sympy.exp):
+        ratio = atom.args[0] / (sympy.I * sympy.pi)
+        if ratio.is_Rational:
+            form = sympy.cos(sympy.pi * ratio) + sympy.I * sympy.sin(sympy.pi * ratio)
+            if not form.has(sympy.cos, sympy.sin):
+                replacements[atom] = form
+    return sympy.expand(value.xreplace(replacements)) if replacements else value
+
+
+def number_rank(block: sympy.Matrix) -> int | None:
+    """The exact rank of a block of algebraic numbers; None for other entries."""
+    found = number_block(block)
+    return None if found is None else found.matrix.rank()
+
+
+def number_pieces(found: NumberBlock) -> list[Piece]:
+    """All Schmidt pieces of the block (left vectors on its rows)."""
+    if found.matrix.rank() == 1:
+        return [rank_one(found)]
+    rho = found.matrix.matmul(found.conjugate.transpose())
+    field = found.field
+    poly = sympy.Poly([field.to_sympy(c) for c in rho.charpoly()], LAMBDA, domain=field)
+    _, factors = poly.factor_list()
+    factors = [(f.monic(), k) for f, k in factors]
+    minimal = sympy.Poly(1, LAMBDA, domain=field)
+    for f, _ in factors:
+        minimal = minimal * f
+    powers = [DomainMatrix.eye(rho.shape[0], field).to_dense()]
+    for _ in range(minimal.degree() - 1):
+        powers.append(powers[-1].matmul(rho))
+    pieces: list[Piece] = []
+    for f, multiplicity in factors:
+        if f.degree() == 1 and f.TC() == 0:
+            continue  # the zero eigenvalue carries no Schmidt piece
+        if multiplicity == 1:
+            pieces += simple_pieces(found, Projector.of(powers, minimal, f))
+        elif f.degree() == 1:
+            pieces += repeated_pieces(found, rho, -f.TC())
+        else:
+            raise NoClosedForm(f"the irreducible factor {f.as_expr()} of degree {f.degree()} is "
+                               f"repeated {multiplicity} times: no closed-form eigenvectors here")
+    return pieces
+
+
+@dataclass(frozen=True)
+class Projector:
+    """P = m(rho)/(rho - lambda) = sum_j lambda^j parts[j], lambda a root of ``factor``;
+    ``scale`` is P(lambda), so that P = scale * (projector onto the eigenspace)."""
+
+    factor: sympy.Poly
+    parts: tuple[list[list], ...]   # entries over F, one matrix per power of lambda
+    scale: sympy.Poly
+
+    @staticmethod
+    def of(powers: list[DomainMatrix], minimal: sympy.Poly, factor: sympy.Poly) -> "Projector":
+        field = factor.domain
+        lam = sympy.Poly(LAMBDA, LAMBDA, domain=field)
+        coeffs = minimal.rep.to_list()  # highest first: m = sum a_k x^k, a_n = 1
+        n = minimal.degree()
+        quotient = [lam] * n  # q_k in F[lambda]/(f), Q(x) = m(x)/(x - lambda) = sum q_k x^k
+        carry = sympy.Poly.from_list([coeffs[0]], LAMBDA, domain=field)
+        for k in range(n - 1, -1, -1):
+            quotient[k] = carry
+            carry = (carry * lam + sympy.Poly.from_list([coeffs[n - k]], LAMBDA, domain=field)).rem(factor)
+        scale = sympy.Poly(0, LAMBDA, domain=field)
+        for k in range(n - 1, -1, -1):
+            scale = (scale * lam + quotient[k]).rem(factor)
+        low = [q.rep.to_list()[::-1] for q in quotient]
+        parts = []
+        for j in range(factor.degree()):
+            total = DomainMatrix.zeros(powers[0].shape, field).to_dense()
+            for k in range(n):
+                if j < len(low[k]) and low[k][j]:
+                    total = total + powers[k].mul(low[k][j])
+            parts.append(total.to_list())
+        return Projector(factor, tuple(parts), scale)
+
+    def entry(self, i: int, c: int) -> list:
+        """P_ic as its coefficients over F, lowest power of lambda first."""
+        return [part[i][c] for part in self.parts]
+
+    def poly(self, coefficients: list) -> sympy.Poly:
+        return sympy.Poly.from_list(coefficients[::-1], LAMBDA, domain=self.factor.domain)
+
+
+def simple_pieces(found: NumberBlock, projector: Projector) -> list[Piece]:
+    """The pieces of a simple eigenvalue (each root of the factor): u = P e_c / |P e_c|."""
+    rows = found.matrix.shape[0]
+    column = next(c for c in range(rows) if any(projector.entry(c, c)))
+    norm2 = (projector.scale * projector.poly(projector.entry(column, column))).rem(projector.factor)
+    u_polys = [projector.entry(i, column) for i in range(rows)]
+    # B^T conj(P e_c) = B^T (row c of P)^T: conj(P_ic) = P_ci, P being Hermitian
+    images = []
+    for part in projector.parts:
+        row = DomainMatrix([[part[column][i]] for i in range(rows)], (rows, 1), found.field)
+        images.append(found.matrix.transpose().matmul(row).to_list())
+    pieces = []
+    for value in solve_factor(projector.factor):
+        norm = root(_at(found, norm2, value))
+        sigma = root(value)
+        u = Vector([_at(found, p, value) for p in u_polys]) / norm
+        w = Vector([sympy.Add(*(found.expr(images[j][k][0]) * value ** j for j in range(len(images))))
+                    for k in range(found.matrix.shape[1])]) / (norm * sigma)
+        pieces.append((sigma, u.applyfunc(_readable), w.applyfunc(_readable)))
+    return pieces
+
+
+def _at(found: NumberBlock, coefficients, value: sympy.Expr) -> sympy.Expr:
+    """sum_j c_j value^j for coefficients over F (lowest first, or a Poly) at a closed-form root."""
+    if isinstance(coefficients, sympy.Poly):
+        coefficients = coefficients.rep.to_list()[::-1]
+    return sympy.Add(*(found.expr(c) * value ** j for j, c in enumerate(coefficients) if c))
+
+
+def repeated_pieces(found: NumberBlock, rho: DomainMatrix, value) -> list[Piece]:
+    """A repeated eigenvalue in F: an orthonormal basis of its eigenspace (Gram-Schmidt in F)."""
+    field = found.field
+    rows = rho.shape[0]
+    shifted = rho - DomainMatrix.eye(rows, field).to_dense().mul(value)
+    basis = [list(r) for r in shifted.nullspace().to_list()]
+    done: list[tuple[list, object]] = []   # (orthogonal vector, its squared norm)
+    for v in basis:
+        for x, n2 in done:
+            overlap = _dot(found, x, v)
+            v = [a - overlap / n2 * b for a, b in zip(v, x)]
+        done.append((v, _dot(found, v, v)))
+    sigma = root(found.expr(value))
+    pieces = []
+    for v, n2 in done:
+        norm = root(found.expr(n2))
+        u = Vector([found.expr(a) for a in v]) / norm
+        conj = DomainMatrix([[_conj(found, a)] for a in v], (rows, 1), field)
+        image = found.matrix.transpose().matmul(conj).to_list()
+        w = Vector([found.expr(e[0]) for e in image]) / (norm * sigma)
+        pieces.append((sigma, u.applyfunc(_readable), w.applyfunc(_readable)))
+    return pieces
+
+
+def _dot(found: NumberBlock, x: list, y: list):
+    """<x|y> = sum conj(x_i) y_i in F."""
+    return sum((_conj(found, a) * b for a, b in zip(x, y)), found.field.zero)
+
+
+def _conj(found: NumberBlock, element):
+    field = found.field
+    if field.is_QQ or field.is_ZZ:
+        return element
+    return field.from_sympy(sympy.conjugate(field.to_sympy(element)))
+
+
+def rank_one(found: NumberBlock) -> Piece:
+    """B = x y^T: sigma = sqrt(sum |b_ij|^2); u = x/|x|; w = B^T conj(u) / sigma."""
+    field = found.field
+    entries, conj = found.matrix.to_list(), found.conjugate.to_list()
+    rows, cols = found.matrix.shape
+    weight = sum((a * b for ra, rb in zip(entries, conj) for a, b in zip(ra, rb)), field.zero)
+    sigma = root(found.expr(weight))
+    if rows == 1:  # keep any phase on the right vector: the left one is then |0>
+        w = Vector([found.expr(a) for a in entries[0]]) / sigma
+        return sigma, Vector([[1]]), w.applyfunc(_readable)
+    column = next(j for j in range(cols) if any(entries[i][j] for i in range(rows)))
+    norm = root(found.expr(sum((entries[i][column] * conj[i][column] for i in range(rows)), field.zero)))
+    u = Vector([found.expr(entries[i][column]) for i in range(rows)]) / norm
+    x_conj = DomainMatrix([[conj[i][column]] for i in range(rows)], (rows, 1), field)
+    image = found.matrix.transpose().matmul(x_conj).to_list()
+    w = Vector([found.expr(e[0]) for e in image]) / (norm * sigma)
+    return sigma, u.applyfunc(_readable), w.applyfunc(_readable)
+
+
+def root(value: sympy.Expr) -> sympy.Expr:
+    """sqrt of a nonnegative closed form, denested where sympy's sqrtdenest can."""
+    result = sympy.sqrt(value)
+    if result.is_Pow and result.base.is_Add and result.base.has(sympy.Pow):
+        return sympy.sqrtdenest(result)
+    return result
+
+
+def _readable(value: sympy.Expr) -> sympy.Expr:
+    """Expanded, with radicals out of denominators when the expression is small."""
+    value = sympy.expand(value)
+    if value.is_Rational or sympy.count_ops(value) > 60:
+        return value
+    return sympy.expand(sympy.radsimp(value))
