@@ -151,13 +151,15 @@ def test_phase_with_a_complex_angle_is_not_a_phase():
     assert_refuted(verdict, lambda phi: abs(mpmath.exp(1j * phi)) ** 2 - 1)
 
 
-# -- the exact path gives up, the randomized path decides ------------------
+# -- square roots of squares, ranges, sizes --------------------------------
 
-def test_square_root_of_a_square_needs_the_random_points():
-    # sqrt((x+1)^2) = x + 1 for x > 0: true, but not by polynomial rewriting alone
+def test_square_root_of_a_square_is_a_modulus_with_a_proved_sign():
+    # sqrt((x+1)^2) = |x + 1| = x + 1 for x > 0 (fact of the trade): proved, not sampled
     verdict = check("sqrt(x^2 + 2x + 1)", "x + 1", positive="x")
-    assert verdict.holds is True and verdict.method.startswith("randomized, 6 points")
-    assert "remainder" in verdict.reason
+    assert verdict.holds is True and verdict.method == "exact"
+    # for real x the modulus stays, and x = -2 style points refute: |x + 1| - (x + 1) = 2
+    refuted = check("sqrt(x^2 + 2x + 1)", "x + 1", real="x")
+    assert_refuted(refuted, lambda x: abs(x + 1) - (x + 1))
 
 
 def test_the_declared_range_decides_a_branch():
@@ -208,7 +210,7 @@ def test_a_bad_side_reports_line_and_column():
 def test_no_time_gives_undecided_with_what_was_tried():
     verdict = check("sqrt(x^2 + 2x + 1)", "x + 1", positive="x", budget=0)
     assert verdict.holds is None
-    assert "no time" in verdict.reason and "ran out" in verdict.reason
+    assert "no time" in verdict.reason and "to decide:" in verdict.line()
     assert verdict.line().startswith("undecided")
 
 

@@ -45,11 +45,13 @@ def assert_close(text, expected, digits=29):
 def test_textbook_two_qubit_states_have_their_coefficients():
     # Nielsen & Chuang, Exercise 2.79 (recalled from memory): Schmidt decompositions of
     # (|00>+|11>)/sqrt2, (|00>+|01>+|10>+|11>)/2 and (|00>+|01>+|10>)/sqrt3
+    # the spectrum is exact; the signs of irrational constants come from balls excluding zero
     assert run("check schmidt (|00>+|11>)/sqrt(2) = [1/sqrt(2), 1/sqrt(2)]")["verdict"] == \
-        "holds (exact)"
+        "holds (exact; signs by certified enclosure)"
     assert run("check schmidt (|00>+|01>+|10>+|11>)/2 = [1]")["verdict"] == "holds (exact)"
     claim = "[sqrt((3 - sqrt(5))/6), sqrt((3 + sqrt(5))/6)]"  # any order
-    assert run(f"check schmidt (|00>+|01>+|10>)/sqrt(3) = {claim}")["verdict"] == "holds (exact)"
+    assert run(f"check schmidt (|00>+|01>+|10>)/sqrt(3) = {claim}")["verdict"] == \
+        "holds (exact; signs by certified enclosure)"
     # the reference: singular values of the coefficient matrix, by numpy
     singular = np.linalg.svd(np.array([[1, 1], [1, 0]]) / np.sqrt(3), compute_uv=False)
     assert np.allclose(sorted(singular), [np.sqrt((3 - np.sqrt(5)) / 6), np.sqrt((3 + np.sqrt(5)) / 6)])
@@ -88,7 +90,7 @@ def test_coefficients_of_a_family_hold_where_they_are_nonnegative():
     assert fields["verdict"].startswith("fails at t = ")
     t = point_of(fields)["t"].real
     assert mpmath.cos(t) < 0  # the claimed coefficient cos t is negative there
-    assert_close(fields["c1 - |c1|"], 2 * mpmath.cos(t))
+    assert_close(fields["c1"], mpmath.cos(t))
 
 
 def test_a_complex_family_needs_moduli():
@@ -173,14 +175,14 @@ def test_product_state_form_and_a_non_orthogonal_form():
                  "check phi = 1/2 |0>(|0>+|1>) + 1/2 |1>(|0>+|1>)")
     # equal as vectors, but the right factors coincide: <w1|w2> = 2, not 0
     assert fields["verdict"] == "fails: <w1|w2> = 2 (exact)"
-    assert "equals the state but is not a Schmidt form" in fields["reason"]
+    assert "the form equals the state but its factors are not orthogonal" in fields["reason"]
 
 
 def test_a_form_across_a_cut_of_three_parts():
     # GHZ across 13|2: the form's factors are labelled (parts 1,3)(part 2)
     ghz = "ghz = (|000> + |111>)/sqrt(2)\n"
     assert run(ghz + "check ghz 13|2 = 1/sqrt(2) |00>|0> + 1/sqrt(2) |11>|1>")["verdict"] == \
-        "holds (exact)"
+        "holds (exact; signs by certified enclosure)"
     fields = run(ghz + "check ghz 13|2 = 1/sqrt(2) |01>|0> + 1/sqrt(2) |10>|1>")
     assert fields["verdict"].startswith("fails: lhs - rhs at |000>")
     with pytest.raises(ketsplit.InputError, match="expected a Schmidt form"):
@@ -216,10 +218,12 @@ def test_statement_errors_point_at_the_spot():
 
 def test_claims_at_a_with_point():
     setup = "real t\npsi = cos(t)|00> + sin(t)|11>\n"
-    # at a point the difference is a constant: cos(1)^2 + sin(1)^2 = 1 is proved exactly
-    assert run(setup + "check schmidt psi = [cos(t), sin(t)] with t=1")["verdict"] == "holds (exact)"
+    # at a point the difference is a constant: cos(1)^2 + sin(1)^2 = 1 is proved exactly, and
+    # cos(1), sin(1) > 0 by balls that exclude zero
+    assert run(setup + "check schmidt psi = [cos(t), sin(t)] with t=1")["verdict"] == \
+        "holds (exact; signs by certified enclosure)"
     assert run(setup + "check psi = cos(t)|0>|0> + sin(t)|1>|1> with t=1")["verdict"] == \
-        "holds (exact)"
+        "holds (exact; signs by certified enclosure)"
     fields = run(setup + "check reduce psi 1 = [[cos(t)^2, 0], [0, sin(t)]] with t=1")
     assert_close(fields["rho - claimed"], mpmath.sin(1) ** 2 - mpmath.sin(1))
 

@@ -37,7 +37,8 @@ from ..exact.coerce import as_expr
 from ..language.errors import InputError
 from ..numeric.enclose import Encloser
 from .identity import TooLarge, constant_zero, identically_zero, parameters_of
-from .ranges import Box, NoRange, bisect, midpoint, value_range
+from .radicals import square_roots_as_moduli
+from .ranges import Box, NoRange, bisect, midpoint, rational_inside, value_range
 
 T = TypeVar("T")
 
@@ -173,18 +174,22 @@ def _constant_sign(expr: sympy.Expr) -> Decided[int]:
 
 
 def _sample_value(symbol: sympy.Symbol, box: Box, fraction: sympy.Rational) -> sympy.Expr:
+    """A value of the symbol's domain: inside its box range, or by its kind (reals spread
+    over several orders of magnitude, so that t * 10^-30 is not only met near 0)."""
     if symbol in box:
-        lo, hi = box[symbol]
-        return lo + fraction * (hi - lo)
+        return rational_inside(*box[symbol], fraction)
+    k = SAMPLE_FRACTIONS.index(fraction)
     if symbol.is_integer:
-        return sympy.Integer(int(fraction * 7) + 1)
+        return sympy.Integer((-1) ** k * (k + 2))
     if symbol.is_real:
-        return fraction if symbol.is_positive else 2 * fraction - sympy.Rational(1, 3)
+        size = fraction * UNBOUNDED_SCALES[k]
+        return size if symbol.is_positive else (-1) ** k * size
     return fraction + sympy.I * (1 - fraction) / 3
 
 
 SAMPLE_FRACTIONS = (sympy.Rational(1, 2), sympy.Rational(2, 7), sympy.Rational(9, 11),
                     sympy.Rational(1, 13))
+UNBOUNDED_SCALES = (1, 10, 10 ** 6, 10 ** 40)
 
 
 def _witness_nonzero(expr: sympy.Expr, box: Box) -> Decided[bool] | None:
@@ -208,9 +213,8 @@ def is_zero(expr, box: Box | None = None) -> Decided[bool]:
     box = {s: r for s, r in exact_box(box).items() if s in expr.free_symbols}
     if not expr.free_symbols:
         return _constant_is_zero(expr)
-    pieces = abs_free_pieces(expr, box) if box else [(box, expr)]
-    if pieces is None:
-        pieces = [(box, expr)]
+    expr = square_roots_as_moduli(expr, parameters_of(expr.free_symbols, box))
+    pieces = abs_free_pieces(expr, box) or [(box, expr)]
     for piece, rewritten in pieces:
         found = _symbolic_is_zero(rewritten, piece)
         if found.value is not True:
@@ -220,9 +224,9 @@ def is_zero(expr, box: Box | None = None) -> Decided[bool]:
 
 
 def _symbolic_is_zero(expr: sympy.Expr, box: Box) -> Decided[bool]:
-    if _proved_zero(expr, box):
-        return Decided(True, "exact rewriting gives 0")
-    story = "exact rewriting does not give 0"
+    proved, story = _exact_zero(expr, box)
+    if proved:
+        return Decided(True, story)
     witness = _witness_nonzero(expr, box)
     if witness is not None:
         return witness
@@ -251,7 +255,7 @@ def _one_sign(expr: sympy.Expr, box: Box, want: int) -> Decided[bool]:
     if not expr.free_symbols <= set(box):
         assumed = expr.is_nonnegative if want > 0 else expr.is_nonpositive
         if assumed:
-            return Decided(True, f"{word} for every value (sympy's assumptions)")
+            return Decided(True, f"exact: {word} for every value (sympy's assumptions)")
         witness = _opposite_point(expr, box, want, _sample_points(expr, box))
         if witness is not None:
             return witness
@@ -384,7 +388,7 @@ def _sign_by_zeros(expr: sympy.Expr, box: Box, want: int) -> Decided[bool] | Non
         return None
     ends = [lo, *zeros, hi]
     for a, b in zip(ends, ends[1:]):
-        centre = {symbol: (a + b) / 2}
+        centre = {symbol: rational_inside(a, b)}
         side = _ball_sign(expr, centre)
         if side is None:
             return None
@@ -438,7 +442,7 @@ def abs_free_pieces(expr: sympy.Expr, box: Box) -> list[tuple[Box, sympy.Expr]] 
 
 def drop_abs(expr: sympy.Expr, box: Box) -> sympy.Expr:
     """``expr`` with each |f| replaced by f or -f where the sign of f is proved on the box."""
-    if not box or not isinstance(expr, sympy.Basic) or not expr.has(sympy.Abs):
+    if not isinstance(expr, sympy.Basic) or not expr.has(sympy.Abs):
         return expr
     replacements = {}
     for node in expr.atoms(sympy.Abs):
@@ -467,7 +471,7 @@ def sign(expr, box: Box | None = None) -> Decided[int]:
     down = _one_sign(expr, box, -1)
     if down.value:
         return Decided(-1, down.proof)
-    if up.value is None and down.value is None and _proved_zero(expr, box):
+    if up.value is None and down.value is None and _exact_zero(expr, box)[0]:
         return Decided(0, "exact rewriting gives 0")
     if up.value is False and down.value is False:
         return Decided(None, f"it takes both signs: {up.proof}; {down.proof}",
@@ -476,11 +480,14 @@ def sign(expr, box: Box | None = None) -> Decided[int]:
     return Decided(None, undecided.proof, undecided.hint, point=up.point or down.point)
 
 
-def _proved_zero(expr: sympy.Expr, box: Box) -> bool:
+def _exact_zero(expr: sympy.Expr, box: Box) -> tuple[bool, str]:
+    """(proved zero by exact rewriting, what happened)."""
     try:
-        return identically_zero(expr, parameters_of(expr.free_symbols, box))
-    except TooLarge:
-        return False
+        if identically_zero(expr, parameters_of(expr.free_symbols, box)):
+            return True, "exact rewriting gives 0"
+        return False, "exact rewriting does not give 0"
+    except TooLarge as why:
+        return False, f"exact rewriting was skipped: {why}"
 
 
 def compare(a, b, box: Box | None = None) -> Decided[int]:

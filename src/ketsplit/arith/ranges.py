@@ -16,6 +16,8 @@ code in :mod:`.decide` proves signs piece by piece.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from fractions import Fraction
+from math import floor
 from typing import Callable, Mapping
 
 import sympy
@@ -215,8 +217,48 @@ def box_enclosure(expr: sympy.Expr, box: Box, bits: int = RANGE_BITS) -> acb:
     return encloser(expr)
 
 
+def simplest_between(lo: Fraction, hi: Fraction) -> Fraction:
+    """The rational with the smallest denominator in the closed interval [lo, hi]."""
+    if lo <= 0 <= hi:
+        return Fraction(0)
+    if hi < 0:
+        return -simplest_between(-hi, -lo)
+    whole = floor(lo)
+    if whole == lo:
+        return Fraction(whole)
+    if whole + 1 <= hi:
+        return Fraction(whole + 1)
+    return whole + 1 / simplest_between(1 / (hi - whole), 1 / (lo - whole))
+
+
+def _fraction(exact: arb) -> Fraction:
+    mantissa, exponent = exact.man_exp()
+    return Fraction(int(mantissa)) * Fraction(2) ** int(exponent)
+
+
+def rational_inside(lo: sympy.Expr, hi: sympy.Expr, at: sympy.Rational = sympy.Rational(1, 2)
+                    ) -> sympy.Expr:
+    """A simple rational near lo + at (hi - lo), strictly inside (lo, hi) (certified by
+    balls); the exact point lo + at (hi - lo) when no rational is found (lo == hi, say)."""
+    exact = lo + at * (hi - lo)
+    if exact.is_Rational or lo == hi:
+        return exact
+    spread = min(at, 1 - at) / 2
+    walker = RangeWalker({}, 96)
+    try:
+        low = walker.constant(lo + (at - spread) * (hi - lo)).hi
+        high = walker.constant(lo + (at + spread) * (hi - lo)).lo
+    except NoRange:
+        return exact
+    if not low < high:
+        return exact
+    found = simplest_between(_fraction(low), _fraction(high))
+    return sympy.Rational(found.numerator, found.denominator)
+
+
 def midpoint(box: Box) -> dict[sympy.Symbol, sympy.Expr]:
-    return {s: (lo + hi) / 2 for s, (lo, hi) in box.items()}
+    """A point in the middle half of the box, rational where the ranges allow."""
+    return {s: rational_inside(lo, hi) for s, (lo, hi) in box.items()}
 
 
 def bisect(box: Box, bits: int = 64) -> tuple[dict, dict]:

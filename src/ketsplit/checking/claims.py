@@ -34,16 +34,17 @@ from ..exact.coerce import as_expr
 from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
 from ..language.build import KetValue
 from ..language.errors import InputError
-from ..exact.signs import sign_on_box
-from ..numeric.schmidt import certified_schmidt
+from ..arith.decide import ball_at, is_nonnegative
+from ..numeric.schmidt import certified_schmidt, start_bits
+from ..render.ketprint import text
 from ..states import Parameter, State
 from .evaluation import values_at
 from .checker import compare_values
-from .decide import Difference, Entry, Options, Point, decide
+from .decide import Difference, Entry, Options, Point, box_of_params, complex_text, decide
 from .forms import FormTerm
 from .sides import paired_difference, parameters
 from .points import domain_text
-from .verdict import Verdict, all_of
+from .verdict import DIFFERENCE, Verdict, all_of
 
 MAX_EXACT_SIDE = 6       # power sums of G are tried exactly up to this side dimension
 MAX_EXACT_MINORS = 400   # minors listed exactly up to this many
@@ -96,15 +97,54 @@ def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
 
 
 def _nonnegative(claimed: list[sympy.Expr], params: tuple[Parameter, ...],
-                 options: Options) -> Verdict:
-    """Each claimed coefficient is real and >= 0: proved over the declared ranges when the
-    signs there can be (:func:`ketsplit.exact.signs.sign_on_box`), else c = |c| decided."""
-    box = {p.symbol: p.range for p in params if p.is_real and p.range is not None}
-    if box and all(sign_on_box(as_expr(c), box) == 1 for c in claimed):
-        return Verdict(True, "exact", "each claimed coefficient is >= 0 on the declared ranges",
-                       domain_text(params))
-    signs = [(f"c{k} - |c{k}|", c, sympy.Abs(c)) for k, c in enumerate(claimed, start=1)]
-    return decide(paired_difference(signs, params, ""), options)
+                 options: Options, name: str = "c") -> Verdict:
+    """Each claimed coefficient is real and >= 0 on the whole declared domain.
+
+    Proved by the decision layer (exact zeros and balls, or range arithmetic
+    over the box of declared ranges); refuted by a point where a ball shows a
+    negative or non-real value; else undecided, saying how to decide.
+    """
+    box = box_of_params(params)
+    domain = domain_text(params)
+    proofs = []
+    for k, c in enumerate(claimed, start=1):
+        found = is_nonnegative(as_expr(c), box)
+        if found.value is False:
+            return _negative_at(f"{name}{k}", as_expr(c), found, domain, options.digits)
+        if found.value is None:
+            return Verdict(None, "none", f"{name}{k} = {text(as_expr(c))}: {found.proof}", domain,
+                           hint=found.hint or "check at a parameter point")
+        proofs.append(found.proof)
+    return Verdict(True, _sign_method(claimed, proofs), f"each claimed coefficient is >= 0 on the whole domain "
+                                 f"({'; '.join(dict.fromkeys(proofs))})", domain)
+
+
+def _sign_method(claimed: list[sympy.Expr], proofs: list[str]) -> str:
+    """'exact' when every sign came from exact algebra; else what the proofs used."""
+    kinds = set()
+    for c, proof in zip(claimed, proofs):
+        if not proof.startswith("exact"):
+            symbolic = bool(as_expr(c).free_symbols)
+            kinds.add("signs proved over the declared range" if symbolic
+                      else "signs by certified enclosure")
+    return "; ".join(sorted(kinds)) or "exact"
+
+
+def _negative_at(label: str, coefficient: sympy.Expr, found, domain: str, digits: int) -> Verdict:
+    """'fails' at the witness point, with the coefficient's certified value there."""
+    point = dict(found.point or {})
+    shown = None
+    for bits in (start_bits(digits), 4 * start_bits(digits)):
+        ball = ball_at(coefficient, point, bits)
+        shown = complex_text(ball, digits) if ball is not None else None
+        if shown is not None and shown.digits >= digits:
+            break
+    counterexample: dict = {s.name: v for s, v in point.items()}
+    counterexample[DIFFERENCE] = shown.text if shown else "negative (certified)"
+    return Verdict(False, "certified counterexample",
+                   f"the claimed coefficient {label} = {text(coefficient)} is not real and "
+                   f"nonnegative everywhere ({found.proof})", domain, counterexample,
+                   shown.digits if shown else 0, label)
 
 
 def _actual_coefficients(state: State, cut: Cut, counterexample: dict, digits: int) -> str:
@@ -139,7 +179,7 @@ def _spectrum_difference(state: State, cut: Cut, claimed: list[sympy.Expr],
             return [Entry(labels[j], sums[j] - values[count + j],
                           abs(sums[j]) + abs(values[count + j])) for j in range(m)]
 
-    return Difference(tuple(exact), numeric, params, "", skipped)
+    return Difference(tuple(exact), numeric, params, "", skipped, tuple(labels[:len(exact)]))
 
 
 def _power_sum_identities(g: sympy.Matrix, norm2: sympy.Expr, claimed_sums: list[sympy.Expr]):
@@ -213,7 +253,6 @@ def rank_claim(state: State, cut: Cut, rank: int, params: tuple[Parameter, ...],
 
 
 def _point_text(verdict: Verdict) -> str:
-    from ..render.ketprint import text
     values = [f"{k} = {text(v)}" for k, v in (verdict.counterexample or {}).items()
               if isinstance(v, sympy.Basic)]
     return f" (at {', '.join(values)})" if values else ""
@@ -230,16 +269,19 @@ def _minor_difference(state: State, cut: Cut, size: int, params: tuple[Parameter
     cols = sorted({j for _, j in matrix.entries})
     count = comb(len(rows), size) * comb(len(cols), size)
     exact: tuple[sympy.Expr, ...] = ()
+    names: tuple[str, ...] = ()
     skipped = ""
     if count > MAX_EXACT_MINORS:
         skipped = f"the exact path was skipped: {count} minors of size {size}"
     else:
         dense = matrix.block_matrix(rows, cols)
-        exact = tuple(dense.extract(list(r), list(c)).det()
-                      for r in combinations(range(len(rows)), size)
-                      for c in combinations(range(len(cols)), size))
+        chosen = [(r, c) for r in combinations(range(len(rows)), size)
+                  for c in combinations(range(len(cols)), size)]
+        exact = tuple(dense.extract(list(r), list(c)).det() for r, c in chosen)
+        names = tuple(f"the {size}x{size} minor on rows {_indices(r)} and columns {_indices(c)}"
+                      for r, c in chosen)
         if not exact:
-            exact = (sympy.Integer(0),)
+            exact, names = (sympy.Integer(0),), ("no minor of this size",)
     amplitudes = state.terms()
     label = f"sum of |{size}x{size} minors|^2 of the normalised coefficient matrix"
 
@@ -249,25 +291,35 @@ def _minor_difference(state: State, cut: Cut, size: int, params: tuple[Parameter
             rho = _numeric_rho(state, cut, dict(zip((k for k, _ in amplitudes), values)))
             return [Entry(label, elementary(rho, size), flint.arb(1))]
 
-    return Difference(exact, numeric, params, "", skipped)
+    return Difference(exact, numeric, params, "", skipped, names if exact else ())
+
+
+def _indices(chosen: tuple[int, ...]) -> str:
+    return ", ".join(str(k + 1) for k in chosen)
 
 
 def schmidt_form_claim(state: State, cut: Cut, terms: list[FormTerm],
                        declared: Mapping[str, Parameter], options: Options) -> Verdict:
-    """The form equals the state, and its left factors (and its right ones) are orthogonal."""
+    """The form equals the state, its left factors (and its right ones) are orthogonal, and
+    its coefficients are real and nonnegative on the whole domain."""
     form = form_ket(state, cut, terms)
-    equal = compare_values(state, form, declared, False, options.part(2))
-    pairs = orthogonality(terms)
-    if not pairs or equal.holds is False:
+    equal = compare_values(state, form, declared, False, options.part(3))
+    if equal.holds is False:
         return equal
     symbols = set(state.symbols) | {s for t in terms for v in (t.left, t.right)
                                     for a in v.terms.values() for s in a.free_symbols}
+    symbols |= {s for t in terms for s in as_expr(t.coefficient).free_symbols}
     params = parameters(symbols, declared)
-    orthogonal = decide(paired_difference(pairs, params, ""), options.part(2))
-    return all_of(((equal, "the form is not the state"),
-                   (orthogonal, "the form equals the state but is not a Schmidt form")),
-                  domain_text(params), "the form equals the state and its factors on each side "
-                                       f"are orthogonal: a Schmidt form across {cut.describe(state)}")
+    parts = [(equal, "the form is not the state")]
+    pairs = orthogonality(terms)
+    if pairs:
+        parts.append((decide(paired_difference(pairs, params, ""), options.part(3)),
+                      "the form equals the state but its factors are not orthogonal"))
+    parts.append((_nonnegative([t.coefficient for t in terms], params, options.part(3)),
+                  "a coefficient of the form is not a Schmidt coefficient"))
+    return all_of(tuple(parts), domain_text(params),
+                  "the form equals the state, its factors on each side are orthogonal and its "
+                  f"coefficients are >= 0: a Schmidt form across {cut.describe(state)}")
 
 
 def form_ket(state: State, cut: Cut, terms: list[FormTerm]) -> KetValue:

@@ -1,32 +1,29 @@
-"""Deciding whether a difference vanishes: exact rewriting first, then random points.
+"""Deciding whether a difference vanishes: proof, counterexample, stated probability, or undecided.
 
 A claim is handed over as a :class:`Difference`: exact expressions that all
 vanish identically iff the claim holds, and a function giving the certified
-differences at a point.  The decision runs in this order, within a time
-budget (seconds, checked between steps):
+differences at a point.  The decision runs in this order:
 
-1. the exact path (:mod:`.exactpath`): proven zero -> holds (exact);
-2. random exact points (:mod:`.points`), each evaluated in ball arithmetic.
-   A ball that excludes zero refutes the claim for sure; the counterexample
-   is then refined to the requested number of certified digits.  A point
-   where every ball holds zero and is narrower than 10^-(digits + 10) (times
-   the size of the sides, at least 1) agrees; CONFIRMATIONS agreeing points
-   confirm the claim with the stated confidence.  A point that stays unclear
-   up to MAX_PRECISION_FACTOR times the starting precision (a pole, heavy
-   cancellation) is skipped.
+1. the decision layer (:func:`ketsplit.arith.decide.is_zero`) on each
+   expression over the declared box: exact rewriting (after |f| is split at
+   the exact zeros of f) proves "holds (exact)"; a point where a ball
+   excludes zero refutes the claim (the counterexample is re-checked and
+   shown to the requested number of certified digits);
+2. when the expressions are rational functions of polynomial variables
+   (:mod:`.randomized`): exact values at random points of those variables
+   refute exactly, or confirm with a stated Schwartz-Zippel bound;
+3. otherwise random exact points of the domain may refute (balls excluding
+   zero), but never confirm: the verdict is undecided and says how to decide.
 
-The exact path gets at most ``Options.exact_seconds`` (the session's exact
-budget, and at most half of the whole budget); the rest goes to the random
-points.  Both are held to their time by a timer (:mod:`ketsplit.numeric.budget`)
-that interrupts a long sympy step in the main thread, and by checks of the
-clock between steps elsewhere.  When the budget runs out first, the verdict is
-undecided and says what was tried.
+The exact step gets at most ``Options.exact_seconds``; a timer interrupts a
+long sympy step, and the verdict is then undecided (never a guessed "holds").
 """
 
 from __future__ import annotations
 
 import time
 import zlib
+from itertools import islice
 from dataclasses import dataclass, replace
 from typing import Callable, Mapping
 
@@ -38,16 +35,16 @@ from ..states import Parameter
 from ..numeric.budget import OverBudget, time_budget
 from ..numeric.digits import certain_decimal, zero_bound_text
 from ..numeric.schmidt import start_bits
+from ..arith.decide import is_zero
+from . import randomized
 from .evaluation import NotEvaluable
-from .exactpath import all_zero
 from .points import domain_text, points
 from .verdict import DIFFERENCE, WHERE, Verdict
 
-CONFIRMATIONS = 6             # agreeing random points needed to confirm
-MAX_POINTS = 3 * CONFIRMATIONS
+SAMPLE_POINTS = 8             # random domain points tried for a counterexample
 MAX_PRECISION_FACTOR = 8      # escalation limit for an unclear point
-EXTRA_DIGITS = 10             # agreement is asked to digits + EXTRA_DIGITS
-CONSTANT_DIGITS = 100         # agreement asked of a difference without parameters
+EXTRA_DIGITS = 10             # working digits above the requested ones
+EXACT_VALUE_OPS = 200         # a counterexample's value is tried exactly up to this size
 BUDGET = 10.0                 # default seconds for one check
 EXACT_SHARE = 5.0             # default cap on the exact path's seconds (and at most half the budget)
 
@@ -73,6 +70,7 @@ class Difference:
     params: tuple[Parameter, ...]
     quantity: str = DIFFERENCE   # "": each entry's ``where`` names its own quantity
     exact_skipped: str = ""      # why there are no exact expressions to try
+    labels: tuple[str, ...] = ()  # what each exact expression is (its entry's ``where``)
 
     def seed(self) -> int:
         return zlib.crc32("|".join(sympy.srepr(e) for e in self.exact).encode()) ^ len(self.params)
@@ -93,104 +91,125 @@ class Options:
         return replace(self, budget=self.budget / parts)
 
 
+def box_of_params(params: tuple[Parameter, ...]) -> dict:
+    """The declared ranges of the real parameters, as a box for :mod:`ketsplit.arith`."""
+    return {p.symbol: p.range for p in params if p.is_real and p.range is not None}
+
+
+@dataclass(frozen=True)
+class ExactOutcome:
+    proved: bool
+    story: str
+    witness: Point | None = None    # where an entry is certainly nonzero ({} for constants)
+
+
 def decide(difference: Difference, options: Options = Options()) -> Verdict:
-    """Exact rewriting, then certified random points, within ``options.budget`` seconds."""
+    """Exact proof, or a checked counterexample, or a stated probability, or undecided."""
     start = time.monotonic()
     deadline = start + options.budget
     domain = domain_text(difference.params)
-    proven, exact_story = _exact(difference, options, start)
-    if proven:
-        return Verdict(True, "exact", exact_story, domain, quantity=difference.quantity)
+    exact = _exact(difference, options, box_of_params(difference.params))
+    if exact.proved:
+        return Verdict(True, "exact", exact.story, domain, quantity=difference.quantity)
     try:
         with time_budget(deadline - time.monotonic()):
-            return _randomized(difference, options, deadline, domain, exact_story)
+            return _after_exact(difference, options, exact, domain)
     except NotEvaluable as why:
-        reason = f"{exact_story}; and {why}"
+        reason = f"{exact.story}; and {why}"
     except OverBudget:
-        reason = f"{exact_story}; the random points ran past the {options.budget:g} s budget"
-    return Verdict(None, "none", reason, domain, quantity=difference.quantity)
+        reason = f"{exact.story}; the search for a counterexample ran past the " \
+                 f"{options.budget:g} s budget"
+    return Verdict(None, "none", reason, domain, quantity=difference.quantity,
+                   hint=_hint(difference))
 
 
-def _exact(difference: Difference, options: Options, start: float) -> tuple[bool, str]:
-    """The exact path within its share of the budget (interrupted by a timer when it runs over)."""
+def _exact(difference: Difference, options: Options, box: dict) -> ExactOutcome:
+    """Each expression through the decision layer, within the exact share of the budget."""
     if difference.exact_skipped:
-        return False, difference.exact_skipped
+        return ExactOutcome(False, difference.exact_skipped)
     seconds = options.exact_seconds
     if seconds <= 0:
-        return False, "the exact path was skipped: no time for it"
+        return ExactOutcome(False, "the exact path was skipped: no time for it")
+    proofs: list[str] = []
     try:
         with time_budget(seconds):
-            return all_zero(difference.exact, difference.params, start + seconds)
+            for expr in difference.exact:
+                found = is_zero(expr, box)
+                if found.value is False:
+                    return ExactOutcome(False, f"not identically zero: {found.proof}",
+                                        dict(found.point or {}))
+                if found.value is None:
+                    return ExactOutcome(False, f"the exact path did not decide: {found.proof}")
+                proofs.append(found.proof)
     except OverBudget:
-        return False, f"the exact path ran past its {seconds:g} s share of the budget"
+        return ExactOutcome(False, f"the exact path ran past its {seconds:g} s share of the budget")
+    pieces = " (piece by piece between the zeros of the |.| arguments)" \
+        if any("piece" in p for p in proofs) else ""
+    return ExactOutcome(True, f"every entry vanishes after exact rewriting{pieces}")
 
 
-def _randomized(difference: Difference, options: Options, deadline: float, domain: str,
-                exact_story: str) -> Verdict:
-    wanted_digits = (options.digits + EXTRA_DIGITS) if difference.params else CONSTANT_DIGITS
-    needed = CONFIRMATIONS if difference.params else 1
-    agreed, unclear = 0, 0
-    for point in points(difference.params, difference.seed()):
-        if agreed >= needed or agreed + unclear >= MAX_POINTS or time.monotonic() > deadline:
-            break
-        outcome, prec = _judge_point(difference, point, wanted_digits)
-        if isinstance(outcome, Entry):
-            return _refuted(difference, point, outcome, prec, options, domain)
-        agreed += outcome == "zero"
-        unclear += outcome == "unclear"
-    if agreed >= needed:
-        method, confidence = _confirmation(agreed, wanted_digits, bool(difference.params))
-        return Verdict(True, method, f"{exact_story}; {confidence}", domain,
-                       quantity=difference.quantity)
-    ran_out = " before the time budget ran out" if time.monotonic() > deadline else ""
-    reason = (f"{exact_story}; {agreed} random point(s) agreed to {wanted_digits} digits and "
-              f"{unclear} stayed unclear{ran_out} ({needed} agreeing points are needed)")
-    return Verdict(None, "none", reason, domain, quantity=difference.quantity)
+def _after_exact(difference: Difference, options: Options, exact: ExactOutcome,
+                 domain: str) -> Verdict:
+    if exact.witness is not None:
+        refuted = _refute_at(difference, exact.witness, options, domain)
+        if refuted is not None:
+            return refuted
+    story = exact.story
+    if difference.exact and any(e.free_symbols for e in difference.exact):
+        try:
+            outcome = randomized.run(difference.exact, difference.params, difference.seed())
+        except randomized.NotPolynomial as why:
+            story = f"{story}; {why}"
+        else:
+            if isinstance(outcome, randomized.Refutation):
+                return _refuted_exactly(difference, outcome, domain)
+            if isinstance(outcome, randomized.Confirmation):
+                return Verdict(True, f"randomized ({outcome.text()})",
+                               f"{story}; {outcome.points} random points in the polynomial "
+                               "variables give exactly 0", domain, quantity=difference.quantity)
+            story = f"{story}; a random point's value could not be decided exactly"
+    for point in islice(points(difference.params, difference.seed()), SAMPLE_POINTS):
+        refuted = _refute_at(difference, point, options, domain)
+        if refuted is not None:
+            return refuted
+    tried = f"; no counterexample among {SAMPLE_POINTS} points" if difference.params else ""
+    return Verdict(None, "none", f"{story}{tried}", domain, quantity=difference.quantity,
+                   hint=_hint(difference))
 
 
-def _confirmation(agreed: int, digits: int, has_params: bool) -> tuple[str, str]:
-    """(method, confidence statement) of a randomized confirmation."""
-    if not has_params:
-        return (f"numeric, {digits} digits",
-                f"the difference is below 10^-{digits} in certified arithmetic; not a proof")
-    return (f"randomized, {agreed} points, {digits} digits",
-            f"{agreed} random exact points agree to {digits} certified digits: a nonzero "
-            "difference would have to vanish to that accuracy at each of them")
+def _hint(difference: Difference) -> str:
+    if not difference.params:
+        return "write the values in exact form (radicals, rationals), or ask for more digits"
+    name = difference.params[0].name
+    return (f"check at a parameter point ('... with {name} = 1/3'), or declare a narrower "
+            "range")
 
 
-def _judge_point(difference: Difference, point: Point, digits: int):
-    """('zero' | 'unclear' | the first Entry that is certainly nonzero, precision used)."""
-    prec = start_bits(digits)
+def _refute_at(difference: Difference, point: Point, options: Options,
+               domain: str) -> Verdict | None:
+    """The verdict 'fails' at ``point`` when some entry's ball there excludes zero."""
+    prec = start_bits(options.digits + EXTRA_DIGITS)
     for _ in range(MAX_PRECISION_FACTOR.bit_length()):
-        entries = difference.numeric(point, prec)
-        outcome = _classify(entries, digits)
-        if outcome != "unclear":
-            return outcome, prec
+        for entry in difference.numeric(point, prec):
+            if entry.value.is_finite() and not entry.value.contains(0):
+                return _refuted(difference, point, entry, prec, options, domain)
         prec *= 2
-    return "unclear", prec
+    return None
 
 
-def _classify(entries: list[Entry], digits: int):
-    tolerance = flint.arb(10) ** (-digits)
-    clear = True
-    for entry in entries:
-        value = entry.value
-        if not value.is_finite():
-            clear = False
-        elif not value.contains(0):
-            return entry
-        elif not _small(value, tolerance * _at_least_one(entry.scale)):
-            clear = False
-    return "zero" if clear else "unclear"
-
-
-def _small(value: flint.acb, bound: flint.arb) -> bool:
-    return bool(abs(value).upper() < bound.lower())
-
-
-def _at_least_one(scale: flint.arb) -> flint.arb:
-    upper = scale.upper()
-    return upper if upper > 1 else flint.arb(1)
+def _refuted_exactly(difference: Difference, found: "randomized.Refutation",
+                     domain: str) -> Verdict:
+    """A refutation at a point of the polynomial variables, with the exact difference."""
+    from ..render.ketprint import text
+    where = difference.labels[found.index] if found.index < len(difference.labels) else ""
+    counterexample: dict = {symbol.name: value for symbol, value in found.point.items()}
+    counterexample[DIFFERENCE] = text(found.value)
+    quantity = difference.quantity or where
+    if where and difference.quantity:
+        counterexample[WHERE] = where
+    return Verdict(False, "exact counterexample", f"{quantity} is exactly nonzero at this "
+                   "point (computed in the polynomial variables)", domain, counterexample, 0,
+                   quantity)
 
 
 @dataclass(frozen=True)
@@ -218,8 +237,8 @@ def _refuted(difference: Difference, point: Point, entry: Entry, prec: int, opti
 def _exact_value(entry: Entry, point: Point) -> Shown | None:
     """The difference at the point as an exact rational (Gaussian) number, when it is one."""
     expr = as_expr(entry.exact) if entry.exact is not None else None
-    if expr is None or not expr.is_rational_function(*point):
-        return None  # only rational functions are sure to give an exact number quickly
+    if expr is None or sympy.count_ops(expr) > EXACT_VALUE_OPS:
+        return None  # a large expression may take long to evaluate exactly
     value = sympy.expand(expr.xreplace(dict(point)))
     if not value.is_number or value == 0:
         return None

@@ -7,11 +7,15 @@ left group and a right group at the same number of parts (the way the
 labels, such as ``|00>``, counts as separate factors only when the cut is
 given or inferred from other terms.  Anything else is not a claimed form.
 
-The tree keeps no brackets, so ``c (|0> + |1>)/sqrt(2) |1>`` reads as the
-number c/sqrt(2) times the factors |0> + |1> and |1>.  That is harmless: a
-sum of products a_k x_k w_k is a Schmidt form exactly when the x_k are
-pairwise orthogonal and so are the w_k (norms and phases move into the
-coefficients sigma_k = |a_k| |x_k| |w_k|), which is what the claim checks.
+The coefficient a_k of a term is the product of its numbers outside the ket
+factors: ``c (|0> + |1>)/sqrt(2) |1>`` reads as the number c/sqrt(2) times
+the factors |0> + |1> and |1>, while a bracketed factor on the right keeps
+its numbers (``sin(t) (|1>)(exp(i phi) |1>)`` has the coefficient sin(t)).
+A sum of products a_k x_k w_k is a Schmidt form when the x_k are pairwise
+orthogonal, so are the w_k, and each a_k is real and nonnegative (the norms
+of the factors are positive, so sigma_k = a_k |x_k| |w_k|); that is what the
+claim checks.  A bracketed first factor cannot be told from an unbracketed
+one (products associate to the left), so write a phase on the right factor.
 """
 
 from __future__ import annotations
@@ -77,10 +81,17 @@ def _factors(node: Node, builder: Builder) -> tuple[sympy.Expr, list[KetValue]] 
     return coefficient, kets
 
 
-def _product(node: Node) -> list[tuple[Node, bool]]:
-    if isinstance(node, Binary) and node.op in ("*", "⊗"):
-        return _product(node.left) + _product(node.right)
-    if isinstance(node, Binary) and node.op == "/":
+def _product(node: Node, grouped: bool = False) -> list[tuple[Node, bool]]:
+    """The factors of a product, left to right (True: divided by).
+
+    Products associate to the left, so a product met as a right operand was
+    written in brackets, as in ``sin(t) (|1>)(exp(i phi) |1>)``: it stays one
+    factor, and a number inside it stays with its ket instead of joining the
+    coefficient (whose sign the claim checks).
+    """
+    if isinstance(node, Binary) and node.op in ("*", "⊗") and not grouped:
+        return _product(node.left) + _product(node.right, grouped=True)
+    if isinstance(node, Binary) and node.op == "/" and not grouped:
         return _product(node.left) + [(node.right, True)]
     return [(node, False)]
 

@@ -145,5 +145,6 @@ def paired_difference(pairs: list[tuple[str, sympy.Expr, sympy.Expr]],
                           abs(values[k]) + abs(values[half + k]), lhs[k] - rhs[k])
                     for k in range(half)]
 
-    return Difference(tuple(a - b for a, b in zip(lhs, rhs)), numeric, params, quantity)
+    return Difference(tuple(a - b for a, b in zip(lhs, rhs)), numeric, params, quantity,
+                      labels=tuple(p[0] for p in pairs))
 

@@ -12,7 +12,9 @@ WHERE = "at"               # counterexample key of the entry that differs
 
 @dataclass(frozen=True)
 class Verdict:
-    """``holds`` is True, False, or None (undecided within the budget).
+    """``holds`` is True (proved exactly, over the declared range, or with the probability
+    bound its ``method`` states), False (a counterexample checked exactly or in balls), or
+    None (undecided: ``reason`` says what was tried and ``hint`` how to decide).
 
     ``counterexample`` maps parameter names to exact values, and the keys
     ``"lhs - rhs"`` (the certified difference there, as text) and ``"at"``
@@ -26,6 +28,7 @@ class Verdict:
     counterexample: dict | None = None
     digits: int = 0                    # certified digits in the difference (0: exact)
     quantity: str = DIFFERENCE         # what the difference is of, for the line
+    hint: str = ""                     # undecided: how to decide it
 
     def line(self) -> str:
         """A verdict a user can paste into notes."""
@@ -34,7 +37,8 @@ class Verdict:
             return f"holds{where} ({self.method})"
         if self.holds is False:
             return "fails" + self._failure()
-        return f"undecided: {self.reason}"
+        how = f"; to decide: {self.hint}" if self.hint else ""
+        return f"undecided: {self.reason}{how}"
 
     def _failure(self) -> str:
         if not self.counterexample:
@@ -65,6 +69,5 @@ def all_of(parts: tuple[tuple[Verdict, str], ...], domain: str, summary: str) ->
     undecided = [v for v, _ in parts if v.holds is None]
     if undecided:
         return replace(undecided[0], domain=domain)
-    methods = list(dict.fromkeys(v.method for v, _ in parts))
-    method = "exact" if methods == ["exact"] else "; ".join(m for m in methods if m != "exact")
+    method = "; ".join(dict.fromkeys(v.method for v, _ in parts))
     return Verdict(True, method, summary, domain)
