@@ -251,16 +251,22 @@ def rank_one(found: NumberBlock) -> Piece:
 
 
 def root(value: sympy.Expr) -> sympy.Expr:
-    """sqrt of a nonnegative closed form, denested where sympy's sqrtdenest can."""
+    """sqrt of a nonnegative closed form; sqrt(a + b sqrt(d)) denested when a^2 - b^2 d is a
+    rational square (the classical test, read from the structure, no search)."""
     result = sympy.sqrt(value)
-    if result.is_Pow and result.base.is_Add and result.base.has(sympy.Pow):
-        return sympy.sqrtdenest(result)
-    return result
+    if not (result.is_Pow and result.base.is_Add and len(result.base.args) == 2):
+        return result
+    a, rest = result.base.as_coeff_Add()
+    b, radical = rest.as_coeff_Mul()
+    if not (a.is_Rational and b.is_Rational and radical.is_Pow and radical.exp == sympy.Rational(1, 2)
+            and radical.base.is_Rational):
+        return result
+    c = sympy.sqrt(a * a - b * b * radical.base)
+    if not c.is_Rational:
+        return result
+    return sympy.expand(sympy.sqrt((a + c) / 2) + sympy.sign(b) * sympy.sqrt((a - c) / 2))
 
 
 def _readable(value: sympy.Expr) -> sympy.Expr:
-    """Expanded, with radicals out of denominators when the expression is small."""
-    value = sympy.expand(value)
-    if value.is_Rational or sympy.count_ops(value) > 60:
-        return value
-    return sympy.expand(sympy.radsimp(value))
+    """Expanded (radsimp on nested radicals costs more than the whole decomposition)."""
+    return sympy.expand(value)
