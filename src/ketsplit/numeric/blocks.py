@@ -2,9 +2,11 @@
 
 A block knows its exact entries and answers two kinds of question:
 
-- in ball arithmetic at a given precision: the enclosures of the squared
-  Schmidt coefficients of the block, computed on its smaller side (the
-  eigenvalues of B B^H or of B^H B);
+- in ball arithmetic at a given precision: its squared Schmidt coefficients
+  and Schmidt vectors, from the certified eigen-decomposition
+  (:mod:`ketsplit.numeric.hermitian`) of B B^H on its smaller side.  The
+  block enters as c (Bint + Delta): Bint Gaussian integers, c > 0 and
+  ||Delta||_F <= eta (eta = 0 when every entry is a Gaussian rational);
 - exactly, and only when a ball cannot exclude zero: how many of its
   coefficients are exactly zero.  That is decided by the exact rank in the
   block's own domain when the domain has a decidable zero test (integers,
@@ -14,34 +16,126 @@ A block knows its exact entries and answers two kinds of question:
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
-from functools import cached_property
+from fractions import Fraction
+from functools import cached_property, reduce
 
 import sympy
-from flint import acb_mat, arb, ctx
+from flint import arb, ctx, fmpq, fmpz_mat
 from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 
 from ..language.errors import LimitError
 from .enclose import Encloser, enclose
-from .hermitian import eigenvalues
+from .certified import Ball, SchmidtVector
+from .hermitian import Eigen, IntMatrix, eigen, single
 
 MAX_NUMERIC_SIDE = 512  # the smaller side of one block; beyond it the numeric path refuses
+FIXED_GUARD_BITS = 16   # bits kept beyond the working precision when a ball entry is rounded
 
 Entries = dict[tuple[int, int], sympy.Expr]
 
 
+@dataclass(frozen=True)
+class Fixed:
+    """The block, smaller side as rows, as ``scale`` (ints + Delta) with ||Delta||_F <= eta."""
+
+    ints: IntMatrix
+    scale: arb
+    eta: arb
+
+
+@dataclass(frozen=True, eq=False)
+class Spectrum:
+    """One block at one precision: squared coefficients (ascending) and their eigenvectors.
+
+    ``eigen`` is for Bint Bint^H plus a perturbation (the rounding of the
+    entries); ``squares`` and ``weight`` (sum |b_ij|^2) are in the block's
+    own units.  ``small`` and ``large`` are the global indices of the
+    smaller and the larger side.
+    """
+
+    squares: tuple[arb, ...]
+    weight: arb
+    eigen: Eigen
+    fixed: Fixed
+    small: tuple[int, ...]
+    large: tuple[int, ...]
+
+    def vectors(self, cluster: range, bits: int) -> list[tuple[SchmidtVector, SchmidtVector]] | None:
+        """(smaller side, larger side) vectors of the positions in one eigenvalue cluster.
+
+        The larger side's vector is w = B^T conj(u) / s.  For the cluster's
+        basis column x (within eps of u) it is taken as z / m with
+        z = Bint^T conj(x) and m the centre of the cluster's range of s:
+        ||B^T conj(u) - z|| <= s_max eps + eta ||x||, and |s_j / m - 1| <= r / m
+        for every s_j of the cluster (r the range's radius).  None when the
+        cluster's coefficients are not proved nonzero.
+        """
+        found = self.eigen
+        with ctx.workprec(bits):
+            roots = [nonnegative(found.values[k]).sqrt() for k in cluster]
+            hull = reduce(lambda a, b: a.union(b), roots)
+            if not hull > 0:
+                return None
+            centre, spread = hull.mid(), hull.rad()
+            top = nonnegative(found.values[-1]).upper().sqrt().upper()
+            z = self._images()
+            xr, xi = found.columns
+            out_bits = bits + FIXED_GUARD_BITS
+            man, exp = (int(v) for v in centre.man_exp())
+            pairs = []
+            for k in cluster:
+                eps = found.errors[k]
+                radius = ((top * eps + self.fixed.eta * (1 + eps)) / centre + spread / centre
+                          + arb(2) ** -out_bits).upper()
+                small = SchmidtVector(self.small, tuple(int(v) for v in xr[:, k]),
+                                      tuple(int(v) for v in xi[:, k]), -found.bits, Ball.of(eps))
+                shift = out_bits - found.bits - exp
+                large = SchmidtVector(self.large, _divided(z[0][:, k], man, shift),
+                                      _divided(z[1][:, k], man, shift), -out_bits, Ball.of(radius))
+                pairs.append((small, large))
+            return pairs
+
+    def _images(self):
+        """Bint^T conj(X) (scale 2^-bits), columns in ascending order, as object arrays."""
+        found = self.eigen
+        z = self.fixed.ints.transpose() * found.x.conjugate()
+        zr, zi = z.arrays()
+        order = list(found.order)
+        return zr[:, order], zi[:, order]
+
+
+def _divided(values, man: int, shift: int) -> tuple[int, ...]:
+    """round(v 2^shift / man) for each integer v (half-integers rounded up)."""
+    den = man << max(-shift, 0)
+    up = max(shift, 0)
+    return tuple((2 * (int(v) << up) + den) // (2 * den) for v in values)
+
+
 @dataclass(frozen=True, eq=False)
 class Block:
-    """Entries (i, j) -> exact value, with 0-based local row and column indices."""
+    """Entries (i, j) -> exact value, with 0-based local row and column indices.
+
+    ``row_index`` and ``col_index`` are the rows and columns of the whole
+    coefficient matrix that the local indices stand for.
+    """
 
     entries: Entries
     rows: int
     cols: int
+    row_index: tuple[int, ...] = ()
+    col_index: tuple[int, ...] = ()
 
     @property
     def side(self) -> int:
         return min(self.rows, self.cols)
+
+    @property
+    def flipped(self) -> bool:
+        """True when the smaller side is the columns (the work is done on B^T)."""
+        return self.rows > self.cols
 
     def check_size(self) -> None:
         if self.side > MAX_NUMERIC_SIDE:
@@ -59,24 +153,70 @@ class Block:
             total += abs(ball(value)) ** 2
         return total
 
-    def squared_coefficients(self, ball: Encloser, rank_one: bool = False) -> list[arb]:
-        """Enclosures of the block's squared Schmidt coefficients (unnormalised), ascending.
-
-        ``rank_one`` (a proved fact, see :attr:`rank_one`) skips the eigenvalue
-        problem: the one coefficient of a rank-one block is its weight.
-        """
-        if self.side == 1 or rank_one:
-            return [self.weight(ball)]
-        flip = self.rows > self.cols
-        matrix = acb_mat(self.cols, self.rows) if flip else acb_mat(self.rows, self.cols)
-        for (i, j), value in self.entries.items():
-            if flip:
-                matrix[j, i] = ball(value)
-            else:
-                matrix[i, j] = ball(value)
+    def spectrum(self, ball: Encloser) -> Spectrum:
+        """Certified squared coefficients and eigenvectors on the smaller side."""
+        fixed = self.fixed(ball)
+        gram = fixed.ints * fixed.ints.adjoint()
         with ctx.workprec(ball.bits):
-            rho = matrix * matrix.conjugate().transpose()
-        return eigenvalues(rho, ball.bits)
+            size = frobenius(fixed.ints)
+            eta = 2 * size * fixed.eta + fixed.eta ** 2
+            found = single(gram, eta) if self.side == 1 else eigen(gram, eta, ball.bits)
+            squares = tuple(nonnegative(v) * fixed.scale ** 2 for v in found.values)
+            weight = size ** 2 * fixed.scale ** 2 if fixed.eta == 0 else self.weight(ball)
+        return Spectrum(squares, weight, found, fixed, *self.vector_rows())
+
+    def fixed(self, ball: Encloser) -> Fixed:
+        """The block as Gaussian integers times a scale, exactly when it can be."""
+        exact = self.gaussian_rationals()
+        if exact is not None:
+            return exact
+        return self.rounded(ball)
+
+    def _shape(self) -> tuple[int, int]:
+        return (self.cols, self.rows) if self.flipped else (self.rows, self.cols)
+
+    def _place(self, i: int, j: int) -> tuple[int, int]:
+        return (j, i) if self.flipped else (i, j)
+
+    def gaussian_rationals(self) -> Fixed | None:
+        """Exact integers times 1/den when every entry is p/q + i r/s, else None."""
+        parts = {}
+        for key, value in self.entries.items():
+            found = gaussian_rational(value)
+            if found is None:
+                return None
+            parts[key] = found
+        den = reduce(math.lcm, (f.denominator for pair in parts.values() for f in pair), 1)
+        rows, cols = self._shape()
+        re, im = [[0] * cols for _ in range(rows)], [[0] * cols for _ in range(rows)]
+        for (i, j), (x, y) in parts.items():
+            r, c = self._place(i, j)
+            re[r][c], im[r][c] = int(x * den), int(y * den)
+        scale = arb(fmpq(1, den)) if den > 1 else arb(1)
+        return Fixed(IntMatrix(fmpz_mat(re), fmpz_mat(im)), scale, arb(0))
+
+    def rounded(self, ball: Encloser) -> Fixed:
+        """Entries enclosed at the working precision and rounded to integers times 2^-q."""
+        values = {key: ball(value) for key, value in self.entries.items()}
+        top = max((abs(z).upper() for z in values.values()), key=lambda v: v.mid())
+        if not top.is_finite():
+            raise ArithmeticError("an entry is not enclosed at this precision")
+        q = ball.bits + FIXED_GUARD_BITS - (int(top.mid().man_exp()[1]) + top.mid().man_exp()[0].bit_length()
+                                              if top > 0 else 0)
+        rows, cols = self._shape()
+        re, im = [[0] * cols for _ in range(rows)], [[0] * cols for _ in range(rows)]
+        error = arb(0)
+        with ctx.workprec(ball.bits + 64):
+            for (i, j), z in values.items():
+                r, c = self._place(i, j)
+                re[r][c], dr = round_part(z.real, q)
+                im[r][c], di = round_part(z.imag, q)
+                error += dr ** 2 + di ** 2
+        return Fixed(IntMatrix(fmpz_mat(re), fmpz_mat(im)), arb(2) ** -q, error.sqrt().upper())
+
+    def vector_rows(self) -> tuple[tuple[int, ...], tuple[int, ...]]:
+        """Global indices of the smaller side, then of the larger side."""
+        return (self.col_index, self.row_index) if self.flipped else (self.row_index, self.col_index)
 
     # -- exact facts, computed once and only when needed ----------------
     @cached_property
@@ -129,3 +269,54 @@ class Block:
         if self.exact_rank is not None:
             return self.exact_rank
         return 1 if self.rank_one else self.side
+
+
+def gaussian_rational(value: sympy.Expr) -> tuple[Fraction, Fraction] | None:
+    """(re, im) as fractions when ``value`` is written as p/q + i r/s (or a binary Float), else None."""
+    if value.is_Rational or value.is_Float:
+        return _fraction(value), Fraction(0)
+    if value is sympy.I:
+        return Fraction(0), Fraction(1)
+    if value.is_Mul and len(value.args) == 2 and value.args[1] is sympy.I and value.args[0].is_Rational:
+        return Fraction(0), _fraction(value.args[0])
+    if value.is_Add and len(value.args) == 2:
+        first, second = (gaussian_rational(v) for v in value.args)
+        if first is not None and second is not None:
+            return first[0] + second[0], first[1] + second[1]
+    return None
+
+
+def _fraction(value: sympy.Expr) -> Fraction:
+    if value.is_Float:
+        sign, mantissa, exponent, _ = value._mpf_
+        number = Fraction(mantissa) * Fraction(2) ** exponent
+        return -number if sign else number
+    return Fraction(int(value.p), int(value.q))
+
+
+def round_part(x: arb, q: int) -> tuple[int, arb]:
+    """round(mid(x) 2^q) and a bound of |x 2^q - that integer| (x a real ball)."""
+    mantissa, exponent = (int(v) for v in x.mid().man_exp())
+    shift = exponent + q
+    if shift >= 0:
+        value, rest = mantissa << shift, arb(0)
+    else:
+        value = (mantissa + (1 << (-shift - 1))) >> -shift
+        rest = abs(arb(mantissa) * arb(2) ** shift - value)
+    return value, rest + x.rad() * arb(2) ** q
+
+
+def frobenius(matrix: IntMatrix) -> arb:
+    """||matrix||_F, enclosed (exact integers summed exactly)."""
+    total = sum(int(v) ** 2 for v in matrix.re.entries()) + sum(int(v) ** 2 for v in matrix.im.entries())
+    return arb(total).sqrt()
+
+
+def nonnegative(value: arb) -> arb:
+    """The part of the ball at or above zero (the eigenvalue of a Gram matrix is >= 0)."""
+    if value >= 0:
+        return value
+    upper = value.upper()
+    if upper < 0:
+        raise ArithmeticError("an enclosure of a nonnegative eigenvalue lies below zero")
+    return arb(upper / 2, upper / 2)

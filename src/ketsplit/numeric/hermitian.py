@@ -1,192 +1,373 @@
-"""Certified eigenvalues of a Hermitian ball matrix (a reduced density matrix).
+"""Certified eigenvalues and eigenvectors of a Hermitian integer matrix plus a small perturbation.
 
-Two rigorous methods, the fast one first:
+The matrix is A = A0 + F with A0 an exact Gaussian-integer Hermitian matrix
+(``IntMatrix``) and ||F||_2 <= eta known.  All heavy arithmetic is exact
+integer matrix products (flint ``fmpz_mat``): eigenvector estimates X are
+kept in fixed point, X = Xint 2^-p, so X^H X and A0 X are computed without
+any rounding and the certificate needs no rounding-error analysis.
 
-1. **Refine and certify.**  numpy's float64 ``eigh`` gives approximate
-   eigenvectors X; a few steps of the Ogita-Aishima refinement (matrix
-   products only) bring them to the working precision.  Then, for the exact
-   Hermitian A inside the ball matrix and the exact matrix X:
+1. **Start**: numpy's float64 ``eigh`` of A0.
+2. **Refine** (Ogita & Aishima, Japan J. Indust. Appl. Math. 35 (2018)
+   1007-1035, with the Rayleigh-Ritz step of their part II, 36 (2019)
+   435-459, for clusters): from exact R = I - X^H X and S = X^H A0 X, a
+   correction E is computed in float64 (it only needs relative accuracy)
+   and X <- X + X E.  Each step about doubles the correct bits, so the fixed
+   point grows with it (53, ~110, ... bits, then the working precision).
+3. **Certify**, once, at the working precision, from the exact G = X^H X and
+   Y = A0 X, with d_k the Rayleigh quotients (any real numbers would do):
 
-   - G = X^H X and C = X^H A X are enclosed by ball matrix products.  If
-     ||G - I||_2 <= e < 1, X is nonsingular and, by Ostrowski's theorem
-     (Horn & Johnson, Matrix Analysis, Thm 4.5.9), the k-th smallest
-     eigenvalues satisfy lambda_k(C) = theta_k lambda_k(A) with
-     theta_k in [1 - e, 1 + e].
-   - Write C = diag(d) + F with d the real midpoints of C's diagonal.  C and
-     diag(d) are Hermitian, so by Weyl's inequality |lambda_k(C) - d_(k)| <=
-     ||F||_2 <= f, with d sorted ascending and f an upper bound of the
-     Frobenius norm of F.
-
-   Hence lambda_k(A) lies in [d_(k) - f, d_(k) + f] / [1 - e, 1 + e], which
-   ball division encloses.  Both norms are bounded from above through
-   Frobenius norms of ball matrices, so the enclosure holds for every A in
-   the ball.  Repeated eigenvalues need no special care.
-
-2. **flint's** ``acb_mat.eig(multiple=True)`` (rigorous clusters), used when
-   the refinement cannot reach e < 1 or leaves wide enclosures (for instance
-   when float64 cannot even represent the matrix); the tighter result is kept.
+   - e >= ||G - I||_F.  If e < 1, sigma_min(X) >= sqrt(1 - e).
+   - Kahan's theorem (Parlett, The Symmetric Eigenvalue Problem, Thm 11.5.1;
+     X square): the sorted eigenvalues of A and the sorted d_k differ by at
+     most f = ||A X - X D||_2 / sigma_min(X) <= (||Y - X D||_F + eta
+     sqrt(1 + e)) / sqrt(1 - e).
+   - Eigenvalues whose intervals [d_k - f, d_k + f] overlap form a cluster.
+     For a cluster K with delta = its distance to the other intervals,
+     U_perp^H X_K solves a Sylvester equation with separated Hermitian
+     coefficients (Bhatia, Davis & McIntosh 1983; Davis & Kahan 1970), so
+     ||sin Theta(range X_K, U_K)||_F <= ||R_K||_F / (delta sqrt(1 - e)).
+   - Hence some orthonormal basis U_K W of the cluster's invariant subspace
+     lies within ||G_K - I||_F + sqrt(2) ||sin Theta||_F of X_K, column by
+     column (the Procrustes bound ||Q - U W||_F <= sqrt(2) ||sin Theta||_F).
+     A cluster of one is an eigenvector, unique up to a phase: fixing the
+     phase so that entry j (the largest of x) is real positive adds
+     2 (eps + |Im x_j|) ||x|| / |x_j| to the bound.
 """
 
 from __future__ import annotations
 
 import math
-from typing import TYPE_CHECKING
+from dataclasses import dataclass
 
-from flint import acb, acb_mat, arb, ctx
+from flint import arb, fmpz_mat
 
-if TYPE_CHECKING:
+GUARD_BITS = 20
+START_BITS = 50          # float64 eigenvectors, as fixed point
+MAX_STEPS = 12
+GAP_BITS_MAX = 40        # extra precision bought for small (but resolved) eigenvalue gaps
+
+
+# -- complex integer matrices -------------------------------------------------
+@dataclass(frozen=True)
+class IntMatrix:
+    """A Gaussian-integer matrix re + i im (flint ``fmpz_mat`` parts)."""
+
+    re: fmpz_mat
+    im: fmpz_mat
+
+    @property
+    def shape(self) -> tuple[int, int]:
+        return self.re.nrows(), self.re.ncols()
+
+    def __mul__(self, other: IntMatrix) -> IntMatrix:
+        """Gauss's three-product complex multiplication (exact)."""
+        p1, p2 = self.re * other.re, self.im * other.im
+        p3 = (self.re + self.im) * (other.re + other.im)
+        return IntMatrix(p1 - p2, p3 - p1 - p2)
+
+    def adjoint(self) -> IntMatrix:
+        return IntMatrix(self.re.transpose(), -self.im.transpose())
+
+    def transpose(self) -> IntMatrix:
+        return IntMatrix(self.re.transpose(), self.im.transpose())
+
+    def conjugate(self) -> IntMatrix:
+        return IntMatrix(self.re, -self.im)
+
+    def shifted(self, bits: int) -> IntMatrix:
+        return IntMatrix(self.re * (1 << bits), self.im * (1 << bits)) if bits else self
+
+    def __add__(self, other: IntMatrix) -> IntMatrix:
+        return IntMatrix(self.re + other.re, self.im + other.im)
+
+    def arrays(self):
+        """Entries as numpy object arrays of Python integers (for elementwise exact work)."""
+        import numpy
+        rows, cols = self.shape
+        to = lambda m: numpy.array([int(v) for v in m.entries()], dtype=object).reshape(rows, cols)  # noqa: E731
+        return to(self.re), to(self.im)
+
+    def floats(self, shift: int):
+        """The matrix times 2^-shift as complex128 (an approximation)."""
+        return _floats(self.re, shift) + 1j * _floats(self.im, shift)
+
+
+def _floats(matrix: fmpz_mat, shift: int):
     import numpy
-
-REFINE_STEPS_MAX = 12
-FLOAT_BITS = 48   # what float64 eigenvectors are good for, roughly
-GUARD_BITS = 32
-
-
-def to_numpy(matrix: acb_mat) -> numpy.ndarray:
-    """Midpoints as complex128 (an approximation, only used to start the refinement)."""
-    import numpy  # imported on first use: it costs a tenth of a second at start-up
-    rows = matrix.nrows()
-    return numpy.array([[complex(matrix[i, j].mid()) for j in range(matrix.ncols())]
-                        for i in range(rows)], dtype=complex)
+    values = matrix.entries()
+    top = max((abs(v) for v in values), default=0)
+    drop = max(0, int(top).bit_length() - 60) if top else 0
+    ints = numpy.array([int(v >> drop) for v in values], dtype=float)
+    return numpy.ldexp(ints, drop - shift).reshape(matrix.nrows(), matrix.ncols())
 
 
-def from_numpy(array: numpy.ndarray) -> acb_mat:
-    return acb_mat([[acb(float(z.real), float(z.imag)) for z in row] for row in array])
+def from_floats(z, bits: int) -> IntMatrix:
+    """round(z 2^bits) as a Gaussian-integer matrix (z a complex128 array)."""
+    return IntMatrix(_ints(z.real, bits), _ints(z.imag, bits))
 
 
-def adjoint(matrix: acb_mat) -> acb_mat:
-    return matrix.conjugate().transpose()
+def _ints(x, bits: int) -> fmpz_mat:
+    import numpy
+    top = float(numpy.max(numpy.abs(x))) if x.size else 0.0
+    if top == 0.0:
+        return fmpz_mat(x.shape[0], x.shape[1])
+    drop = max(0, bits + math.frexp(top)[1] - 62)
+    small = numpy.rint(numpy.ldexp(x, bits - drop)).astype(numpy.int64)
+    matrix = fmpz_mat(small.tolist())
+    return matrix * (1 << drop) if drop else matrix
 
 
-def frobenius_upper(matrix: acb_mat) -> arb:
-    """An upper bound of the Frobenius norm of every matrix in the ball matrix."""
-    total = arb(0)
-    for i in range(matrix.nrows()):
-        for j in range(matrix.ncols()):
-            total += abs(matrix[i, j]).upper() ** 2
-    return total.sqrt().upper()
+def identity(n: int, bits: int) -> fmpz_mat:
+    return diagonal([1 << bits] * n)
 
 
-def refine_step(a: acb_mat, x: acb_mat) -> tuple[acb_mat, arb]:
-    """One Ogita-Aishima step (midpoint arithmetic); returns X' and ||S - diag||."""
-    n = a.nrows()
-    residual = (_identity(n) - adjoint(x) * x).mid()
-    s = (adjoint(x) * a * x).mid()
-    values = [(s[i, i] / (1 - residual[i, i])).real.mid() for i in range(n)]
-    off = frobenius_upper(s - _diagonal([acb(v) for v in values]))
-    delta = 2 * (off + frobenius_upper(a) * frobenius_upper(residual))
-    e = acb_mat(n, n)
-    for i in range(n):
-        for j in range(n):
-            gap = values[j] - values[i]
-            if i != j and abs(gap) > delta:
-                e[i, j] = ((s[i, j] + values[j] * residual[i, j]) / gap).mid()
-            else:
-                e[i, j] = (residual[i, j] / 2).mid()
-    return (x + x * e).mid(), off
-
-
-def _identity(n: int) -> acb_mat:
-    return _diagonal([acb(1)] * n)
-
-
-def _diagonal(values: list[acb]) -> acb_mat:
-    matrix = acb_mat(len(values), len(values))
+def diagonal(values: list[int]) -> fmpz_mat:
+    matrix = fmpz_mat(len(values), len(values))
     for k, v in enumerate(values):
         matrix[k, k] = v
     return matrix
 
 
-def certify(a: acb_mat, x: acb_mat) -> list[arb] | None:
-    """Enclosures of A's eigenvalues (ascending) from eigenvector estimates X, or None."""
-    n = a.nrows()
-    e = frobenius_upper(adjoint(x) * x - _identity(n))
-    if not e < 1:
-        return None
-    c = adjoint(x) * (a * x)
-    diagonal = sorted(c[k, k].real.mid() for k in range(n))
-    f = frobenius_upper(c - _diagonal([acb(c[k, k].real.mid()) for k in range(n)]))
-    scale = arb(1, e)
-    return [arb(d, f) / scale for d in diagonal]
+# -- the certified result ------------------------------------------------------
+@dataclass(frozen=True, eq=False)
+class Eigen:
+    """Certified eigen-decomposition of A = A0 + F, ascending.
+
+    Column k of ``columns`` (a pair of numpy object arrays, real and
+    imaginary parts, fixed point: value = int 2^-bits) is the estimate for
+    ``values[k]``; it is column ``order[k]`` of ``x``.  ``errors[k]`` bounds
+    the 2-norm distance from that column to a true unit eigenvector (phase
+    fixed: entry ``pivots[k]`` real positive) or, inside a cluster, to a
+    column of an orthonormal basis of the cluster's invariant subspace.
+    ``angles[c]`` bounds ||sin Theta||_F of cluster c (a range of positions).
+    """
+
+    values: tuple[arb, ...]
+    x: IntMatrix
+    order: tuple[int, ...]
+    columns: tuple
+    bits: int
+    errors: tuple[arb, ...]
+    clusters: tuple[range, ...]
+    angles: tuple[arb, ...]
+    pivots: tuple[int, ...]
 
 
-def refined_vectors(a: acb_mat, bits: int) -> acb_mat | None:
-    """Approximate eigenvectors of A refined to about ``bits`` bits, or None if float64 fails.
+def eigen(a: IntMatrix, eta: arb, bits: int) -> Eigen:
+    """Certified eigenpairs of the Hermitian A0 + F (||F|| <= eta), about ``bits`` bits."""
+    import numpy
+    n = a.shape[0]
+    af = a.floats(0)
+    scale = float(numpy.max(numpy.abs(af))) or 1.0
+    _, xf = numpy.linalg.eigh(af / scale)
+    xf = fix_phases(xf)
+    p, x = START_BITS, from_floats(xf, START_BITS)
+    target, last, found = bits + GUARD_BITS, None, None
+    for _ in range(MAX_STEPS):
+        y, g = a * x, x.adjoint() * x
+        if p >= target:
+            found, residual = certify(a, eta, x, p, y, g)
+            if residual is not None and (residual < 2.0 ** (2 * n.bit_length() - target)
+                                         or (last is not None and residual > last / 16)):
+                return found
+            last = residual if residual is not None else last
+        xf, correction, accuracy, gap_bits = refine(xf, x, x.adjoint() * y, g, p, scale)
+        target = max(target, bits + GUARD_BITS + gap_bits)
+        new_p = max(p, min(target, 2 * accuracy + GUARD_BITS))
+        x = x.shifted(new_p - p) + correction(new_p)
+        p = new_p
+    return found if found is not None else certify(a, eta, x, p, a * x, x.adjoint() * x)[0]
 
-    Ogita-Aishima steps treat eigenvalues closer than their own error
-    estimate as one cluster and stop improving inside it.  When they stall,
-    X is replaced by flint's approximate eigenvectors at the working
-    precision, which resolve the cluster, and the refinement goes on (up to
-    ``REFINE_STEPS_MAX`` steps in all).  The early steps run at the
-    precision their accuracy needs (twice the last one), not at ``bits``.
+
+def fix_phases(x):
+    """Columns rotated so that their largest entry is real positive (float)."""
+    import numpy
+    pivots = numpy.argmax(numpy.abs(x), axis=0)
+    top = x[pivots, numpy.arange(x.shape[1])]
+    return x * (numpy.abs(top) / top)[None, :]
+
+
+def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float):
+    """One Ogita-Aishima step from the exact S = X^H A0 X and G = X^H X (scale 2^-2p).
+
+    Returns the new float X, a function giving round(X E 2^bits) exactly as
+    an integer matrix, the estimated number of correct bits after the step,
+    and the bits to add for the smallest resolved eigenvalue gap.
     """
     import numpy
-    start = to_numpy(a)
-    if not numpy.all(numpy.isfinite(start)) or not numpy.any(start):
-        return None
-    _, vectors = numpy.linalg.eigh(start)
-    x = from_numpy(vectors)
-    size = frobenius_upper(a)
-    target = size * arb(2) ** (-bits + 2 * math.ceil(math.log2(a.nrows() + 1)))
-    last, split, accuracy = None, False, FLOAT_BITS
-    for _ in range(REFINE_STEPS_MAX):
-        with ctx.workprec(min(bits, 2 * accuracy + GUARD_BITS)):  # each step doubles the accuracy
-            x, off = refine_step(a, x)
-        accuracy = min(bits, 2 * accuracy)
-        if off < target or (accuracy == bits and (off / size) ** 2 * 2 ** GUARD_BITS < target / size):
-            # the step just taken squares the error it measured (quadratic convergence)
-            break
-        if last is not None and not off < last / 4:
-            if split:
-                break
-            x, split, last = split_clusters(a), True, None
+    n = xf.shape[0]
+    r = -(g.re - identity(n, 2 * p))
+    rf = _floats(r, 2 * p) - 1j * _floats(g.im, 2 * p)
+    diag_s = [int(s.re[k, k]) for k in range(n)]
+    diag_g = [int(g.re[k, k]) for k in range(n)]
+    lam = numpy.array([math.ldexp(float((ds << 60) // dg), -60) for ds, dg in zip(diag_s, diag_g)]) / scale
+    sf = IntMatrix(s.re - diagonal(diag_s), s.im).floats(2 * p) / scale   # off-diagonal part only
+    off = sf - numpy.diag(lam * numpy.diag(rf).real)                     # S - diag(lambda)
+    size = float(numpy.linalg.norm(numpy.diag(lam))) or 1.0
+    delta = 2 * (numpy.linalg.norm(off) + size * numpy.linalg.norm(rf))
+    gaps = lam[None, :] - lam[:, None]
+    apart = numpy.abs(gaps) > delta
+    numpy.fill_diagonal(apart, False)
+    e = numpy.where(apart, (sf + lam[None, :] * rf) / numpy.where(apart, gaps, 1.0), rf / 2)
+    e = rotate_clusters(e, sf, rf, lam, apart, delta)
+    xe = untilt(xf, xf @ e, x, p)
+    error = max(float(numpy.linalg.norm(rf)), float(numpy.linalg.norm(off)) / size, 2.0 ** -1000)
+    resolved = numpy.abs(gaps[apart])
+    gap = float(resolved.min()) / size if resolved.size else 1.0
+    gap_bits = min(GAP_BITS_MAX, max(0, int(-math.log2(gap)))) if gap > 2.0 ** -GAP_BITS_MAX else 0
+    return xf + xe, lambda bits: from_floats(xe, bits), int(-math.log2(error)), gap_bits
+
+
+def untilt(xf, xe, x: IntMatrix, p: int):
+    """The correction with each column turned so that its largest entry becomes real.
+
+    The turn by -theta is taken to first order (x -> x - i theta x), theta
+    being the new pivot's argument; the error is of second order and the
+    next step or the certificate accounts for it.
+    """
+    import numpy
+    n = xf.shape[1]
+    pivots = numpy.argmax(numpy.abs(xf), axis=0)
+    imag = numpy.array([int(x.im[int(j), k]) / 2 ** p for k, j in enumerate(pivots)])
+    columns = numpy.arange(n)
+    new = xf[pivots, columns] + xe[pivots, columns]
+    theta = (imag + xe[pivots, columns].imag) / new.real
+    return xe - 1j * theta[None, :] * xf
+
+
+def rotate_clusters(e, sf, rf, lam, apart, delta):
+    """Rayleigh-Ritz inside clusters whose spread stands out of the noise (Ogita-Aishima II).
+
+    A cluster is a run of eigenvalue estimates closer than ``delta``.  Its
+    block of S (shifted by the mean) is diagonalised in float64; when that
+    block is only noise (a truly repeated eigenvalue) nothing is rotated,
+    since any orthonormal basis of the subspace will do.
+    """
+    import numpy
+    n = len(lam)
+    order = numpy.argsort(lam)
+    start = 0
+    for k in range(1, n + 1):
+        if k < n and not apart[order[k - 1], order[k]]:
             continue
-        last = off
-    return x
+        members = order[start:k]
+        start = k
+        if len(members) < 2:
+            continue
+        block = sf[numpy.ix_(members, members)]
+        shift = numpy.trace(block).real / len(members)
+        block = block - shift * numpy.eye(len(members))
+        if numpy.linalg.norm(block) <= 2 ** 10 * delta * numpy.linalg.norm(rf):
+            continue
+        _, v = numpy.linalg.eigh(block)
+        v = fix_phases(v)
+        local = numpy.eye(len(members)) + rf[numpy.ix_(members, members)] / 2
+        e[numpy.ix_(members, members)] = local @ v - numpy.eye(len(members))
+    return e
 
 
-def split_clusters(a: acb_mat) -> acb_mat:
-    """Eigenvectors from flint's approximate eigensolver at the working precision.
+# -- certification ----------------------------------------------------------------
+def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMatrix
+            ) -> tuple[Eigen | None, float | None]:
+    """The enclosures from exact Y = A0 X (scale 2^-p) and G = X^H X (scale 2^-2p).
 
-    Used only when the refinement stalls on a cluster of distinct but close
-    eigenvalues; columns are normalised so that X^H X stays near I.
+    Also returns the residual relative to ||A|| (a float, to steer the
+    refinement); (None, None) when X is too far from orthonormal to certify.
     """
-    _, vectors = a.eig(algorithm="approx", right=True)
-    n = a.nrows()
-    columns = []
-    for k in range(n):
-        norm = sum((abs(vectors[i, k]) ** 2 for i in range(n)), arb(0)).sqrt()
-        columns.append([vectors[i, k] / norm for i in range(n)])
-    return acb_mat([[columns[k][i] for k in range(n)] for i in range(n)]).mid()
+    import numpy
+    n = x.shape[0]
+    one = 1 << (2 * p)
+    xr, xi = x.arrays()
+    yr, yi = y.arrays()
+    gr, gi = g.arrays()
+    gr = gr - numpy.diag([one] * n)
+    e = _upper_sqrt(int((gr * gr + gi * gi).sum()), 2 * p)
+    if not e < 1:
+        return None, None
+    lengths = [int(v) + one for v in numpy.diagonal(gr)]
+    rayleigh = (xr * yr + xi * yi).sum(axis=0)                            # scale 2^-2p
+    d = [_round_div(int(v) << p, length) for v, length in zip(rayleigh, lengths)]  # scale 2^-p
+    dd = numpy.array(d, dtype=object)[None, :]
+    rr, ri = (yr << p) - xr * dd, (yi << p) - xi * dd                      # scale 2^-2p
+    squares = [int(v) for v in (rr * rr + ri * ri).sum(axis=0)]
+    base, stretch = (1 - e).sqrt(), (1 + e).sqrt()
+    f = ((_upper_sqrt(sum(squares), 2 * p) + eta * stretch) / base).upper()
+    order = sorted(range(n), key=lambda k: d[k])
+    centers = [arb(d[k]) / arb(2) ** p for k in order]
+    clusters = _clusters(centers, f)
+    pivots = [int(k) for k in numpy.argmax(xr * xr + xi * xi, axis=0)]
+    errors: list[arb] = [arb(0)] * n
+    angles = []
+    for cluster in clusters:
+        members = [order[k] for k in cluster]
+        residual = _upper_sqrt(sum(squares[k] for k in members), 2 * p) + eta * stretch * arb(len(members)).sqrt()
+        delta = _separation(centers, cluster, f)
+        angle = (residual / (delta * base)).upper() if delta is not None else arb(0)
+        angles.append(angle)
+        gram = _upper_sqrt(sum(int(gr[i, j]) ** 2 + int(gi[i, j]) ** 2 for i in members for j in members), 2 * p)
+        bound = (gram + arb(2).sqrt() * angle).upper()
+        for k in cluster:
+            errors[k] = bound
+        if len(cluster) == 1:
+            errors[cluster[0]] = _phase_fixed(bound, members[0], pivots[members[0]], xr, xi, lengths, p)
+    norm = _upper_sqrt(sum(v * v for v in d), p)
+    relative = float(f / norm) if norm > 0 else 0.0
+    columns = (xr[:, order], xi[:, order])
+    return Eigen(tuple(arb(c, f) for c in centers), x, tuple(order), columns, p, tuple(errors),
+                 tuple(clusters), tuple(angles), tuple(pivots[k] for k in order)), relative
 
 
-def eigenvalues(a: acb_mat, bits: int) -> list[arb]:
-    """Certified enclosures of the eigenvalues of the Hermitian A, ascending, clipped at 0.
-
-    A is a Gram matrix B B^H here, so its eigenvalues are nonnegative and the
-    enclosures are intersected with [0, oo).
-    """
-    with ctx.workprec(bits):
-        x = refined_vectors(a, bits)
-        found = certify(a, x) if x is not None else None
-        if found is None or not widest(found) < frobenius_upper(a) * arb(2) ** (-bits // 2):
-            clusters = sorted((z.real for z in a.eig(multiple=True, nonstop=True)), key=lambda v: v.mid())
-            if all(v.is_finite() for v in clusters) and (found is None or widest(clusters) < widest(found)):
-                found = clusters
-        if found is None:
-            raise ArithmeticError("no enclosure of the eigenvalues at this precision")
-        return [nonnegative(v) for v in found]
+def _phase_fixed(bound: arb, col: int, j: int, xr, xi, lengths: list[int], p: int) -> arb:
+    """The error bound once the phase makes entry j real positive (see the module text)."""
+    scale = arb(2) ** p
+    top = (arb(int(xr[j, col])) ** 2 + arb(int(xi[j, col])) ** 2).sqrt() / scale
+    if not top > bound:
+        return arb("inf")
+    length = (arb(lengths[col]) / scale ** 2).sqrt()
+    tilt = abs(arb(int(xi[j, col]))) / scale
+    return (bound + 2 * (bound + tilt) * length / top).upper()
 
 
-def widest(values: list[arb]) -> arb:
-    return max((v.rad() for v in values), key=lambda r: r.mid())
+def _round_div(num: int, den: int) -> int:
+    return (2 * num + den) // (2 * den)
 
 
-def nonnegative(value: arb) -> arb:
-    """The part of the ball at or above zero (the eigenvalue is known to be >= 0)."""
-    if value >= 0:
-        return value
-    upper = value.upper()
-    if upper < 0:
-        raise ArithmeticError("an enclosure of a nonnegative eigenvalue lies below zero")
-    return arb(upper / 2, upper / 2)
+def _upper_sqrt(square: int, scale_bits: int) -> arb:
+    """An upper bound of sqrt(square) 2^-scale_bits as an exact ball."""
+    from math import isqrt
+    root = isqrt(square)
+    if root * root != square:
+        root += 1
+    return arb(root) / arb(2) ** scale_bits if scale_bits else arb(root)
+
+
+def _clusters(centers: list[arb], f: arb) -> list[range]:
+    """Runs of sorted centers whose intervals [c - f, c + f] are not proved disjoint."""
+    runs, start = [], 0
+    for k in range(1, len(centers) + 1):
+        if k == len(centers) or centers[k] - centers[k - 1] > 2 * f:
+            runs.append(range(start, k))
+            start = k
+    return runs
+
+
+def _separation(centers: list[arb], cluster: range, f: arb) -> arb | None:
+    """A lower bound of the distance from the cluster's centers to every other eigenvalue."""
+    gaps = []
+    if cluster.start > 0:
+        gaps.append(centers[cluster.start] - centers[cluster.start - 1] - f)
+    if cluster.stop < len(centers):
+        gaps.append(centers[cluster.stop] - centers[cluster.stop - 1] - f)
+    if not gaps:
+        return None
+    return min(gaps, key=lambda v: v.mid()).lower()
+
+
+def single(a: IntMatrix, eta: arb) -> Eigen:
+    """The 1 x 1 case: the value itself, eigenvector 1."""
+    one = fmpz_mat([[1]])
+    x = IntMatrix(one, fmpz_mat([[0]]))
+    import numpy
+    columns = (numpy.array([[1]], dtype=object), numpy.array([[0]], dtype=object))
+    return Eigen((arb(int(a.re[0, 0]), eta),), x, (0,), columns, 0, (arb(0),), (range(1),),
+                 (arb(0),), (0,))

@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import reduce
 from typing import Mapping
 
 import mpmath
@@ -23,11 +24,11 @@ from flint import arb, ctx
 
 from ..cuts import CoefficientMatrix, Cut, parse_cut
 from ..language.errors import LimitError
-from ..render.report import Digits
 from ..states import State
 from ..symmetric import SymmetricState, dicke_split
-from .blocks import Block
-from .digits import certain_count, certain_text, digits_cell
+from .blocks import Block, Spectrum
+from .certified import Ball, CertifiedCoefficient, CertifiedDecomposition, Cluster, SchmidtVector
+from .digits import certain_count
 from .enclose import Encloser
 from .point import at_point
 from .values import check_digits
@@ -37,66 +38,19 @@ GUARD_BITS = 32
 MAX_DOUBLINGS = 4
 
 
-@dataclass(frozen=True)
-class CertifiedSchmidt:
-    """Enclosures of the Schmidt coefficients of the normalised state, descending.
-
-    ``coefficients`` are proved nonzero; ``undecided`` enclosures contain zero
-    without a proof that the coefficient is zero; ``zeros`` coefficients are
-    exactly zero (by exact arithmetic).
-    """
-
-    coefficients: tuple[arb, ...]
-    undecided: tuple[arb, ...]
-    zeros: int
-    digits: int   # the digits asked for
-    bits: int     # the last working precision
-
-    @property
-    def rank(self) -> int | None:
-        """The proved Schmidt rank, or None when it is undecided at this precision."""
-        return None if self.undecided else len(self.coefficients)
-
-    @property
-    def rank_bounds(self) -> tuple[int, int]:
-        return len(self.coefficients), len(self.coefficients) + len(self.undecided)
-
-    @property
-    def digits_tried(self) -> int:
-        """The working precision of the last attempt, in decimal digits."""
-        return int(self.bits / BITS_PER_DIGIT)
-
-    @property
-    def complete(self) -> bool:
-        return not self.undecided and all(certain_count(c, self.digits) == self.digits
-                                          for c in self.coefficients)
-
-    def texts(self) -> list[str]:
-        return [certain_text(c, self.digits) for c in self.coefficients]
-
-    def cells(self) -> list[Digits]:
-        return [digits_cell(c, self.digits) for c in self.coefficients]
-
-    def values(self) -> list[mpmath.mpf]:
-        """The coefficients as mpmath numbers holding exactly their certain digits."""
-        with mpmath.workdps(self.digits + 5):
-            return [mpmath.mpf(text) for text in self.texts()]
-
-    def rank_text(self) -> str:
-        if self.rank is not None:
-            return str(self.rank)
-        low, high = self.rank_bounds
-        return (f"undecided at this precision: between {low} and {high} "
-                f"({len(self.undecided)} enclosure(s) contain zero at {self.digits_tried} digits)")
-
-
 def start_bits(digits: int) -> int:
     return int(digits * BITS_PER_DIGIT) + GUARD_BITS
 
 
-def certified_schmidt(state: State, cut: Cut | str | None = None, digits: int = 30,
-                      at: Mapping | None = None) -> CertifiedSchmidt:
-    """Certified Schmidt coefficients of the normalised ``state`` across ``cut``."""
+def certified_decomposition(state: State, cut: Cut | str | None = None, digits: int = 30,
+                            at: Mapping | None = None, vectors: bool = True) -> CertifiedDecomposition:
+    """Certified Schmidt coefficients and vectors of the normalised ``state`` across ``cut``.
+
+    The working precision doubles until every coefficient shows ``digits``
+    certain digits and (with ``vectors``) every vector entry ``digits``
+    certain decimals, or the ceiling is met; the last result says how far
+    it got.
+    """
     check_digits(digits)
     if isinstance(state, SymmetricState):
         state, cut = dicke_split(state, cut)
@@ -106,16 +60,26 @@ def certified_schmidt(state: State, cut: Cut | str | None = None, digits: int = 
         at_point(state, {})  # every parameter must already have a value
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
-    blocks = split_blocks(CoefficientMatrix(state, cut))
+    matrix = CoefficientMatrix(state, cut)
+    blocks = split_blocks(matrix)
     for block in blocks:
         block.check_size()
     bits = start_bits(digits)
     for _ in range(MAX_DOUBLINGS + 1):
-        result = attempt(blocks, bits, digits)
+        result = attempt(blocks, bits, digits, matrix.shape, vectors)
         if result.complete:
             break
         bits *= 2
     return result
+
+
+def certified_schmidt(state: State, cut: Cut | str | None = None, digits: int = 30,
+                      at: Mapping | None = None) -> CertifiedDecomposition:
+    """Certified Schmidt coefficients only (the vectors are skipped)."""
+    return certified_decomposition(state, cut, digits, at, vectors=False)
+
+
+CertifiedSchmidt = CertifiedDecomposition  # the name callers of certified_schmidt import
 
 
 def split_blocks(matrix: CoefficientMatrix) -> list[Block]:
@@ -130,25 +94,38 @@ def split_blocks(matrix: CoefficientMatrix) -> list[Block]:
     for (i, j), value in matrix.entries.items():
         b, row = where[i]
         entries[b][(row, columns[j])] = value
-    return [Block(e, len(rows), len(cols)) for e, (rows, cols) in zip(entries, pieces)]
+    return [Block(e, len(rows), len(cols), tuple(rows), tuple(cols))
+            for e, (rows, cols) in zip(entries, pieces)]
 
 
-def attempt(blocks: list[Block], bits: int, digits: int) -> CertifiedSchmidt:
+@dataclass(frozen=True)
+class Found:
+    """A nonzero coefficient of one block: its ball, and the block's vectors for it (or None)."""
+
+    sigma: arb
+    vectors: tuple[SchmidtVector, SchmidtVector] | None
+    angle: arb | None     # ||sin Theta|| of its block cluster, when that cluster has several members
+    group: tuple[int, int] | None   # (block, cluster) when the block cluster has several members
+
+
+def attempt(blocks: list[Block], bits: int, digits: int, shape: tuple[int, int],
+            vectors: bool) -> CertifiedDecomposition:
     """All blocks at one working precision."""
     ball = Encloser(bits)
     with ctx.workprec(bits):
-        norm2 = sum((b.weight(ball) for b in blocks), arb(0))
-        nonzero: list[arb] = []
+        spectra = [block.spectrum(ball) for block in blocks]
+        norm2 = sum((s.weight for s in spectra), arb(0))
+        found: list[Found] = []
         undecided: list[arb] = []
         zeros = 0
-        for block in blocks:
-            found, unknown, exact_zeros = block_coefficients(block, ball)
-            nonzero += [coefficient(v, norm2) for v in found]
+        for b, (block, spectrum) in enumerate(zip(blocks, spectra)):
+            kept, unknown, exact_zeros = block_coefficients(block, spectrum)
+            found += [block_term(b, spectrum, k, v, norm2, bits, vectors) for k, v in kept]
             undecided += [coefficient(v, norm2) for v in unknown]
             zeros += exact_zeros
-        order = lambda v: -v.mid()  # noqa: E731
-        return CertifiedSchmidt(tuple(sorted(nonzero, key=order)), tuple(sorted(undecided, key=order)),
-                                zeros, digits, bits)
+        found.sort(key=lambda f: -f.sigma.mid())
+        undecided.sort(key=lambda v: -v.mid())
+        return assemble(found, undecided, zeros, digits, bits, shape, vectors)
 
 
 def coefficient(square: arb, norm2: arb) -> arb:
@@ -156,31 +133,82 @@ def coefficient(square: arb, norm2: arb) -> arb:
     return (square / norm2).nonnegative_part().sqrt()
 
 
-def block_coefficients(block: Block, ball: Encloser) -> tuple[list[arb], list[arb], int]:
-    """(nonzero, undecided, zero count) for one block's squared coefficients.
+def block_term(b: int, spectrum: Spectrum, position: int, square: arb, norm2: arb, bits: int,
+               vectors: bool) -> Found:
+    """The coefficient at ``position`` (ascending) of one block, with its vectors."""
+    eigen = spectrum.eigen
+    index = next(c for c, cluster in enumerate(eigen.clusters) if position in cluster)
+    cluster = eigen.clusters[index]
+    pair = None
+    if vectors:
+        pairs = spectrum.vectors(cluster, bits)
+        pair = pairs[cluster.index(position)] if pairs is not None else None
+    several = len(cluster) > 1
+    return Found(coefficient(square, norm2), pair, eigen.angles[index] if several else None,
+                 (b, index) if several else None)
+
+
+def assemble(found: list[Found], undecided: list[arb], zeros: int, digits: int, bits: int,
+             shape: tuple[int, int], vectors: bool) -> CertifiedDecomposition:
+    """Terms in descending order, grouped into clusters where the balls are not proved apart."""
+    groups: list[list[int]] = []
+    for k, f in enumerate(found):
+        if groups and not found[groups[-1][-1]].sigma > f.sigma:
+            groups[-1].append(k)
+        else:
+            groups.append([k])
+    clusters: list[Cluster] = []
+    cluster_of: dict[int, int] = {}
+    for members in groups:
+        blockwise = {found[k].group for k in members}
+        if len(members) == 1 and blockwise == {None}:
+            continue
+        cluster_of.update({k: len(clusters) for k in members})
+        clusters.append(Cluster(tuple(members), group_angle([found[k] for k in members])))
+    terms = tuple(
+        CertifiedCoefficient(Ball.of(f.sigma), certain_count(f.sigma, digits),
+                             *(f.vectors if f.vectors is not None else (None, None)),
+                             cluster_of.get(k))
+        for k, f in enumerate(found))
+    return CertifiedDecomposition(terms, tuple(Ball.of(v) for v in undecided), zeros,
+                                  tuple(clusters), digits, bits, shape, vectors)
+
+
+def group_angle(members: list[Found]) -> Ball | None:
+    """sqrt(sum of the squared angles of the block clusters in the group); None without vectors."""
+    if any(f.vectors is None for f in members):
+        return None
+    seen: dict[tuple[int, int], arb] = {}
+    for f in members:
+        if f.group is not None:
+            seen[f.group] = f.angle
+    return Ball.of(sum((a * a for a in seen.values()), arb(0)).sqrt().upper())
+
+
+def block_coefficients(block: Block, spectrum: Spectrum) -> tuple[list[tuple[int, arb]], list[arb], int]:
+    """(nonzero as (position, square), undecided squares, zero count) for one block.
 
     When the exact rank r is known the r largest eigenvalues are the nonzero
     ones and the others are exact zeros.  A nonzero one whose enclosure still
     touches zero at this precision is given the union of all enclosures that
     touch zero (which surely holds it); more bits will separate it.
     """
-    squares = block.squared_coefficients(ball)
+    squares = list(spectrum.squares)
+    positions = list(range(len(squares)))
     if all(v > 0 for v in squares):
-        return squares, [], 0
+        return list(zip(positions, squares)), [], 0
     bound = block.rank_bound()  # exact facts, computed only now that a ball touches zero
     if block.rank_one and len(squares) > 1:
-        squares = block.squared_coefficients(ball, rank_one=True)
-    kept = squares[len(squares) - bound:] if bound else []
+        squares[-1] = spectrum.weight
+    kept = list(zip(positions, squares))[len(squares) - bound:] if bound else []
     touching = [v for v in squares if not v > 0]
     if touching:  # overlapping enclosures: only their union surely holds each value
-        hull = touching[0]
-        for v in touching[1:]:
-            hull = hull.union(v)
-        kept = [v if v > 0 else hull for v in kept]
+        hull = reduce(lambda a, b: a.union(b), touching)
+        kept = [(k, v if v > 0 else hull) for k, v in kept]
     if block.exact_rank is not None or (block.side > 1 and block.rank_one):
         return kept, [], block.side - bound
-    positive = [v for v in kept if v > 0]
-    return positive, [v for v in kept if not v > 0], block.side - bound
+    positive = [(k, v) for k, v in kept if v > 0]
+    return positive, [v for _, v in kept if not v > 0], block.side - bound
 
 
 def certified_values(state: State, cut: Cut | str | None, digits: int = 30,
