@@ -49,13 +49,19 @@ class Decomposition:
     route: str = "exact"              # the planner's route: exact | symmetric | certified
     reason: str = ""                  # why the planner chose it
     certified: CertifiedSchmidt | None = None  # the ball enclosures, on the certified route
-    algebraic: tuple[sympy.Expr, ...] = ()     # polynomials in x whose roots are the squared
-                                               # coefficients (certified route, when known)
+    factors: tuple = ()  # flint integer polynomials whose roots are the squared coefficients
 
     @property
     def rank(self) -> int | None:
         """The Schmidt rank; None when a certified coefficient may be zero (undecided)."""
         return self.certified.rank if self.certified is not None else len(self.coefficients)
+
+    @property
+    def algebraic(self) -> tuple[sympy.Expr, ...]:
+        """Polynomials in x whose roots are the squared coefficients (certified route, when known):
+        the coefficients are exact algebraic numbers, shown by their certified digits."""
+        x = sympy.Symbol("x")
+        return tuple(sympy.Add(*(int(c) * x ** k for k, c in enumerate(f.coeffs()))) for f in self.factors)
 
     @property
     def kinds(self) -> tuple[str, ...]:
@@ -68,7 +74,8 @@ class Decomposition:
         if self.certified is not None:
             with ctx.workprec(self.certified.bits):
                 return [c * c for c in self.coefficients]
-        return [sympy.simplify(c ** 2) for c in self.coefficients]
+        return [sympy.expand(c ** 2) if c.is_number else sympy.simplify(c ** 2)
+                for c in self.coefficients]
 
     def vector_terms(self, vector: sympy.Matrix, side: str) -> list[tuple[sympy.Expr, str]]:
         """(amplitude, label) pairs of a Schmidt vector on the left or right side."""
@@ -181,7 +188,7 @@ def no_closed_form(state: State, why: str) -> InputError:
 
 
 def certified_decomposition(state: State, cut: Cut | str | None, digits: int, reason: str,
-                            factors: tuple[sympy.Poly, ...] = ()) -> Decomposition:
+                            factors: tuple = ()) -> Decomposition:
     """The certified route: ball enclosures of the coefficients, the rank proved or undecided."""
     if state.symbols:
         raise no_closed_form(state, "certified numbers need a value for every parameter")
@@ -189,7 +196,5 @@ def certified_decomposition(state: State, cut: Cut | str | None, digits: int, re
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state) if not _symmetric(state) else cut
     notes = (f"certified numbers: {reason}",)
-    x = sympy.Symbol("x")
-    algebraic = tuple(f.as_expr().subs(f.gen, x) for f in factors)
     return Decomposition(state, cut, list(found.coefficients), [], [], False, True, notes,
-                         "certified", reason, found, algebraic)
+                         "certified", reason, found, factors)

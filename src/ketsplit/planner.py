@@ -46,11 +46,12 @@ MAX_PROBED_SIDE = 32      # Gaussian-rational blocks up to this side have their 
 
 @dataclass(frozen=True)
 class Plan:
-    """The route and why; ``factors`` are the irreducible factors that decided it."""
+    """The route and why; ``factors``: the irreducible integer polynomials whose roots are the
+    squared Schmidt coefficients, when they decided the route."""
 
     route: Route
     reason: str
-    factors: tuple[sympy.Poly, ...] = ()
+    factors: tuple[flint.fmpz_poly, ...] = ()
 
 
 def plan(state: State, cut: Cut, method: str = "auto") -> Plan:
@@ -71,7 +72,7 @@ def plan(state: State, cut: Cut, method: str = "auto") -> Plan:
 
 def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
     """Closed forms where every block has them, else certified numbers."""
-    factors: list[sympy.Poly] = []
+    factors: list[flint.fmpz_poly] = []
     scales: list[tuple[int, int]] = []  # (factors so far, the block's common denominator)
     for rows, cols in matrix.blocks():
         side = min(len(rows), len(cols))
@@ -89,7 +90,7 @@ def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
         if side > MAX_PROBED_SIDE:
             return Plan("certified", f"a dense block of side {side}: certified numbers")
         real, imag, scale = integers
-        factors += [f for f in irreducible_factors(real, imag) if f.degree() > 1 or f.TC() != 0]
+        factors += [f for f in irreducible_factors(real, imag) if f.degree() > 1 or f.coeffs()[0] != 0]
         scales.append((len(factors), scale))
     large = [f.degree() for f in factors if f.degree() > MAX_CLOSED_DEGREE]
     if large:
@@ -124,32 +125,31 @@ def _gaussian_integers(entries: dict, rows: list[int], cols: list[int]):
     return real, imag, scale
 
 
-def normalised_factors(factors: list[sympy.Poly], scales: list[tuple[int, int]],
-                       matrix: CoefficientMatrix) -> tuple[sympy.Poly, ...]:
+def normalised_factors(factors: list[flint.fmpz_poly], scales: list[tuple[int, int]],
+                       matrix: CoefficientMatrix) -> tuple[flint.fmpz_poly, ...]:
     """The factors rewritten so that their roots are the squared Schmidt coefficients.
 
     A block scaled by s has eigenvalues s^2 lambda; the squared coefficients
-    are lambda / |psi|^2.  Empty when some amplitude is not Gaussian-rational
-    (the norm is then not rational and the factors of the probed blocks alone
-    would not name every coefficient).
+    are lambda / |psi|^2, the roots of f(s^2 |psi|^2 x).  Empty when some
+    amplitude is not Gaussian-rational (the norm is then not rational and the
+    factors of the probed blocks alone would not name every coefficient).
     """
     try:
         numbers = [sympy.QQ_I.from_sympy(v) for v in matrix.entries.values()]
     except (CoercionFailed, TypeError, ValueError):
         return ()
     norm = sum((z.x ** 2 + z.y ** 2 for z in numbers), sympy.QQ(0))
-    x = sympy.Dummy("x")
     found, start = [], 0
     for end, scale in scales:
-        stretch = sympy.Rational(scale) ** 2 * sympy.Rational(norm.numerator, norm.denominator)
+        stretch = flint.fmpq(int(norm.numerator) * scale ** 2, int(norm.denominator))
         for f in factors[start:end]:
-            mapped = sympy.Poly(f.as_expr().subs(f.gen, stretch * x), x)
-            found.append(mapped.primitive()[1] * sympy.sign(mapped.LC()))
+            mapped = f(flint.fmpq_poly([0, stretch])).numer()
+            found.append(mapped if mapped.coeffs()[-1] > 0 else -mapped)
         start = end
     return tuple(found)
 
 
-def irreducible_factors(real: flint.fmpz_mat, imag: flint.fmpz_mat) -> list[sympy.Poly]:
+def irreducible_factors(real: flint.fmpz_mat, imag: flint.fmpz_mat) -> list[flint.fmpz_poly]:
     """Irreducible factors over QQ of the charpoly of B B^H, with B = real + i imag.
 
     B B^H = A + i S with A = R R^T + I I^T and S = I R^T - R I^T; the real
@@ -165,8 +165,7 @@ def irreducible_factors(real: flint.fmpz_mat, imag: flint.fmpz_mat) -> list[symp
             embedded[i, j] = embedded[i + n, j + n] = a[i, j]
             embedded[i, j + n], embedded[i + n, j] = -s[i, j], s[i, j]
     _, factors = embedded.charpoly().factor()
-    x = sympy.Dummy("x")
-    return [sympy.Poly([int(c) for c in reversed(f.coeffs())], x) for f, _ in factors]
+    return [f for f, _ in factors]
 
 
 def _algebraic(values) -> bool:
