@@ -202,8 +202,23 @@ def simplify_real(expr: sympy.Expr) -> sympy.Expr:
         expanded = sympy.expand(expr)
         # radsimp asks minimal_polynomial about cos(pi/202)-like terms: minutes for nothing
         return expanded if expanded.has(*TRANSCENDENTAL_LOOKING) else sympy.radsimp(expanded)
-    result = sympy.simplify(expr)
+    result = simplify_masked(expr)
     return sympy.factor_terms(result)
+
+
+def simplify_masked(expr: sympy.Expr) -> sympy.Expr:
+    """``sympy.simplify`` with constant exponentials (exp(40)) stood in for by positive symbols.
+
+    simplify reads exp(40) as E**40 and factors polynomials of degree 40 in E
+    (minutes); as an opaque positive symbol it costs nothing, and every
+    identity simplify uses for a positive symbol holds for the number.
+    """
+    constants = [a for a in expr.atoms(sympy.exp) if not a.free_symbols]
+    if not constants:
+        return sympy.simplify(expr)
+    masks = {c: sympy.Dummy("c", positive=True) for c in constants}
+    result = sympy.simplify(expr.xreplace(masks))
+    return result.xreplace({m: c for c, m in masks.items()})
 
 
 def product_state(factors: Iterable[Mapping[int, sympy.Expr]], dims: tuple[int, ...]) -> State:

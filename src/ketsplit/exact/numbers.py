@@ -35,6 +35,43 @@ from .eigen import LAMBDA, NoClosedForm, solve_factor
 
 Vector = sympy.Matrix
 Piece = tuple[sympy.Expr, Vector, Vector]
+MAX_FIELD_DEGREE = 16   # number fields of larger (bounded) degree are not built: cos(pi/202) has 100
+
+
+def field_degree_bound(values) -> int | None:
+    """An upper bound on the degree over QQ of the field the values generate, read from their
+    structure (radicals of rationals, roots of unity, cos/sin of rational multiples of pi);
+    None when a value is not recognisably algebraic (pi, e, exp(1), ...)."""
+    generators: dict[sympy.Expr, int] = {}
+    pending = list(values)
+    while pending:
+        node = pending.pop()
+        if node.is_Rational:
+            continue
+        if node.is_Add or node.is_Mul:
+            pending.extend(node.args)
+            continue
+        degree = 2 if node is sympy.I else _generator_degree(node)
+        if degree is None:
+            return None
+        if node.is_Pow:
+            pending.append(node.base)
+        generators[node] = degree
+    total = 1
+    for degree in generators.values():
+        total *= degree
+    return total
+
+
+def _generator_degree(node: sympy.Expr) -> int | None:
+    if node.is_Pow:
+        if node.exp.is_Integer:
+            return 1
+        return int(node.exp.q) if node.exp.is_Rational else None
+    if isinstance(node, (sympy.exp, sympy.cos, sympy.sin)):
+        argument = node.args[0] / (sympy.I * sympy.pi if isinstance(node, sympy.exp) else sympy.pi)
+        return int(sympy.totient(2 * argument.q)) if argument.is_Rational else None
+    return None
 
 
 @dataclass(frozen=True)
@@ -59,6 +96,9 @@ def number_block(block: sympy.Matrix) -> NumberBlock | None:
     if block.free_symbols:
         return None
     values = list(block)
+    degree = field_degree_bound(values)
+    if degree is None or degree > MAX_FIELD_DEGREE:
+        return None
     conjugates = [sympy.conjugate(v) for v in values]
     try:
         domain, elements = construct_domain(values + conjugates, extension=True)

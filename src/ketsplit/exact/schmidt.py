@@ -26,11 +26,11 @@ from itertools import combinations
 import sympy
 
 from ..cuts import CoefficientMatrix, Cut
-from ..states import State, abs_squared, simplify_real
+from ..states import State, abs_squared, simplify_masked, simplify_real
 from .eigen import eigenvalues
 from .errors import NoClosedForm
-from .numbers import number_block, number_pieces
-from .tidy import is_zero, tidy
+from .numbers import number_block, number_pieces, root
+from .tidy import is_zero, neat_number, tidy
 
 Vector = sympy.Matrix
 DENSE_VECTOR_SIZE = 4096  # side spaces larger than this hold Schmidt vectors sparsely
@@ -118,7 +118,7 @@ def hermitian_product(block: sympy.Matrix) -> sympy.Matrix:
         for j in range(i, m):
             value = sum((block[i, k] * sympy.conjugate(block[j, k]) for k in range(block.cols)),
                         sympy.Integer(0))
-            value = simplify_real(value) if i == j else sympy.simplify(value)
+            value = simplify_real(value) if i == j else simplify_masked(value)
             rho[i, j] = value
             rho[j, i] = sympy.conjugate(value)
     return rho
@@ -156,7 +156,7 @@ def simplify_sigma(eigenvalue: sympy.Expr) -> sympy.Expr:
     """sqrt of a nonnegative eigenvalue, denested and simplified."""
     sigma = sympy.sqrt(eigenvalue)
     if not sigma.free_symbols:  # denesting is what numbers need; simplify adds nothing but time
-        return sympy.expand(sympy.sqrtdenest(sympy.radsimp(sigma)))
+        return root(neat_number(eigenvalue))
     simplified = tidy(sigma)
     return simplified if sympy.count_ops(simplified) <= sympy.count_ops(sigma) else sigma
 

@@ -11,6 +11,7 @@ from __future__ import annotations
 import sympy
 
 from ..arith import decide
+from ..states import simplify_masked
 from .errors import UndecidedZero
 
 MAX_RADSIMP_OPS = 40  # numbers larger than this are only expanded (radsimp -> minimal_polynomial)
@@ -28,7 +29,7 @@ def tidy(value: sympy.Expr) -> sympy.Expr:
     if not value.free_symbols:
         return neat_number(value)
     if sympy.count_ops(value) <= 40:
-        return sympy.simplify(value)
+        return simplify_masked(value)
     return value
 
 
