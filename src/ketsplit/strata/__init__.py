@@ -17,7 +17,7 @@ from .budget import Budget
 from .family import Family, exact_rank
 from .holomorphic import holomorphic_family, HolomorphicSearch
 from .model import Stratum, Strata, StrataError, Undecided
-from .proved import Undecidable, order
+from .proved import order
 from .search import Search
 
 DEFAULT_BUDGET = 30.0  # seconds of exact algebra before the search stops with a LimitError
@@ -35,8 +35,11 @@ def strata(state: State, cut: Cut | str | None = None, *, budget: float = DEFAUL
         check_ranges(state)
         state, notes = fix_point_ranges(state)
         found = family_strata(state, cut, budget)
-    except Undecidable as err:
-        raise InputError(f"strata: {err}") from None
+    except StrataError:
+        raise
+    except ArithmeticError as err:  # Undecidable, or numbers no exact field holds (cos(1) beside t)
+        raise InputError(f"strata: {err}; ask at a parameter point ('with NAME=VALUE') for a "
+                         "certified rank there") from None
     return Strata(found, notes + found.notes, found.undecided)
 
 

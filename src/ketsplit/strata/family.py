@@ -40,18 +40,23 @@ class Family:
     form: PolyForm
     entries: tuple[tuple[sympy.Expr, ...], ...]   # polynomials, complex coefficients
     denominator: sympy.Expr                       # real polynomial, nonzero where defined
+    guard: sympy.Expr                             # real polynomial, zero exactly where undefined
     _conditions: dict = field(default_factory=dict, repr=False)  # rank -> its conditions
 
     @classmethod
     def of(cls, state: State, cut: Cut) -> "Family":
         matrix = CoefficientMatrix(state, cut)
-        values = strip_common_denominators(dict(matrix.entries))
-        form = polynomial_form(values.values(), state.params)
+        values, removed = strip_common_denominators(dict(matrix.entries))
+        form = polynomial_form(list(values.values()) + list(removed), state.params)
         parts = {key: form.real_equations(value) for key, value in values.items()}
         denominator = sympy.Integer(1)
         for _, _, d in parts.values():
             denominator = sympy.lcm(denominator, d)
         denominator = sympy.expand(denominator)
+        guard = denominator
+        for base in removed:  # |base|^2 (and its own denominator) vanish where the state is undefined
+            re_part, im_part, d = form.real_equations(base)
+            guard = sympy.expand(guard * d * (re_part ** 2 + im_part ** 2))
         rows = sorted({i for i, _ in values})
         cols = sorted({j for _, j in values})
         grid = [[sympy.Integer(0)] * len(cols) for _ in rows]
@@ -60,7 +65,7 @@ class Family:
             grid[rows.index(i)][cols.index(j)] = sympy.expand((re_part + sympy.I * im_part) * factor)
         if len(rows) > len(cols):
             grid = [list(column) for column in zip(*grid)]
-        return cls(state, cut, form, tuple(tuple(r) for r in grid), denominator)
+        return cls(state, cut, form, tuple(tuple(r) for r in grid), denominator, guard)
 
     @property
     def shape(self) -> tuple[int, int]:
@@ -76,6 +81,10 @@ class Family:
 
     def minors(self, size: int) -> list[sympy.Expr]:
         return nonzero_minors(self.matrix, size)
+
+    def original_minors(self, size: int) -> list[sympy.Expr]:
+        """The minors of the state's own coefficient matrix, unexpanded (in the parameters)."""
+        return nonzero_minors(CoefficientMatrix(self.state, self.cut).to_Matrix(), size, expand=False)
 
     def rank_conditions(self, rank: int) -> list[sympy.Expr]:
         """Real polynomials whose common zeros are where the rank is at most ``rank``."""
@@ -96,7 +105,7 @@ class Family:
         return exact_rank(numbers, self.shape)
 
     def defined_at(self, values: dict[sympy.Symbol, sympy.Expr]) -> bool:
-        return sympy.expand(self.denominator.xreplace(values)) != 0
+        return sympy.expand(self.guard.xreplace(values)) != 0
 
     def random_values(self, rng: random.Random) -> dict[sympy.Symbol, sympy.Expr]:
         """Exact values of the variables at a random point of the family (radicals consistent)."""
@@ -115,8 +124,9 @@ class Family:
         return values
 
 
-def nonzero_minors(matrix: sympy.Matrix, size: int) -> list[sympy.Expr]:
-    """Every size x size minor that does not vanish identically, expanded."""
+def nonzero_minors(matrix: sympy.Matrix, size: int, expand: bool = True) -> list[sympy.Expr]:
+    """Every size x size minor that does not vanish identically, expanded (or as computed,
+    keeping squares and products whole for range arithmetic)."""
     m, n = matrix.shape
     count = comb(m, size) * comb(n, size)
     if count > MAX_MINORS:
@@ -125,7 +135,8 @@ def nonzero_minors(matrix: sympy.Matrix, size: int) -> list[sympy.Expr]:
     found = []
     for rows in combinations(range(m), size):
         for cols in combinations(range(n), size):
-            value = sympy.expand(matrix.extract(list(rows), list(cols)).det(method="berkowitz"))
+            value = matrix.extract(list(rows), list(cols)).det(method="berkowitz")
+            value = sympy.expand(value) if expand else value
             if value != 0:
                 found.append(value)
     return found
@@ -200,11 +211,13 @@ def primitive(poly: sympy.Expr) -> sympy.Expr:
     return sympy.expand(-prim) if lead.is_number and lead.is_negative else prim
 
 
-def strip_common_denominators(values: dict) -> dict:
+def strip_common_denominators(values: dict) -> tuple[dict, tuple[sympy.Expr, ...]]:
     """Divide every entry by the denominator factors they all share (1/sqrt(norm), ...).
 
     A factor with a negative exponent never vanishes where it is defined, so
-    removing it from every entry changes no rank.
+    removing it from every entry changes no rank; but the state is undefined
+    where its base vanishes.  Returns the entries and the removed bases that
+    sympy's assumptions do not prove positive (the places to exclude).
     """
     shared = None
     for value in values.values():
@@ -212,6 +225,7 @@ def strip_common_denominators(values: dict) -> dict:
                    if f.is_Pow and f.exp.is_negative and f.free_symbols}
         shared = factors if shared is None else shared & factors
     if not shared:
-        return values
+        return values, ()
     scale = sympy.Mul(*shared)
-    return {k: v / scale for k, v in values.items()}
+    removed = tuple(f.base for f in shared if not f.base.is_positive)
+    return {k: v / scale for k, v in values.items()}, removed

@@ -10,7 +10,8 @@ variables and square the work; here the algebra stays over C:
 - the generic rank R is the exact rank at one Gaussian-rational point, proved
   an upper bound because every (R+1)-minor expands to zero;
 - each lower level {rank <= r} is the variety of the (r+1)-minors with the
-  points where L = 0 removed (a variable z with z L - 1), split along
+  points where the state is undefined removed (z G - 1 with a new variable z,
+  G the product of L and the bases of removed common factors), split along
   factorisations of its lex Groebner basis (:func:`.solve.components`, over C);
   an empty variety has the basis (1) (Hilbert's Nullstellensatz: a proof);
 - a finite piece gives its points exactly (all complex roots); an infinite
@@ -48,7 +49,7 @@ class HolomorphicFamily:
     cut: Cut
     symbols: tuple[sympy.Symbol, ...]
     entries: tuple[tuple[sympy.Expr, ...], ...]
-    denominator: sympy.Expr
+    guard: sympy.Expr   # a polynomial, zero exactly where the state is undefined
 
     @cached_property
     def matrix(self) -> sympy.Matrix:
@@ -63,7 +64,7 @@ class HolomorphicFamily:
         return exact_rank(numbers, self.matrix.shape)
 
     def defined_at(self, point: Point) -> bool:
-        return sympy.expand(self.denominator.xreplace(point)) != 0
+        return sympy.expand(self.guard.xreplace(point)) != 0
 
 
 def holomorphic_family(state: State, cut: Cut) -> HolomorphicFamily | None:
@@ -72,18 +73,15 @@ def holomorphic_family(state: State, cut: Cut) -> HolomorphicFamily | None:
     if any(p.is_real for p in state.params):
         return None
     symbols = tuple(sorted(state.symbols, key=lambda s: s.name))
-    values = strip_common_denominators(dict(CoefficientMatrix(state, cut).entries))
-    fractions = {}
-    for key, value in values.items():
-        if value.has(*HIDDEN_PARTS):
-            return None
-        numer, denom = sympy.fraction(sympy.together(value))
-        if not (numer.is_polynomial(*symbols) and denom.is_polynomial(*symbols)):
-            return None
-        fractions[key] = (sympy.expand(numer), sympy.expand(denom))
+    values, removed = strip_common_denominators(dict(CoefficientMatrix(state, cut).entries))
+    fractions = {key: polynomial_fraction(value, symbols) for key, value in values.items()}
+    bases = [polynomial_fraction(base, symbols) for base in removed]
+    if None in fractions.values() or None in bases:
+        return None
     denominator = sympy.Integer(1)
     for _, d in fractions.values():
         denominator = sympy.lcm(denominator, d)
+    guard = sympy.Mul(denominator, *(n * d for n, d in bases))  # zero where the state is undefined
     rows = sorted({i for i, _ in fractions})
     cols = sorted({j for _, j in fractions})
     grid = [[sympy.Integer(0)] * len(cols) for _ in rows]
@@ -91,7 +89,17 @@ def holomorphic_family(state: State, cut: Cut) -> HolomorphicFamily | None:
         grid[rows.index(i)][cols.index(j)] = sympy.expand(n * sympy.cancel(denominator / d))
     if len(rows) > len(cols):
         grid = [list(column) for column in zip(*grid)]
-    return HolomorphicFamily(state, cut, symbols, tuple(map(tuple, grid)), sympy.expand(denominator))
+    return HolomorphicFamily(state, cut, symbols, tuple(map(tuple, grid)), sympy.expand(guard))
+
+
+def polynomial_fraction(value: sympy.Expr, symbols) -> tuple[sympy.Expr, sympy.Expr] | None:
+    """(numerator, denominator) as polynomials in the symbols, or None."""
+    if value.has(*HIDDEN_PARTS):
+        return None
+    numer, denom = sympy.fraction(sympy.together(value))
+    if not (numer.is_polynomial(*symbols) and denom.is_polynomial(*symbols)):
+        return None
+    return sympy.expand(numer), sympy.expand(denom)
 
 
 @dataclass
@@ -103,9 +111,9 @@ class HolomorphicSearch:
     undecided: list[Undecided] = field(default_factory=list)
 
     def __post_init__(self) -> None:
-        self.saturator = sympy.Dummy("z") if self.family.denominator.free_symbols else None
+        self.saturator = sympy.Dummy("z") if self.family.guard.free_symbols else None
         self.gens = ((self.saturator,) if self.saturator else ()) + self.family.symbols
-        self.extra = [self.saturator * self.family.denominator - 1] if self.saturator else []
+        self.extra = [self.saturator * self.family.guard - 1] if self.saturator else []
 
     def run(self) -> Strata:
         generic = self.generic_rank()
@@ -235,7 +243,8 @@ class HolomorphicSearch:
                        for p in [dict(zip(self.family.symbols, values))]
                        if self.family.defined_at(p) and self.family.rank_at(p) == rank), None)
         if self.undecided:
-            where = "everywhere except the listed strata and possibly the undecided loci"
+            where = f"everywhere{' else' if self.points or self.curves else ''}, except possibly " \
+                    "on the undecided loci"
         elif self.points or self.curves:
             where = "everywhere else"
         else:

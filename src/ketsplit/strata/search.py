@@ -38,7 +38,8 @@ from .budget import Budget, BudgetExceeded
 from .family import Family, exact_rank
 from .model import Stratum, Strata, StrataError, Undecided
 from .proved import order, sign_of, zero
-from .region import Located, locate, nowhere_zero
+from .plain import charts
+from .region import Located, locate_in_charts, nowhere_zero
 from .solve import Component, Point, components, groebner, is_finite, real_points, univariate_points
 
 
@@ -62,11 +63,11 @@ class Search:
 
     def __post_init__(self) -> None:
         form = self.family.form
-        self.saturator = sympy.Dummy("z") if self.family.denominator.free_symbols else None
+        self.saturator = sympy.Dummy("z") if self.family.guard.free_symbols else None
         self.gens = ((self.saturator,) if self.saturator else ()) + form.variables
         self.relations = list(form.relations)
         if self.saturator is not None:
-            self.relations.append(self.saturator * self.family.denominator - 1)
+            self.relations.append(self.saturator * self.family.guard - 1)
 
     # -- the whole search ------------------------------------------------
     def run(self) -> Strata:
@@ -188,13 +189,12 @@ class Search:
     def settle(self, core, involved, filler, rank) -> Found | None:
         """A sample of a component the simple values missed, or a proof that the ranges hold none
         (noted), or an undecided locus (recorded); never a stratum without a point."""
-        located = self.locate(core, involved)
+        located = self.locate(core, involved, rank)
         if located.point is not None:
             found = self.checked(with_radicals(self.family, {**located.point, **filler}), rank)
             if found:
                 return found[0]
-            reason = (f"the point found on it ({point_text(located.point)}) does not have rank "
-                      f"{rank} inside the ranges")
+            reason = f"the point found on it does not have rank {rank} inside the ranges"
         elif located.empty:
             self.note_empty(rank, core, located.proof)
             return None
@@ -203,25 +203,27 @@ class Search:
         self.undecided.append(Undecided(rank, self.equations(core), reason, UNDECIDED_HINT))
         return None
 
-    def locate(self, core, involved) -> Located:
-        """Look for a point of the component inside the ranges (see :mod:`.region`)."""
+    def locate(self, core, involved, rank: int) -> Located:
+        """Look for a point of the component inside the ranges (see :mod:`.region`).
+
+        Range arithmetic tries the component's equations, then the unexpanded minors of
+        the state itself (squares kept whole are easier to bound away from zero)."""
         coords = [c for c in self.family.form.coordinates if set(c.variables) & set(involved)]
-        params = {c.parameter for c in coords}
-        if any(p.range is None for p in params):
-            return Located(None, False, "some of its parameters have no range, so no bounded "
-                                        "box could be searched")
-        box = {p.symbol: p.range for p in params}
-        equations = self.equations(core)
-        if nowhere_zero(equations, box, self.budget):
-            return Located(None, True, "range arithmetic over the ranges, bisected, keeps its "
-                                       "equations away from zero")
-        exact = len(core) == 1 and not self.family.form.radicals and all(
-            c.kind == "value" and all(end.is_Rational for end in c.parameter.range) for c in coords)
-        if not exact:
-            return Located(None, False, "range arithmetic could not exclude it and it is not one "
-                                        "polynomial equation in plain parameters")
-        variable_box = {c.variables[0]: c.parameter.range for c in coords}
-        return locate(core[0], variable_box, self.budget)
+        box = {p.symbol: p.range for p in self.family.state.params if p.range is not None}
+        tries = (("its equations", self.equations(core)),
+                 ("the minors of the state", self.family.original_minors(rank + 1)))
+        for what, equations in tries:
+            used = set().union(*(e.free_symbols for e in equations))
+            if used <= set(box) and nowhere_zero(equations, {s: box[s] for s in used}, self.budget):
+                return Located(None, True, f"range arithmetic over the ranges, bisected, keeps "
+                                           f"{what} away from zero")
+        found = charts(core[0], coords) if len(core) == 1 and not self.family.form.radicals \
+            else None
+        if found is None:
+            return Located(None, False, "range arithmetic could not exclude it, and it is not one "
+                                        "polynomial equation in real parameters and angles with "
+                                        "exact range ends, which exact search handles")
+        return locate_in_charts(found, self.budget)
 
     def equations(self, core) -> tuple[sympy.Expr, ...]:
         return tuple(self.family.form.original(b) for b in core)
@@ -244,18 +246,23 @@ class Search:
 
         f = x^T A x + b^T x + c >= 0 everywhere exactly when [[A, b/2], [b^T/2, c]]
         is positive semidefinite (or f <= 0 when negative semidefinite); then
-        the real zeros of f are the real solutions of f = 0 = grad f, which are
-        added as points.  False when f is not such a quadratic.
+        the real zeros of f are the real solutions of f = 0 = grad f (with the
+        relations of the variables, such as cos^2 + sin^2 = 1), which are added
+        as points.  False when f is not such a quadratic or those solutions are
+        not finitely many.
         """
         if len(core) != 1 or sympy.Poly(core[0], *involved).total_degree() != 2:
             return False
         if not semidefinite(core[0], involved):
             return False
-        system = [core[0]] + [sympy.diff(core[0], v) for v in involved]
-        for piece in components(system, involved, self.budget):
-            if piece.finite:
-                for values in real_points(piece.basis, piece.gens, self.budget):
-                    self.add_point({**values, **filler})
+        relations = [r for r in self.family.form.relations if r.free_symbols <= set(involved)]
+        system = [core[0]] + [sympy.diff(core[0], v) for v in involved] + relations
+        pieces = components(system, involved, self.budget)
+        if not all(piece.finite for piece in pieces):
+            return False
+        for piece in pieces:
+            for values in real_points(piece.basis, piece.gens, self.budget):
+                self.add_point({**values, **filler})
         return True
 
     def first_checked(self, values: Point, fillers: list[Point], rank: int) -> list[Found]:
@@ -360,8 +367,8 @@ class Search:
     def generic_description(self, rank: int) -> str:
         """'for every parameter value' only when every lower locus is proved empty."""
         if self.undecided:
-            return f"rank {rank} everywhere in the ranges except the listed strata and possibly " \
-                   "the undecided loci"
+            where = "everywhere else" if self.points or self.curves else "everywhere"
+            return f"rank {rank} {where} in the ranges, except possibly on the undecided loci"
         if self.points or self.curves:
             return f"rank {rank} everywhere else in the ranges"
         if rank == 1:
@@ -369,7 +376,7 @@ class Search:
         return f"rank {rank} for every parameter value in the ranges"
 
 
-UNDECIDED_HINT = ("declare narrower ranges for its parameters, or ask at a point of it "
+UNDECIDED_HINT = ("declare (narrower) ranges for its parameters, or ask at a point of it "
                   "('strata ... with NAME=VALUE' or 'rank ... with NAME=VALUE')")
 
 
