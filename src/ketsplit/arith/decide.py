@@ -26,7 +26,7 @@ to (lo, hi); parameters outside the box range over their whole domain):
 from __future__ import annotations
 
 from collections import deque
-from functools import cmp_to_key
+from functools import cmp_to_key, lru_cache
 from dataclasses import dataclass
 from typing import Generic, Mapping, TypeVar
 
@@ -340,7 +340,8 @@ def _continuous(expr: sympy.Expr) -> bool:
     return True
 
 
-def exact_zeros(expr: sympy.Expr, symbol: sympy.Symbol, lo, hi) -> list[sympy.Expr] | None:
+@lru_cache(maxsize=512)
+def exact_zeros(expr: sympy.Expr, symbol: sympy.Symbol, lo, hi) -> tuple[sympy.Expr, ...] | None:
     """The exact zeros of a continuous real ``expr`` strictly inside (lo, hi), sorted; None
     when they are not found completely (not continuous, too large, or an unsure order)."""
     if not _continuous(expr) or sympy.count_ops(expr) > ZERO_SEARCH_OPS:
@@ -359,7 +360,8 @@ def exact_zeros(expr: sympy.Expr, symbol: sympy.Symbol, lo, hi) -> list[sympy.Ex
             return None
         if after.value > 0 and before.value < 0:
             inside.append(z)
-    return _sorted(inside)
+    found = _sorted(inside)
+    return None if found is None else tuple(found)
 
 
 def _sorted(values: list[sympy.Expr]) -> list[sympy.Expr] | None:
@@ -465,19 +467,37 @@ def sign(expr, box: Box | None = None) -> Decided[int]:
     box = exact_box(box)
     if sympy.expand(expr) == 0:
         return Decided(0, "exact: expands to 0")
+    whole = _whole_box_sign(expr, box)
+    if whole is not None:
+        return whole
+    if _exact_zero(expr, box)[0]:
+        return Decided(0, "exact rewriting gives 0")
     up = _one_sign(expr, box, 1)
     if up.value:
         return Decided(1, up.proof)
     down = _one_sign(expr, box, -1)
     if down.value:
         return Decided(-1, down.proof)
-    if up.value is None and down.value is None and _exact_zero(expr, box)[0]:
-        return Decided(0, "exact rewriting gives 0")
     if up.value is False and down.value is False:
         return Decided(None, f"it takes both signs: {up.proof}; {down.proof}",
                        "ask about a narrower range", point=up.point)
     undecided = up if up.value is None else down
     return Decided(None, undecided.proof, undecided.hint, point=up.point or down.point)
+
+
+def _whole_box_sign(expr: sympy.Expr, box: Box) -> Decided[int] | None:
+    """The sign from one range evaluation over the whole box, when that settles it."""
+    if not expr.free_symbols <= set(box):
+        return None
+    try:
+        found = value_range(expr, box)
+    except NoRange:
+        return None
+    if found.lo >= 0:
+        return Decided(1, "range arithmetic (python-flint balls) over the whole box")
+    if found.hi <= 0:
+        return Decided(-1, "range arithmetic (python-flint balls) over the whole box")
+    return None
 
 
 def _exact_zero(expr: sympy.Expr, box: Box) -> tuple[bool, str]:

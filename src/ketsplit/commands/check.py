@@ -39,22 +39,32 @@ FIRST_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
 
 @command("check", "check LHS = RHS | LHS ~ RHS | STATE CUT = c1 (u1)(w1) + ... | "
                   "schmidt STATE CUT = [c1, ...] | reduce STATE PARTS = MATRIX | rank STATE CUT = R",
-         "does a hand derivation hold? yes (exact or with a stated confidence) or a certified "
-         "counterexample; '~' compares up to a global phase",
+         "does a hand derivation hold? yes (exact, over the declared range, or with a stated "
+         "probability bound), no (a checked counterexample), or undecided (with how to decide); "
+         "'~' compares up to a global phase",
          "check sin(2t) = 2 sin(t) cos(t)")
 def run_check(call: CommandCall) -> Report:
+    return verdict_report(claim_verdict(call))
+
+
+def statement_verdict(session, text: str, options: Options) -> Verdict:
+    """The verdict of ``check TEXT`` in ``session`` (the Python API's statement form)."""
+    return claim_verdict(CommandCall(session, "check", text, 0, 1, text), options)
+
+
+def claim_verdict(call: CommandCall, options: Options | None = None) -> Verdict:
+    """The verdict on the claim in the call's text (any of the forms listed above)."""
+    options = options or _options(call)
     left, operator, right, right_offset = _split(call)
     claim = left.split(None, 1)[0] if left.strip() else ""
     try:
         if claim in CLAIMS and operator == "=" and len(left.split(None, 1)) == 2:
-            verdict = _claim(call, claim, left, right, right_offset)
-        else:
-            verdict = _identity(call, left, right, right_offset, operator == "~")
+            return _claim(call, claim, left, right, right_offset, options)
+        return _identity(call, left, right, right_offset, operator == "~", options)
     except InputError as err:
         if err.span is not None:
             raise
         raise call.error(err.message, right_offset, len(right.strip()) or 1) from None
-    return verdict_report(verdict)
 
 
 def _split(call: CommandCall) -> tuple[str, str, str, int]:
@@ -99,7 +109,8 @@ def _options(call: CommandCall) -> Options:
     return Options(digits=settings.digits, exact_share=settings.exact_budget)
 
 
-def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase: bool) -> Verdict:
+def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase: bool,
+              options: Options) -> Verdict:
     sub = _sub_call(call, "check", left, call.offset)
     _, cut_text, column = sub.split_last(CUT_PATTERN)
     if cut_text is not None and phase:
@@ -107,7 +118,7 @@ def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase
                          "whole states up to a phase", column, len(cut_text))
     if cut_text is not None:
         state, cut = sub.state_and_cut()
-        return _form_claim(call, state, cut, right, right_offset, len(cut.left))
+        return _form_claim(call, state, cut, right, right_offset, len(cut.left), options)
     raw = call.value(left, call.offset)
     if not phase and FIRST_NAME.fullmatch(left.strip()) and isinstance(raw, KetValue):
         state = call.at_point(call.session.make_state(raw))
@@ -115,14 +126,14 @@ def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase
         if terms is not None and 0 < terms[0].left.nparts < state.nparts:
             n = terms[0].left.nparts
             cut = Cut(tuple(range(n)), tuple(range(n, state.nparts)))
-            return _form_claim(call, state, cut, right, right_offset, n)
+            return _form_claim(call, state, cut, right, right_offset, n, options)
     lhs = _at_point(call, raw)
     rhs = _at_point(call, call.value(right, right_offset))
-    return compare_values(lhs, rhs, call.session.params, phase, _options(call))
+    return compare_values(lhs, rhs, call.session.params, phase, options)
 
 
 def _form_claim(call: CommandCall, state: State, cut: Cut, right: str, right_offset: int,
-                left_parts: int) -> Verdict:
+                left_parts: int, options: Options) -> Verdict:
     terms = read_form(right, right_offset, call.line, call.session, left_parts)
     if terms is None:
         raise call.error("check: expected a Schmidt form such as c1 (u1)(w1) + c2 (u2)(w2), a "
@@ -130,7 +141,7 @@ def _form_claim(call: CommandCall, state: State, cut: Cut, right: str, right_off
                          right_offset, len(right.strip()) or 1)
     terms = [FormTerm(_at_point(call, t.coefficient), _at_point(call, t.left),
                       _at_point(call, t.right)) for t in terms]
-    return schmidt_form_claim(state, cut, terms, _declared(call, state), _options(call))
+    return schmidt_form_claim(state, cut, terms, _declared(call, state), options)
 
 
 def _sub_call(call: CommandCall, name: str, text: str, offset: int) -> CommandCall:
@@ -157,7 +168,8 @@ def _symbols(value) -> set[sympy.Symbol]:
     return value.free_symbols
 
 
-def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: int) -> Verdict:
+def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: int,
+           options: Options) -> Verdict:
     head = len(left) - len(left.lstrip()) + len(claim)
     sub = _sub_call(call, claim, left[head:], call.offset + head)
     if claim == "reduce":
@@ -173,20 +185,19 @@ def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: i
             return Verdict(False, "sizes", f"the reduced state on these parts is {size}x{size}, "
                                            f"the claim is {claimed.shape[0]}x{claimed.shape[1]}")
         claimed = _at_point(call, claimed)
-        return decide(reduced_claim(state, keep, claimed, _params(call, state, claimed)),
-                      _options(call))
+        return decide(reduced_claim(state, keep, claimed, _params(call, state, claimed)), options)
     state, cut = sub.state_and_cut()
     if claim == "schmidt" and not right.strip().startswith("["):
-        return _form_claim(call, state, cut, right, right_offset, len(cut.left))
+        return _form_claim(call, state, cut, right, right_offset, len(cut.left), options)
     if claim == "schmidt":
         coefficients = [_at_point(call, c) for c in _claimed_list(call, right, right_offset)]
         params = _params(call, state, *coefficients)
-        return schmidt_claim(state, cut, coefficients, params, _options(call))
+        return schmidt_claim(state, cut, coefficients, params, options)
     rank = call.value(right, right_offset)
     if not (is_scalar(rank) and rank.is_Integer):
         raise call.error("check rank: the claimed rank must be a whole number", right_offset,
                          len(right.strip()) or 1)
-    return rank_claim(state, cut, int(rank), _params(call, state), _options(call))
+    return rank_claim(state, cut, int(rank), _params(call, state), options)
 
 
 def _params(call: CommandCall, state: State, *claimed):
@@ -231,4 +242,6 @@ def verdict_report(verdict: Verdict) -> Report:
                                                          for k, v in point.items())))
         items.append(Field(verdict.quantity, verdict.counterexample[DIFFERENCE]))
     items.append(Field("reason", verdict.reason))
+    if verdict.hint:
+        items.append(Field("to decide", verdict.hint))
     return Report("check", tuple(items))
