@@ -10,154 +10,209 @@
 
 from __future__ import annotations
 
-from .. import limits
-from .errors import InputError
-from .syntax import Binary, Call, KetLiteral, MatrixLiteral, Name, Negate, Node, Number, Sum
-from .tokens import Kind, Token, tokenize
+import re
 
-_ATOM_START_OPS = {"(", "[", "√"}
+from .. import limits
+from .errors import InputError, Span
+from .syntax import Binary, Call, KetLiteral, KetRun, MatrixLiteral, Name, Negate, Node, Number, Sum
+from .tokens import DIGITS, OPERATORS, Lexer
+
+# first characters of a token that starts an atom ('.' only as in .5, never '..')
+_ATOM_START = frozenset("0123456789.|([√_ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz")
+_ADD = frozenset("+-")
+_MULTIPLY = {"*": "*", "·": "*", "/": "/", "⊗": "⊗"}
+
+
+def _term(named: bool, signed: bool) -> str:
+    """One term of a run: [sign] [coefficient] |digits>; the coefficient is n, n i, i or
+    (a + b i) with integers of at most 18 digits."""
+    def group(name: str, pattern: str) -> str:
+        return f"(?P<{name}>{pattern})" if named else f"(?:{pattern})"
+    coefficient = (r"\([ \t]*" + group("re", r"[-+]?[0-9]{1,18}") + r"[ \t]*" +
+                   group("isign", "[-+]") + r"[ \t]*" + group("im", "[0-9]{1,18}") +
+                   r"?[ \t]*i[ \t]*\)|" + group("int", "[0-9]{1,18}") + r"[ \t]*" +
+                   group("unit", "i") + "?|" + group("alone", "i"))
+    sign = group("sign", "[-+]") + ("" if signed else "?")
+    return rf"[ \t]*{sign}[ \t]*(?:(?:{coefficient})[ \t]*)?{group('ket', r'[|][0-9]{1,64}>')}"
+
+
+# where a run may end: before a sign, a closing bracket, a separator or the end
+_RUN_END = r"(?=[ \t]*(?:[-+)\],=~;:#]|\.\.|$))"
+RUN_FIRST = re.compile(_term(False, False) + "(?:" + _term(False, True) + ")*" + _RUN_END)
+RUN_NEXT = re.compile("(?:" + _term(False, True) + ")+" + _RUN_END)
+RUN_TERM = re.compile(_term(True, False))
 
 
 class Parser:
-    """Parses a token list; ``parse_expression`` consumes one expression."""
+    """Parses the tokens of a :class:`Lexer`; ``parse_expression`` consumes one expression.
 
-    def __init__(self, tokens: list[Token], source: str):
-        self.tokens = tokens
-        self.source = source
-        self.pos = 0
+    With ``runs``, a stretch of plain terms (a sum written out term by term with
+    integer or Gaussian-integer coefficients) becomes one :class:`KetRun` node,
+    matched by one regular expression instead of a node per token: a state of
+    many thousand terms then parses at about the speed of a regular-expression
+    pass over its text.  Its value is the same as that of the terms parsed one
+    by one (tests/test_language.py checks that)."""
+
+    def __init__(self, lexer: Lexer, runs: bool = False):
+        self.lexer = lexer
+        self.source = lexer.text
         self.depth = 0
+        self.max_depth = limits.current().nesting
+        self.runs = runs
+        self.sums = 0  # open sum(...) bodies: no runs inside (i may be the summation variable)
 
     # -- token helpers -------------------------------------------------
     @property
-    def current(self) -> Token:
-        return self.tokens[self.pos]
+    def text(self) -> str:
+        return self.lexer.token
 
-    def peek(self, offset: int = 1) -> Token:
-        return self.tokens[min(self.pos + offset, len(self.tokens) - 1)]
+    def span(self) -> Span:
+        return self.lexer.span()
+
+    def describe(self) -> str:
+        return repr(self.lexer.token) if self.lexer.token else "end of input"
+
+    def at_end(self) -> bool:
+        return not self.lexer.token
 
     def at_op(self, *ops: str) -> bool:
-        return self.current.kind is Kind.OP and self.current.text in ops
+        return self.lexer.token in ops
 
-    def advance(self) -> Token:
-        token = self.current
-        if token.kind is not Kind.END:
-            self.pos += 1
-        return token
+    def advance(self) -> Span:
+        """The span of the current token, and move past it (never past the end)."""
+        span = self.lexer.span()
+        if self.lexer.token:
+            self.lexer.advance()
+        return span
 
-    def expect_op(self, op: str, what: str | None = None) -> Token:
-        if not self.at_op(op):
-            self.fail(f"expected {what or repr(op)}, found {self.current.describe()}")
+    def expect_op(self, op: str, what: str | None = None, opened: Span | None = None) -> Span:
+        """Move past ``op``, or fail saying what was expected (and where it was opened)."""
+        if self.lexer.token != op:
+            where = f" opened at column {opened.column}" if opened else ""
+            self.fail(f"expected {what or repr(op)}{where}, found {self.describe()}")
         return self.advance()
 
-    def fail(self, message: str, token: Token | None = None) -> None:
-        token = token or self.current
-        raise InputError(message, token.span, self.source)
+    def fail(self, message: str, span: Span | None = None) -> None:
+        raise InputError(message, span or self.span(), self.source)
 
     def _enter(self) -> None:
         self.depth += 1
-        limits.check(self.depth, "nesting", f"an expression nested {self.depth} deep",
-                     self.current.span, self.source)
-
-    def _leave(self) -> None:
-        self.depth -= 1
+        if self.depth > self.max_depth:
+            limits.check(self.depth, "nesting", f"an expression nested {self.depth} deep",
+                         self.span(), self.source)
 
     # -- grammar -------------------------------------------------------
     def parse_expression(self) -> Node:
         self._enter()
-        node = self.parse_term()
-        while self.at_op("+", "-"):
-            op = self.advance()
-            right = self.parse_term()
-            node = Binary(op.span, op.text, node, right)
-        self._leave()
+        lexer = self.lexer
+        node = self._run(RUN_FIRST) if self.runs and not self.sums else None
+        if node is None:
+            node = self.parse_term()
+        while lexer.token in _ADD:
+            run = self._run(RUN_NEXT) if self.runs and not self.sums else None
+            if run is not None:  # the run keeps its signs: left + (run)
+                node = Binary(Span(run.span.line, run.span.column, 1), "+", node, run)
+                continue
+            op = lexer.token
+            span = self.advance()
+            node = Binary(span, op, node, self.parse_term())
+        self.depth -= 1
         return node
+
+    def _run(self, pattern: re.Pattern[str]) -> KetRun | None:
+        lexer = self.lexer
+        found = pattern.match(self.source, lexer.start)
+        if found is None:
+            return None
+        text = found.group()
+        lexer.skip_to(found.end())
+        return KetRun(Span(lexer.line, found.start() + 1, len(text)), text)
 
     def parse_term(self) -> Node:
         node = self.parse_unary()
+        lexer = self.lexer
         while True:
-            if self.at_op("*", "/", "⊗", "·"):
-                op = self.advance()
-                right = self.parse_unary()
-                node = Binary(op.span, "/" if op.text == "/" else ("⊗" if op.text == "⊗" else "*"),
-                              node, right)
-            elif self._starts_atom(self.current):
+            text = lexer.token
+            if text in _MULTIPLY:
+                span = self.advance()
+                node = Binary(span, _MULTIPLY[text], node, self.parse_unary())
+            elif starts_atom(text):
                 right = self.parse_power()
-                node = Binary(right.span, "*", node, right)
+                node = Binary(right.span, "*", node, right, True)
             else:
                 return node
 
     def parse_unary(self) -> Node:
-        if self.at_op("-", "+"):
-            op = self.advance()
+        text = self.lexer.token
+        if text in _ADD:
+            span = self.advance()
             self._enter()
             operand = self.parse_unary()
-            self._leave()
-            return Negate(op.span, operand) if op.text == "-" else operand
+            self.depth -= 1
+            return Negate(span, operand) if text == "-" else operand
         return self.parse_power()
 
     def parse_power(self) -> Node:
         base = self.parse_atom()
-        if self.at_op("^"):
-            op = self.advance()
+        if self.lexer.token == "^":
+            span = self.advance()
             self._enter()
             exponent = self.parse_unary()
-            self._leave()
-            return Binary(op.span, "^", base, exponent)
+            self.depth -= 1
+            return Binary(span, "^", base, exponent)
         return base
 
     def parse_atom(self) -> Node:
-        token = self.current
-        if token.kind is Kind.NUMBER:
-            self.advance()
-            return Number(token.span, token.text)
-        if token.kind is Kind.KET:
-            self.advance()
-            return KetLiteral(token.span, ket_labels(token, self.source))
-        if token.kind is Kind.NAME:
-            return self.parse_name()
-        if self.at_op("("):
-            self.advance()
+        text = self.lexer.token
+        first = text[:1]
+        if first == "|":
+            span = self.advance()
+            return KetLiteral(span, ket_labels(text, span, self.source))
+        if first in DIGITS or first == "." and text != "..":
+            return Number(self.advance(), text)
+        if first == "(":
+            opened = self.advance()
             inner = self.parse_expression()
-            self.expect_op(")", "')' to close the '(' opened at column "
-                                f"{token.span.column}")
+            self.expect_op(")", "')' to close the '('", opened)
             return inner
-        if self.at_op("["):
+        if first == "[":
             return self.parse_matrix()
-        if self.at_op("√"):
-            self.advance()
+        if first == "√":
+            span = self.advance()
             self._enter()
             operand = self.parse_power()
-            self._leave()
-            return Call(token.span, "sqrt", (operand,))
-        what = "end of input" if token.kind is Kind.END else repr(token.text)
-        self.fail(f"expected a number, a name, a ket or '(', found {what}")
+            self.depth -= 1
+            return Call(span, "sqrt", (operand,))
+        if text and text not in OPERATORS:
+            return self.parse_name()
+        self.fail(f"expected a number, a name, a ket or '(', found {self.describe()}")
         raise AssertionError  # unreachable: fail raises
 
     def parse_name(self) -> Node:
-        token = self.advance()
-        follows = self.current
-        if follows.kind is Kind.OP and follows.text == "(" and not follows.spaced:
-            if token.text == "sum":
-                return self.parse_sum(token)
-            self.advance()
-            args = self.parse_arguments(follows)
-            return Call(token.span, token.text, tuple(args))
-        return Name(token.span, token.text)
+        name = self.lexer.token
+        span = self.advance()
+        if self.lexer.token == "(" and not self.lexer.spaced:
+            if name == "sum":
+                return self.parse_sum(span)
+            opened = self.advance()
+            args = self.parse_arguments(opened)
+            return Call(span, name, tuple(args))
+        return Name(span, name)
 
-    def parse_arguments(self, opener: Token) -> list[Node]:
+    def parse_arguments(self, opened: Span) -> list[Node]:
         args: list[Node] = []
         if not self.at_op(")"):
             args.append(self.parse_expression())
             while self.at_op(","):
                 self.advance()
                 args.append(self.parse_expression())
-        self.expect_op(")", f"')' or ',' in the argument list opened at column {opener.span.column}")
+        self.expect_op(")", "')' or ',' in the argument list", opened)
         return args
 
-    def parse_sum(self, keyword: Token) -> Node:
-        opener = self.advance()
-        variable = self.current
-        if variable.kind is not Kind.NAME:
+    def parse_sum(self, keyword: Span) -> Node:
+        opened = self.advance()
+        variable = self.lexer.token
+        if not is_name(variable):
             self.fail("expected the summation variable, as in sum(n=0..4, ...)")
         self.advance()
         self.expect_op("=", "'=' after the summation variable, as in sum(n=0..4, ...)")
@@ -165,12 +220,14 @@ class Parser:
         self.expect_op("..", "'..' between the limits, as in sum(n=0..4, ...)")
         high = self.parse_expression()
         self.expect_op(",", "',' before the summand, as in sum(n=0..4, ...)")
+        self.sums += 1
         body = self.parse_expression()
-        self.expect_op(")", f"')' to close the sum opened at column {opener.span.column}")
-        return Sum(keyword.span, variable.text, low, high, body)
+        self.sums -= 1
+        self.expect_op(")", "')' to close the sum", opened)
+        return Sum(keyword, variable, low, high, body)
 
     def parse_matrix(self) -> Node:
-        opener = self.expect_op("[")
+        opened = self.expect_op("[")
         rows: list[tuple[Node, ...]] = []
         while True:
             row_open = self.expect_op("[", "'[' to start a matrix row, as in [[a, b], [c, d]]")
@@ -178,45 +235,61 @@ class Parser:
             while self.at_op(","):
                 self.advance()
                 entries.append(self.parse_expression())
-            self.expect_op("]", f"']' to close the row opened at column {row_open.span.column}")
+            self.expect_op("]", "']' to close the row", row_open)
             rows.append(tuple(entries))
             if not self.at_op(","):
                 break
             self.advance()
-        self.expect_op("]", f"']' to close the matrix opened at column {opener.span.column}")
+        self.expect_op("]", "']' to close the matrix", opened)
         widths = {len(r) for r in rows}
         if len(widths) != 1:
-            self.fail("every row of a matrix needs the same number of entries", opener)
-        return MatrixLiteral(opener.span, tuple(rows))
+            self.fail("every row of a matrix needs the same number of entries", opened)
+        return MatrixLiteral(opened, tuple(rows))
 
-    @staticmethod
-    def _starts_atom(token: Token) -> bool:
-        if token.kind in (Kind.NUMBER, Kind.NAME, Kind.KET):
-            return True
-        return token.kind is Kind.OP and token.text in _ATOM_START_OPS
+    def expect_end(self, what: str = "an operator or the end of the expression") -> None:
+        if not self.at_end():
+            self.fail(f"expected {what}, found {self.describe()}")
 
 
-def ket_labels(token: Token, source: str) -> tuple[str, ...]:
+def starts_atom(text: str) -> bool:
+    """Whether a token of this text begins an atom (and so multiplies by juxtaposition)."""
+    first = text[:1]
+    return first in _ATOM_START and text != ".." or first > "\x7f" and text not in OPERATORS
+
+
+def is_name(text: str) -> bool:
+    first = text[:1]
+    return bool(first) and (first.isalpha() or first == "_") and text not in OPERATORS
+
+
+def run_terms(run: KetRun) -> list[tuple[str, Span, Node]]:
+    """The terms of a run one by one: (sign, span of the sign or term, term)."""
+    parser = Parser(Lexer(" " * (run.span.column - 1) + run.text, run.span.line))
+    terms = []
+    while not parser.at_end():
+        sign = parser.text if parser.text in _ADD else "+"
+        span = parser.advance() if parser.text in _ADD else parser.span()
+        terms.append((sign, span, parser.parse_term()))
+    return terms
+
+
+def ket_labels(text: str, span: Span, source: str) -> tuple[str, ...]:
     """The per-part labels of a ket token: ``|01>`` -> ('0','1'); ``|0,10>`` -> ('0','10')."""
-    inner = token.text[1:-1]
+    inner = text[1:-1]
     if not inner.strip():
-        raise InputError("an empty ket: write labels inside, as in |01>", token.span, source)
+        raise InputError("an empty ket: write labels inside, as in |01>", span, source)
     if "," in inner:
         labels = tuple(part.strip() for part in inner.split(","))
         if any(not label or " " in label for label in labels):
             raise InputError("each comma-separated ket label must be one label, as in |0,1,10>",
-                             token.span, source)
+                             span, source)
         return labels
-    compact = inner.replace(" ", "")
-    return tuple(compact)
+    return tuple(inner.replace(" ", "") if " " in inner else inner)
 
 
-def parse_expression(text: str, line: int = 1) -> Node:
-    """Parse ``text`` as one whole expression."""
-    tokens = tokenize(text, line)
-    parser = Parser(tokens, text)
+def parse_expression(text: str, line: int = 1, runs: bool = False) -> Node:
+    """Parse ``text`` as one whole expression (``runs``: see :class:`Parser`)."""
+    parser = Parser(Lexer(text, line), runs)
     node = parser.parse_expression()
-    if parser.current.kind is not Kind.END:
-        parser.fail(f"expected an operator or the end of the expression, found "
-                    f"{parser.current.describe()}")
+    parser.expect_end()
     return node

@@ -38,6 +38,7 @@ class Binary(Node):
     op: str  # '+', '-', '*', '/', '^', '⊗' ; juxtaposition is '*'
     left: Node
     right: Node
+    implicit: bool = False  # a product written by juxtaposition, as in 2 t or t(...)
 
 
 @dataclass(frozen=True)
@@ -56,3 +57,12 @@ class Sum(Node):
 @dataclass(frozen=True)
 class MatrixLiteral(Node):
     rows: tuple[tuple[Node, ...], ...]
+
+
+@dataclass(frozen=True)
+class KetRun(Node):
+    """A run of terms such as ``(2+7i)|0110> - 3|1011> + ...``: integer or Gaussian-integer
+    coefficients times kets of digits, joined by signs (see grammar.RUN).  The builder
+    reads it in one pass; ``text`` is the run as written, from ``span.column`` on."""
+
+    text: str

@@ -2,11 +2,19 @@
 
 A ket ``|...>`` is one token: inside the bars the characters are labels, not
 operators, so ``|0,1,10>`` and ``|+->`` never reach the expression grammar.
+
+The whole line is split by one regular expression (:data:`TOKEN`), so that a
+state of many thousand terms costs about one pass of the regular-expression
+engine; only the rare tokens that need a closer look (non-ASCII letters, a
+``|`` that opens no ket, ``#``, a character outside the language) are
+examined one by one, in :func:`_resolve`.  The parser reads the result, a
+:class:`Scan`, by index; :func:`tokenize` gives the same tokens as objects.
 """
 
 from __future__ import annotations
 
 import re
+import unicodedata
 from dataclasses import dataclass
 from enum import Enum
 
@@ -33,97 +41,151 @@ class Token:
         return "end of input" if self.kind is Kind.END else repr(self.text)
 
 
-# longest first, so that ".." wins over "."
-OPERATORS = ("..", "**", "+", "-", "*", "/", "^", "(", ")", "[", "]", ",", "=", "~",
-             "⊗", "·", "√", ":", ";")
+OPERATORS = frozenset(("..", "**", "+", "-", "*", "/", "^", "(", ")", "[", "]", ",", "=", "~",
+                       "⊗", "·", "√", ":", ";"))
 UNICODE_NAMES = {"π": "pi"}
-KET = re.compile(r"\|[0-9A-Za-z_+\-, ]*>")
-ASCII_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
+KET_LABEL_CHARS = r"0-9A-Za-z_+\-, "
 KET_CHARS = set("0123456789+-,abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ_ ")
+DIGITS = frozenset("0123456789")
+
+# (whitespace before, token): every character of the line lands in one token
+TOKEN = re.compile(r"""([ \t\r\n]*)(
+      \|[""" + KET_LABEL_CHARS + r"""]*>                       # a ket
+    | [0-9]+(?:\.(?!\.)[0-9]*)?(?:[eE][+-]?[0-9]+)?            # a number: 12, 1.5, 2e-3
+    | \.[0-9]+(?:[eE][+-]?[0-9]+)?                             # .5
+    | [A-Za-z_][A-Za-z0-9_]*+(?![^\W\dπ])                       # an ASCII name
+    | \.\.|\*\*|[-+*/^()\[\],=~⊗·√:;]                          # an operator
+    | (?:[^\W\dπ]|[0-9])+                                      # a name with other letters
+    | \#.*                                                     # a comment, to the end
+    | [^ \t\r\n]                                              # anything else: refused
+    )""", re.VERBOSE | re.DOTALL)
+PLAIN_START = frozenset("0123456789.ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz_"
+                        "+-*/^()[],=~:;⊗·√")
 
 
-def _is_name_start(ch: str) -> bool:
-    return ch.isascii() and (ch.isalpha() or ch == "_") or ch in UNICODE_NAMES or (
-        not ch.isascii() and ch.isalpha())
+class Lexer:
+    """Reads the tokens of one line one at a time: ``token`` is the current one ("" at
+    the end of input, or at a ``#`` comment), ``start`` its 0-based column.
+
+    Tokens are matched where they are needed, so that the parser can pass over a
+    stretch of the line in one step (see grammar's term runs) without tokens for it."""
+
+    def __init__(self, text: str, line: int = 1):
+        limits.check(len(text), "input_length", f"input of {len(text)} characters",
+                     Span(line, 1, 1), text[:200])
+        self.text = text
+        self.line = line
+        self.token = ""
+        self.start = 0
+        self.width = 0      # source width (** is read as ^, π as pi)
+        self.spaced = False  # whitespace stood right before the token
+        self.after = 0      # where the next token is looked for
+        self.advance()
+
+    def advance(self) -> None:
+        """Move to the next token."""
+        found = TOKEN.match(self.text, self.after)
+        token = found.group(2) if found else "#"
+        if token[0] not in PLAIN_START and (token[0] != "|" or len(token) == 1) or \
+                token in ("**", ".", "#") or not token.isascii():
+            start = found.start(2) if found else len(self.text)
+            token = _resolve(token, start, self.text, self.line)
+        if token == "#":
+            self.spaced = (self.text[:found.start(2)] if found else self.text)[-1:] in WHITESPACE
+            self.token, self.start, self.width = "", len(self.text.rstrip()), 1
+            self.after = len(self.text)
+            return
+        self.token = token
+        self.start = found.start(2)
+        self.after = found.end()
+        self.width = self.after - self.start
+        self.spaced = self.start > found.start()
+
+    def skip_to(self, position: int) -> None:
+        """Pass over the text up to ``position`` (the end of a token) and read on from there."""
+        self.after = position
+        self.advance()
+
+    def span(self) -> Span:
+        return Span(self.line, self.start + 1, self.width)
 
 
-def _is_name_char(ch: str) -> bool:
-    return _is_name_start(ch) or (ch.isascii() and ch.isdigit())
+WHITESPACE = (" ", "\t", "\r", "\n")
+
+
+def kind_of_text(text: str) -> Kind:
+    if not text:
+        return Kind.END
+    if text[0] == "|":
+        return Kind.KET
+    if text[0] in DIGITS or (text[0] == "." and text != ".."):
+        return Kind.NUMBER
+    return Kind.OP if text in OPERATORS else Kind.NAME
+
+
+def _resolve(token: str, start: int, source: str, line: int) -> str:
+    """A token that needs a closer look: its text as the grammar reads it ("#" for a
+    comment), or an InputError."""
+    if token == "**":
+        return "^"
+    if token[0] == "#":
+        return "#"
+    if token[0] == "|":
+        raise _ket_error(source, start, line)
+    if token in UNICODE_NAMES:
+        return UNICODE_NAMES[token]
+    if token in OPERATORS:
+        return token
+    if token != "." and all(ch.isalpha() or ch == "_" or ch in DIGITS for ch in token):
+        check_confusable(token, Span(line, start + 1, len(token)), source)
+        return token
+    bad = next((k for k, ch in enumerate(token) if not (ch.isalpha() or ch == "_" or
+                                                         ch in DIGITS)), 0)
+    raise InputError(f"unexpected character {token[bad]!r}", Span(line, start + bad + 1, 1),
+                     source)
+
+
+def _ket_error(text: str, pos: int, line: int) -> InputError:
+    """Why the ``|`` at ``pos`` opens no ket."""
+    end = text.find(">", pos + 1)
+    bad = next((k for k in range(pos + 1, end if end >= 0 else len(text))
+                if text[k] not in KET_CHARS), None)
+    if bad is None:
+        return InputError("the ket opened here is not closed: expected '>'",
+                          Span(line, pos + 1, 1), text)
+    return InputError(f"unexpected {text[bad]!r} inside a ket: labels are digits, letters, "
+                      "'+', '-' and ','", Span(line, bad + 1, 1), text)
+
+
+# Letters of other scripts that look like Latin letters (after Unicode's confusables.txt,
+# the letters a reader cannot tell apart in a monospace font)
+LOOK_ALIKES = {
+    **dict(zip("аеорсухіјѕԁһӏԛԝүӀ", "aeopcyxijsdhlqwyI")),          # Cyrillic small
+    **dict(zip("АВЕКМНОРСТХЅІЈ", "ABEKMHOPCTXSIJ")),                # Cyrillic capital
+    **dict(zip("οναιρκ", "ovairk")),                                # Greek small
+    **dict(zip("ΑΒΕΖΗΙΚΜΝΟΡΤΥΧ", "ABEZHIKMNOPTYX")),                # Greek capital
+}
+
+
+def check_confusable(name: str, span: Span, source: str) -> None:
+    """Refuse a name with a letter that looks like an ASCII one but is not (``ѕchmidt``
+    with a Cyrillic ѕ would otherwise become a new parameter without a word)."""
+    for offset, ch in enumerate(name):
+        if ch.isascii():
+            continue
+        latin = LOOK_ALIKES.get(ch) or unicodedata.normalize("NFKC", ch)
+        if latin.isascii() and latin.isalnum():
+            raise InputError(
+                f"the name {name!r} contains {ch!r} ({unicodedata.name(ch, 'U+%04X' % ord(ch))}),"
+                f" a non-ASCII letter that looks like the ASCII {latin!r} (a confusable): "
+                f"type {latin!r} instead", Span(span.line, span.column + offset, 1), source)
 
 
 def tokenize(text: str, line: int = 1) -> list[Token]:
-    """Split one line of the state language into tokens (``#`` ends it)."""
-    limits.check(len(text), "input_length", f"input of {len(text)} characters", Span(line, 1, 1),
-                 text[:200])
-    tokens: list[Token] = []
-    pos = 0
-    spaced = False
-    while pos < len(text):
-        ch = text[pos]
-        if ch in " \t\r\n":
-            pos += 1
-            spaced = True
-            continue
-        if ch == "#":
-            break
-        start = pos
-        ket = KET.match(text, pos)
-        if ket:
-            pos = ket.end()
-            tokens.append(Token(Kind.KET, ket.group(), Span(line, start + 1, pos - start), spaced))
-        elif ch == "|":
-            end = text.find(">", pos + 1)
-            bad = next((k for k in range(pos + 1, end if end >= 0 else len(text))
-                        if text[k] not in KET_CHARS), None)
-            if end < 0 and bad is None:
-                raise InputError("the ket opened here is not closed: expected '>'",
-                                 Span(line, start + 1, 1), text)
-            if bad is not None:
-                raise InputError(f"unexpected {text[bad]!r} inside a ket: labels are digits, "
-                                 "letters, '+', '-' and ','", Span(line, bad + 1, 1), text)
-            pos = end + 1
-            tokens.append(Token(Kind.KET, text[start:pos], Span(line, start + 1, pos - start), spaced))
-        elif ch.isascii() and ch.isdigit() or (ch == "." and "0" <= text[pos + 1:pos + 2] <= "9"):
-            pos = _scan_number(text, pos)
-            tokens.append(Token(Kind.NUMBER, text[start:pos], Span(line, start + 1, pos - start), spaced))
-        elif (name := ASCII_NAME.match(text, pos)) and text[name.end():name.end() + 1].isascii():
-            pos = name.end()
-            tokens.append(Token(Kind.NAME, text[start:pos], Span(line, start + 1, pos - start), spaced))
-        elif _is_name_start(ch):
-            while pos < len(text) and _is_name_char(text[pos]) and text[pos] not in UNICODE_NAMES:
-                pos += 1
-            if pos == start:  # a lone unicode name such as π
-                pos += 1
-            word = UNICODE_NAMES.get(text[start:pos], text[start:pos])
-            tokens.append(Token(Kind.NAME, word, Span(line, start + 1, pos - start), spaced))
-        else:
-            op = text[pos:pos + 2] if text[pos:pos + 2] in OPERATORS else (
-                ch if ch in OPERATORS else None)
-            if op is None:
-                raise InputError(f"unexpected character {ch!r}", Span(line, pos + 1, 1), text)
-            pos += len(op)
-            tokens.append(Token(Kind.OP, "^" if op == "**" else op,
-                                Span(line, start + 1, len(op)), spaced))
-        spaced = False
-    tokens.append(Token(Kind.END, "", Span(line, len(text.rstrip()) + 1, 1), spaced))
+    """The tokens of one line as objects, the last one of kind END."""
+    lexer = Lexer(text, line)
+    tokens = [Token(kind_of_text(lexer.token), lexer.token, lexer.span(), lexer.spaced)]
+    while lexer.token:
+        lexer.advance()
+        tokens.append(Token(kind_of_text(lexer.token), lexer.token, lexer.span(), lexer.spaced))
     return tokens
-
-
-def _scan_number(text: str, pos: int) -> int:
-    """End of a decimal number starting at ``pos``: digits, one dot, an exponent."""
-    n = len(text)
-    while pos < n and "0" <= text[pos] <= "9":
-        pos += 1
-    if pos < n and text[pos] == "." and not text.startswith("..", pos):
-        pos += 1
-        while pos < n and "0" <= text[pos] <= "9":
-            pos += 1
-    if pos < n and text[pos] in "eE":
-        k = pos + 1
-        if k < n and text[k] in "+-":
-            k += 1
-        if k < n and "0" <= text[k] <= "9":
-            pos = k
-            while pos < n and "0" <= text[pos] <= "9":
-                pos += 1
-    return pos
