@@ -29,7 +29,7 @@ from .render.ketprint import label_text
 from .render.ketprint import text as language_text
 from .exact.eigen import NoClosedForm
 from .language.errors import InputError
-from .numeric.schmidt import CertifiedSchmidt, certified_schmidt
+from .numeric.schmidt import CertifiedSchmidt, certified_decomposition as certified_pieces
 from .planner import plan
 from .states import State
 
@@ -151,24 +151,25 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
 
 
 def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
-              digits: int = 30) -> Decomposition:
+              digits: int = 30, vectors: bool = True) -> Decomposition:
     """The Schmidt decomposition by the planner's route (closed form or certified numbers).
 
     ``method``: "auto" (the planner decides from the structure), "exact" or
     "certified".  A state with free parameters has no certified numbers: give
-    it values first (``State.subs`` or a ``with`` clause).
+    it values first (``State.subs`` or a ``with`` clause).  ``vectors=False``
+    skips the certified vectors where only the coefficients are wanted.
     """
     if not isinstance(cut, Cut) and not _symmetric(state):
         cut = parse_cut(cut, state)
     chosen = plan(state, cut, method)
     if chosen.route == "certified":
-        return certified_decomposition(state, cut, digits, chosen.reason, chosen.factors)
+        return certified_decomposition(state, cut, digits, chosen.reason, chosen.factors, vectors)
     try:
         found = schmidt(state, cut)
     except NoClosedForm as why:
         if method == "exact" or state.symbols:
             raise no_closed_form(state, str(why)) from None
-        return certified_decomposition(state, cut, digits, f"no closed form ({why})")
+        return certified_decomposition(state, cut, digits, f"no closed form ({why})", (), vectors)
     return replace(found, route=chosen.route, reason=chosen.reason)
 
 
@@ -188,13 +189,16 @@ def no_closed_form(state: State, why: str) -> InputError:
 
 
 def certified_decomposition(state: State, cut: Cut | str | None, digits: int, reason: str,
-                            factors: tuple = ()) -> Decomposition:
-    """The certified route: ball enclosures of the coefficients, the rank proved or undecided."""
+                            factors: tuple = (), vectors: bool = True) -> Decomposition:
+    """The certified route: ball enclosures of the coefficients (and vectors), the rank proved
+    or undecided."""
     if state.symbols:
         raise no_closed_form(state, "certified numbers need a value for every parameter")
-    found = certified_schmidt(state, cut, digits)
+    found = certified_pieces(state, cut, digits, vectors=vectors)
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state) if not _symmetric(state) else cut
     notes = (f"certified numbers: {reason}",)
-    return Decomposition(state, cut, list(found.coefficients), [], [], False, True, notes,
+    left = [t.left for t in found.terms] if vectors else []
+    right = [t.right for t in found.terms] if vectors else []
+    return Decomposition(state, cut, list(found.coefficients), left, right, False, True, notes,
                          "certified", reason, found, factors)

@@ -209,7 +209,7 @@ def figures(state: State, cut: Cut | str | None = None, unit: str = "bits") -> d
     log_negativity, participation, geometric.  ``unit`` is "bits" or "nats"
     and applies to the logarithmic ones.
     """
-    found = decompose(state, cut)
+    found = decompose(state, cut, vectors=False)
     if found.certified is not None:
         return certified_figures(found, NAMES, unit)
     return spectrum_figures(Spectrum.of(found), unit)
@@ -236,7 +236,7 @@ def renyi_of(spectrum: Spectrum, alpha: sympy.Expr, unit: str = "bits") -> sympy
 
 def renyi(state: State, cut: Cut | str | None, alpha, unit: str = "bits") -> sympy.Expr:
     """The Renyi-alpha entropy of the reduced state of ``state`` across ``cut``."""
-    found = decompose(state, cut)
+    found = decompose(state, cut, vectors=False)
     if found.certified is not None:
         return certified_figures(found, (as_expr(alpha),), unit)[as_expr(alpha)]
     return renyi_of(Spectrum.of(found), alpha, unit)
@@ -307,7 +307,7 @@ def overview(state: State, unit: str = "bits") -> Overview:
                          "(ketsplit.figures.MAX_OVERVIEW_PARTS): ask for single cuts instead")
     summaries = []
     for cut in every_cut(state.nparts):
-        found = decompose(state, cut)
+        found = decompose(state, cut, vectors=False)
         entropy = certified_figures(found, ("entropy",), unit) if found.certified is not None else \
             spectrum_figures(Spectrum.of(found), unit, ("entropy",))
         summaries.append(CutSummary(cut, found.rank, entropy["entropy"]))

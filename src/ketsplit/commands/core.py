@@ -11,30 +11,72 @@ from ..cuts import Cut
 from ..decomposition import Decomposition
 from ..states import State
 from ..render.report import Field, Kets, Note, Report, Table
+from dataclasses import replace
+
+from ..exact.schmidt import nonzero_entries
+from ..numeric.enclose import enclose
+from ..numeric.schmidt import start_bits
 from ..numeric.values import exact_cell
-from .numeric import certified_report
+from ..render.ketprint import text as language_text
+from .numeric import certified_report, complex_text
 from .registry import COMMANDS, CommandCall, command
+from .topics import TOPICS, more_topics, topic_report
+
+
+LONG_CLOSED_FORM = 120  # characters; longer constant closed forms are shown by certified digits
 
 
 def decomposition_report(d: Decomposition, name: str, digits: int | None = None) -> Report:
-    """``digits``: show each irrational constant coefficient with that many certified digits."""
+    """``digits``: show each irrational constant coefficient with that many certified digits.
+
+    A constant closed form longer than LONG_CLOSED_FORM characters is shown by
+    its certified digits (the exact value stays in the Decomposition, the
+    JSON and the API): pages of nested radicals are exact but unreadable.
+    """
     cut_text = d.cut.describe(d.state)
+    shown_digits = digits or 30
+    long_forms = any(_long(v) for v in _constants(d))
     rows = []
     for k, (sigma, u, w) in enumerate(zip(d.coefficients, d.left, d.right), start=1):
-        cell = exact_cell(sigma, digits) if digits else sigma
-        rows.append((k, cell, Kets(tuple(d.vector_terms(u, "left"))),
-                     Kets(tuple(d.vector_terms(w, "right")))))
+        cell = exact_cell(sigma, shown_digits) if (digits or _long(sigma)) else sigma
+        if _long(sigma) and sigma.is_number:
+            cell = replace(cell, exact=None) if hasattr(cell, "exact") else cell
+        rows.append((k, cell, _vector_cell(d, u, "left", shown_digits),
+                     _vector_cell(d, w, "right", shown_digits)))
     left_names = join_names(d.state, d.cut.left)
     right_names = join_names(d.state, d.cut.right)
-    items = (
-        Field("rank", d.rank),
-        Field("coefficients", list(d.coefficients)),
-        Table(("k", "coefficient", f"left vector ({left_names})", f"right vector ({right_names})"),
-              tuple(rows)),
-        Field("schmidt form", d.schmidt_form()),
-    )
+    coefficients = [row[1] for row in rows] if long_forms else list(d.coefficients)
+    items = [Field("rank", d.rank), Field("coefficients", coefficients),
+             Table(("k", "coefficient", f"left vector ({left_names})", f"right vector ({right_names})"),
+                   tuple(rows))]
+    notes = d.notes
+    if long_forms:
+        notes += (f"closed forms longer than {LONG_CLOSED_FORM} characters are shown by their "
+                  "certified digits; the exact values are kept (ketsplit.schmidt(...), --json)",)
+    else:
+        items.append(Field("schmidt form", d.schmidt_form()))
     method = "exact" if d.exact else "certified numeric"
-    return Report(f"Schmidt decomposition of {name} across {cut_text} ({method})", items, d.notes)
+    return Report(f"Schmidt decomposition of {name} across {cut_text} ({method})", tuple(items), notes)
+
+
+def _constants(d: Decomposition) -> list[sympy.Expr]:
+    values = list(d.coefficients)
+    for vector in list(d.left) + list(d.right):
+        values += [v for _, v in nonzero_entries(vector)]
+    return [v for v in values if isinstance(v, sympy.Expr) and v.is_number]
+
+
+def _long(value) -> bool:
+    return isinstance(value, sympy.Expr) and value.is_number and len(language_text(value)) > LONG_CLOSED_FORM
+
+
+def _vector_cell(d: Decomposition, vector, side: str, digits: int):
+    """The vector as kets, or as certified digits when one of its constant entries is long."""
+    terms = d.vector_terms(vector, side)
+    if not any(_long(a) for a, _ in terms):
+        return Kets(tuple(terms))
+    bits = start_bits(digits)
+    return " + ".join(f"({complex_text(enclose(a, bits), digits)})|{label}>" for a, label in terms)
 
 
 def descending_text(polynomial: sympy.Expr) -> str:
@@ -45,11 +87,11 @@ def descending_text(polynomial: sympy.Expr) -> str:
     return terms_text((c, "" if not k else "x" if k == 1 else f"x^{k}") for (k,), c in terms).rstrip()
 
 
-def decompose(call: CommandCall) -> tuple[State, Cut, Decomposition]:
+def decompose(call: CommandCall, vectors: bool = True) -> tuple[State, Cut, Decomposition]:
     """The state, the cut, and its decomposition by the planner's route."""
     state, cut = call.state_and_cut()
     settings = call.session.settings
-    return state, cut, decomposition.decompose(state, cut, settings.method, settings.digits)
+    return state, cut, decomposition.decompose(state, cut, settings.method, settings.digits, vectors)
 
 
 @command("schmidt", "schmidt STATE [CUT] [with NAME=VALUE, ...]",
@@ -81,13 +123,13 @@ def run_reduce(call: CommandCall) -> Report:
          "the generic Schmidt rank across a cut",
          "rank |000> + |111> 1|23")
 def run_rank(call: CommandCall) -> Report:
-    state, cut, found = decompose(call)
+    state, cut, found = decompose(call, vectors=False)
     if found.certified is not None:  # a rank proved by enclosures, or said to be undecided
         rank = found.rank if found.rank is not None else found.certified.rank_text()
         return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", rank),), found.notes)
     note = () if not state.symbols or call.point else (
         "generic rank: it can drop at special parameter values (see 'strata')",)
-    return Report(f"Schmidt rank across {cut.describe(found.state)}", (Field("rank", found.rank),), note)
+    return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", found.rank),), note)
 
 
 @command("digits", "digits N", "set the number of certified digits shown for numeric values",
@@ -111,11 +153,14 @@ def run_help(call: CommandCall) -> Report:
         rows = tuple((c.usage, c.summary) for c in sorted(COMMANDS.values(), key=lambda c: c.name))
         return Report("commands", (Table(("usage", "what it does"), rows),
                                    Note("declarations: real|positive|complex|integer NAMES [in [lo, hi]];"
-                                        " space A:2 B:3; assignment: NAME = STATE")))
+                                        " space A:2 B:3; assignment: NAME = STATE"),
+                                   Note(more_topics())))
     found = COMMANDS.get(topic)
+    if found is None and topic in TOPICS:
+        return topic_report(topic)
     if found is None:
         import difflib
-        close = difflib.get_close_matches(topic, list(COMMANDS), n=1)
+        close = difflib.get_close_matches(topic, [*COMMANDS, *TOPICS], n=1)
         hint = f"; did you mean {close[0]!r}?" if close else ""
         raise call.error(f"no help topic {topic!r}{hint}", call.offset + call.args.index(topic), len(topic))
     return Report(f"help {found.name}", (Field("usage", found.usage), Field("does", found.summary),

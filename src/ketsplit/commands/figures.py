@@ -136,7 +136,7 @@ def run_figures(call: CommandCall) -> Report:
     unit, wanted = _selection(call, options)
     state, cut = trimmed.state_and_cut()
     digits = call.session.settings.digits
-    d = decompose(state, cut, digits=digits)
+    d = decompose(state, cut, digits=digits, vectors=False)
     if d.certified is not None:
         balls = certified_figures(d, wanted, unit)
         rows = tuple((_figure_label(w, unit), "no closed form", digits_cell(balls[w], digits))
@@ -217,7 +217,9 @@ def two_states(call: CommandCall) -> tuple[tuple[str, State], tuple[str, State],
     return ((pieces[0][0].strip(), placed[0]), (pieces[1][0].strip(), placed[1]), cut_text, column)
 
 
-def _yes(flag: bool) -> str:
+def _yes(flag: bool | None) -> str:
+    if flag is None:  # the decision layer could not settle it; the notes say how to
+        return "undecided"
     return "yes" if flag else "no"
 
 
@@ -246,6 +248,7 @@ def run_compare(call: CommandCall) -> Report:
              "partial sum of A is at most B's (Nielsen); best probability by Vidal's formula"),
     )
     notes = ("incomparable: neither converts into the other with certainty",) if found.incomparable else ()
+    notes += found.undecided
     named = tuple(Field(name, text) for name, text in ((a_name, a_text), (b_name, b_text)) if name != text)
     items = named + items
     return Report(f"comparison of {a_name} and {b_name} across {cut_a.describe(a)}", items, notes)
@@ -253,6 +256,8 @@ def run_compare(call: CommandCall) -> Report:
 
 def _exact_and_digits(value: sympy.Expr, digits: int):
     """The exact value, with certified digits beside it when it is irrational."""
+    if value is None:
+        return "undecided"
     if value.is_Rational or value.free_symbols:
         return value
     return replace(certified(value, digits), exact=value)

@@ -4,10 +4,12 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from ..cuts import CUT_PATTERN, Cut
-from ..numeric.digits import digits_cell
+from ..cuts import CUT_PATTERN, Cut, join_names, side_label
+from ..numeric.certified import SchmidtVector
+from ..numeric.digits import certain_text, digits_cell
 from ..numeric.schmidt import CertifiedSchmidt, certified_schmidt
 from ..planner import METHODS
+from ..render.ketprint import label_text
 from ..render.report import Field, Report, Table
 from ..states import State
 from .registry import CommandCall, command
@@ -27,10 +29,54 @@ def certified_report(result: CertifiedSchmidt, state: State, cut: Cut, name: str
         notes.append("rows marked ? may be zero: their enclosures contain zero")
     if not result.complete and not result.undecided:
         notes.append(f"fewer than {result.digits} digits could be certified at the precision ceiling")
-    items = (Field("rank", result.rank if result.rank is not None else result.rank_text()),
-             Table(("k", "coefficient"), rows))
+    table = Table(("k", "coefficient"), rows)
+    if result.with_vectors and result.terms and all(t.left is not None for t in result.terms):
+        table = vector_table(result, state, cut)
+        notes += cluster_notes(result)
+    items = (Field("rank", result.rank if result.rank is not None else result.rank_text()), table)
     return Report(f"Schmidt coefficients of {name} across {cut.describe(state)} "
                   f"(certified numeric, {result.digits} digits)", items, tuple(notes))
+
+
+def vector_table(result: CertifiedSchmidt, state: State, cut: Cut) -> Table:
+    """Coefficients with their certified left and right vectors (certain decimals only)."""
+    rows = []
+    for k, term in enumerate(result.terms, start=1):
+        left = vector_text(term.left, cut.left, state, result.digits)
+        right = vector_text(term.right, cut.right, state, result.digits)
+        rows.append((k, digits_cell(term.value, result.digits), left, right))
+    rows += [(f"{len(rows) + k}?", digits_cell(ball, result.digits), "", "")
+             for k, ball in enumerate(result.undecided, start=1)]
+    return Table(("k", "coefficient", f"left vector ({join_names(state, cut.left)})",
+                  f"right vector ({join_names(state, cut.right)})"), tuple(rows))
+
+
+def vector_text(vector: SchmidtVector, parts: tuple[int, ...], state: State, digits: int) -> str:
+    """A certified vector in our syntax: (re + im i)|label> terms, each digit certain."""
+    pieces = []
+    for index, value in zip(vector.indices, vector.entries()):
+        label = label_text(side_label(index, parts, state.dims))
+        pieces.append(f"({complex_text(value, digits)}){label}")
+    return " + ".join(pieces)
+
+
+def complex_text(value, digits: int) -> str:
+    real, imag = certain_text(value.real, digits), certain_text(value.imag, digits)
+    if value.imag.is_exact() and value.imag.is_zero():
+        return real
+    sign, imag = ("-", imag[1:]) if imag.startswith("-") else ("+", imag)
+    return f"{real} {sign} {imag} i"
+
+
+def cluster_notes(result: CertifiedSchmidt) -> list[str]:
+    notes = [f"vectors certified to {min(min(t.left.decimals, t.right.decimals) for t in result.terms)} "
+             "decimals in every entry (|x| < ... bounds an entry with no certain digit)"]
+    for cluster in result.clusters:
+        members = ", ".join(str(m + 1) for m in cluster.members)
+        notes.append(f"coefficients {members} are not separated at this precision (equal, or too "
+                     "close): their vectors are one orthonormal basis of a subspace, and any "
+                     "orthonormal basis of it serves")
+    return notes
 
 
 @command("numeric", "numeric STATE [CUT] [with NAME=VALUE, ...]",
