@@ -252,3 +252,73 @@ def test_sides_may_be_python_values_and_the_verdict_is_immutable():
         verdict.holds = False  # frozen dataclass
     t = sympy.Symbol("t", real=True)
     assert check(sympy.cos(t) ** 2, (1 + sympy.cos(2 * t)) / 2).line() == "holds for all real t (exact)"
+
+
+# -- regression cases of issue 11: agreement at random points is not a proof ------------
+
+def test_a_modulus_with_a_zero_inside_the_range_is_refuted():
+    # |t - 1/100| = t - 1/100 only for t >= 1/100 (by hand); at t < 1/100 the difference
+    # is 2 (1/100 - t), e.g. 1/50 at t = 0
+    verdict = check("abs(t - 1/100)", "t - 1/100", ranges={"t": (0, 1)})
+    assert verdict.counterexample["t"] < sympy.Rational(1, 100)
+    assert_refuted(verdict, lambda t: abs(t - mpmath.mpf(1) / 100) - (t - mpmath.mpf(1) / 100))
+    # from 1/50 on, the range proves the sign and the identity is exact, split or not
+    assert check("abs(t - 1/100)", "t - 1/100", ranges={"t": ("1/50", 1)}).line() == \
+        "holds for all real t in [1/50, 1] (exact)"
+
+
+def test_a_slow_frequency_is_not_mistaken_for_a_constant():
+    # cos(t 10^-30) - 1 = -t^2 10^-60 / 2 + O(t^4 10^-120) (Taylor, by hand): nonzero for t != 0
+    verdict = ketsplit.Session().run("real t\ncheck cos(t*10^(-30)) = 1")[-1]
+    fields = {item.label: item.value for item in verdict.report.items}
+    assert fields["verdict"].startswith("fails at t = ")
+    t = mp_value(ketsplit.Session().evaluate(fields["counterexample"].split(" = ")[1]))
+    with mpmath.workdps(200):
+        expected = mpmath.cos(t * mpmath.mpf(10) ** -30) - 1
+        assert abs(printed_value(fields["lhs - rhs"]) - expected) <= abs(expected) * 10 ** -28
+
+
+def test_the_randomized_path_samples_the_circle_exactly():
+    # the tangent half-angle point tau gives cos(theta) = (1 - tau^2)/(1 + tau^2) exactly, so the
+    # refutation of cos(t 10^-30) = 1 is an exact rational; mpmath at the mapped-back t agrees
+    from ketsplit.checking import randomized
+    from ketsplit.states import Parameter
+    t = sympy.Symbol("t", real=True)
+    found = randomized.run((sympy.cos(t / sympy.Integer(10) ** 30) - 1,), (Parameter("t", "real"),), 7)
+    assert isinstance(found, randomized.Refutation) and found.value.is_Rational
+    with mpmath.workdps(100):
+        value = mpmath.cos(mp_point(found.point[t]) / mpmath.mpf(10) ** 30) - 1
+        assert abs(value - mp_value(found.value)) <= abs(value) * mpmath.mpf(10) ** -80
+
+
+def mp_point(value):
+    """An exact real value (with atan, pi) as an mpmath number at the working precision."""
+    return mpmath.mpmathify(sympy.N(value, mpmath.mp.dps + 10))
+
+
+def test_randomized_confirmation_states_its_bound():
+    # (a + b)^20 against sympy's expansion: too large for exact rewriting, polynomial, so
+    # random points in the variables confirm, with the Schwartz-Zippel bound (degree 20)
+    from ketsplit.render.ketprint import text
+    a, b = sympy.symbols("a b", real=True)
+    verdict = check("(a + b)^20", text(sympy.expand((a + b) ** 20)), real="a b")
+    assert verdict.holds is True
+    assert verdict.method == "randomized (probability of a false 'holds' <= (20/(2^32 - 1))^4 " \
+                             "< 10^-33)"
+
+
+def test_a_true_identity_with_a_branch_is_undecided_not_sampled():
+    # sqrt(t + 1 + 2 sqrt t) = 1 + sqrt t for t >= 0 (by hand: the radicand is (1 + sqrt t)^2),
+    # but no exact rule here sees it: the verdict must say undecided and how to decide
+    verdict = check("sqrt(t + 1 + 2 sqrt(t))", "1 + sqrt(t)", ranges={"t": (0, 1)})
+    assert verdict.holds is None and "random points prove nothing" in verdict.reason
+    assert verdict.line().startswith("undecided") and "to decide: check at a parameter point" \
+        in verdict.line()
+
+
+def test_true_identities_still_hold_exactly_in_the_shell():
+    # cos^2 + sin^2 = 1 (fact of the trade); |cos t| = cos t on [0, pi/2] (sign proved)
+    results = ketsplit.Session().run("real t\ncheck cos(t)^2 + sin(t)^2 = 1\n"
+                                     "real u in [0, pi/2]\ncheck abs(cos(u)) = cos(u)")
+    verdicts = [r.report.items[0].value for r in results if r.kind == "check"]
+    assert verdicts == ["holds for all real t (exact)", "holds for all real u in [0, pi/2] (exact)"]

@@ -244,3 +244,49 @@ def test_truncated_squeezed_pair_coefficients():
     actual = fields["reason"].split("the Schmidt coefficients are ")[1].split(", ")
     for text, n in zip(actual, range(4)):
         assert_close(text, x ** n / mpmath.sqrt(norm2))
+
+
+# -- regression cases of issue 11: signs proved over the whole range ------------------
+
+def test_coefficients_past_pi_over_2_are_refuted():
+    # cos t < 0 on (pi/2, 8/5] since 8/5 > pi/2 = 1.5707... (by hand; mpmath checks the point)
+    fields = run("real t in [0, 8/5]\n"
+                 "check schmidt cos(t)|00> + sin(t)|11> 1|2 = [cos(t), sin(t)]")
+    assert fields["verdict"].startswith("fails at t = ")
+    t = point_of(fields)["t"].real
+    assert mpmath.pi / 2 < t <= mpmath.mpf(8) / 5 and mpmath.cos(t) < 0
+    assert_close(fields["c1"], mpmath.cos(t))
+
+
+def test_a_schmidt_form_with_a_negative_coefficient_is_not_a_schmidt_form():
+    # cos t (|0>)(|0>) + sin t (|1>)(|1>) equals the state on [0, pi], but cos t < 0 on
+    # (pi/2, pi], so it is not a Schmidt form there (coefficients are >= 0 by definition)
+    fields = run("real t in [0, pi]\npsi = cos(t)|00> + sin(t)|11>\n"
+                 "check psi = cos(t) (|0>)(|0>) + sin(t) (|1>)(|1>)")
+    assert fields["verdict"].startswith("fails at t = ")
+    assert "not a Schmidt coefficient" in fields["reason"]
+    assert mpmath.cos(point_of(fields)["t"].real) < 0
+
+
+def test_a_phase_written_on_the_right_factor_stays_out_of_the_coefficient():
+    # the form printed by 'schmidt' for cos t|00> + e^(i phi) sin t|11> (t in [0, pi/2])
+    fields = run("real t in [0, pi/2]\nreal phi\npsi = cos(t)|00> + exp(i phi) sin(t)|11>\n"
+                 "check psi = cos(t) (|0>)(|0>) + sin(t) (|1>)(exp(i*phi) |1>)")
+    assert fields["verdict"].startswith("holds for all real phi and real t in [0, pi/2]")
+
+
+def test_the_python_check_takes_every_claim_kind_of_the_statement():
+    # the same claims as the statements above, through ketsplit.check's statement form
+    refuted = ketsplit.check("schmidt cos(t)|00> + sin(t)|11> 1|2 = [cos(t), sin(t)]",
+                             ranges={"t": (0, "8/5")})
+    assert refuted.holds is False and mpmath.cos(mp_real(refuted.counterexample["t"])) < 0
+    assert ketsplit.check("reduce cos(t)|00> + sin(t)|11> 1 = [[cos(t)^2, 0], [0, sin(t)^2]]",
+                          real="t").line() == "holds for all real t (exact)"
+    assert ketsplit.check("rank cos(t)|00> + sin(t)|11> 1|2 = 2", real="t").holds is True
+    assert ketsplit.check("exp(i phi) |0> ~ |0>", real="phi").holds is True
+    with pytest.raises(ketsplit.InputError, match="two sides"):
+        ketsplit.check(sympy.Integer(1))
+
+
+def mp_real(value):
+    return mpmath.mpmathify(sympy.N(value, 70))

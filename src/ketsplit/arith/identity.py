@@ -33,26 +33,19 @@ class TooLarge(Exception):
     """The exact rewriting declined (too large); the message says why."""
 
 
-def kind_of(symbol: sympy.Symbol) -> str:
-    if symbol.is_integer:
-        return "integer"
-    if symbol.is_positive:
-        return "positive"
-    if symbol.is_real:
-        return "real"
-    return "complex"
+KINDS = ("integer", "positive", "real", "complex")
 
 
 def parameters_of(symbols, box=None) -> tuple[Parameter, ...] | None:
     """Parameters standing for these symbols (with their box ranges), or None when a
-    symbol is not one ketsplit makes (its assumptions do not round-trip)."""
+    symbol is not one ketsplit makes (no kind of parameter gives back the same symbol)."""
     box = box or {}
     found = []
     for symbol in sorted(symbols, key=lambda s: s.name):
-        param = Parameter(symbol.name, kind_of(symbol), box.get(symbol))
-        if make_symbol(param.name, param.kind) != symbol:
+        kind = next((k for k in KINDS if make_symbol(symbol.name, k) == symbol), None)
+        if kind is None:
             return None
-        found.append(param)
+        found.append(Parameter(symbol.name, kind, box.get(symbol)))
     return tuple(found)
 
 
