@@ -2,13 +2,16 @@
 
 The registry holds each command's usage, summary and one-line example; here
 each gets a short story of our own with statements to type.  Topics that are
-not commands (kets, cuts, parameters, keys) live here too.  Every scenario is
-run by the tests, so none can drift from the language.
+not commands (kets, cut, parameters, keys) live in ``commands/topics.py``, so
+that ``help kets`` works under ``-c`` too.  Every scenario is run by the
+tests, so none can drift from the language.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
+
+from ..commands.topics import TOPICS
 
 
 @dataclass(frozen=True)
@@ -80,45 +83,9 @@ SCENARIOS: dict[str, Scenario] = {
     "help": Scenario(
         "Each command has a usage line, a worked example and, for many, a scenario like this one:",
         ("help schmidt", "help rank"),
-        "Topics that are not commands, shown by the shell: kets, cuts, parameters, keys."),
+        "Topics that are not commands: " + ", ".join(f"help {t}" for t in TOPICS) + "."),
 }
-
-TOPICS: dict[str, str] = {
-    "kets": """\
-  |0>, |01> (one character a part), |0,1,10> (commas for labels above 9), |+>, |->.
-  Tensor product by juxtaposition, |0>|1> or (|0>+|1>)(|0>-|1>)/2, or with ⊗.
-  Finite sums: sum(n=0..3, tanh(r)^n |n,n>).
-  Scalars: numbers, i, pi, sqrt exp sin cos tan sinh cosh tanh log conj abs, ^ for powers,
-  and implicit multiplication: 2 cos(t)|0>.""",
-    "cuts": """\
-  A cut splits the parts in two: 1|2, 13|2, 1,3|2, or by part names after 'space': A|BC.
-  For a two-part state the cut may be left out: schmidt psi.""",
-    "parameters": """\
-  real t, phi in [0, pi]    real parameters with a range
-  positive r                positive parameters
-  complex z / integer n     (undeclared names are complex parameters)
-  schmidt psi with t=pi/6   any command at a parameter point""",
-    "keys": """\
-  Enter       run (a new line instead while a bracket is open or the line ends with an operator)
-  Alt-Enter   run the input as it stands
-  Tab         complete commands, names, parameters, file names after save/open
-  Ctrl-R      search the history backwards; Up/Down walk it
-  Ctrl-C      drop the input, or cancel a running computation (the session is kept)
-  Ctrl-D      leave (on an empty line)
-  F2          switch between 2-D and linear output ('display pretty' / 'display linear')
-  F3          the last folded output whole (also 'more')""",
-}
-
 
 def scenario_text(topic: str) -> str | None:
     found = SCENARIOS.get(topic)
     return None if found is None else "worked scenario:\n" + found.text()
-
-
-def topic_text(topic: str) -> str | None:
-    found = TOPICS.get(topic)
-    return None if found is None else f"help {topic}\n{found}"
-
-
-def more_topics() -> str:
-    return "  more help: " + ", ".join(f"help {t}" for t in TOPICS) + "; help COMMAND for a worked example"
