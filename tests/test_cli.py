@@ -73,10 +73,10 @@ def test_an_error_in_json_mode_is_an_object_too(capsys):
     assert "did you mean 'schmidt'" in error["message"]
 
 
-def test_c_may_save_a_worksheet(tmp_path, capsys):
+def test_c_may_save_a_worksheet_one_line_per_statement(tmp_path, capsys):
     path = tmp_path / "typed.kss"
     assert main(["-c", f"real t; rank cos(t)|00> + sin(t)|11>; save {path}"]) == 0
-    assert [e.source for e in read_sheet(path).lines] == ["real t; rank cos(t)|00> + sin(t)|11>"]
+    assert [e.source for e in read_sheet(path).lines] == ["real t", "rank cos(t)|00> + sin(t)|11>"]
     capsys.readouterr()
     assert main(["verify", str(path)]) == 0
 

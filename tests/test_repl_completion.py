@@ -16,7 +16,7 @@ from ketsplit.session import Session
 def offered(session: Session, text: str) -> dict[str, str]:
     completer = ShellCompleter(session, TOPICS)
     found = completer.get_completions(Document(text), CompleteEvent(completion_requested=True))
-    return {c.text: c.display_meta_text for c in found}
+    return {c.text.rstrip(" ("): c.display_meta_text for c in found}
 
 
 def session_with_names() -> Session:

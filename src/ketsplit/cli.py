@@ -1,10 +1,7 @@
-"""Command line: ``ketsplit -c STATEMENTS``, ``ketsplit run|verify|export FILE``, ``ketsplit`` (shell).
+"""Command line: ``ketsplit -c STATEMENTS``, ``ketsplit run|verify|export FILE``,
+``ketsplit`` (the shell on a terminal; statements read line by line from a pipe).
 
-Exit status: 0 when everything ran (and, for ``verify``, matched); 1 when
-``verify`` finds a result that differs or a damaged worksheet; 2 when input
-could not be run (an error in a statement, a file that is not a worksheet);
-3 on an internal error (a bug in ketsplit, reported in one line, not as a
-traceback).
+The exit statuses are listed in :data:`STATUSES` (and in ``ketsplit --help``).
 """
 
 from __future__ import annotations
@@ -12,18 +9,37 @@ from __future__ import annotations
 import argparse
 import json
 import os
+import shutil
 import sys
 from pathlib import Path
+from typing import Iterable, Iterator
 
 from . import __version__
-from .language.errors import InputError
-from .sheets.format import Sheet, SheetError, parse_sheet, read_sheet
+from .language.errors import InputError, Span
+from .render.report import Field
+from .render.text import fitted_text
+from .sheets.format import Sheet, SheetError, read_sheet
+
+OK, FAILED, BAD_INPUT, INTERNAL, CANCELLED = 0, 1, 2, 3, 130
+STATUSES = f"""\
+exit status:
+  {OK}    everything ran, every check held and (verify) every result matched
+  {FAILED}    a check was refuted or left undecided, or verify found a result that
+       differs from the recorded one (or a damaged worksheet)
+  {BAD_INPUT}    input could not be run: an error in a statement, a file that is not a
+       worksheet (this wins over 1 when both happen)
+  {INTERNAL}    internal error: a bug in ketsplit, reported in one line
+  {CANCELLED}  cancelled with Ctrl-C"""
+LEAVE = ("exit", "quit")
 
 
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="ketsplit", description=(
         "Exact and certified Schmidt decompositions of pure multipartite states. "
-        "With no arguments, start the interactive shell."))
+        "With no arguments: the interactive shell on a terminal; statements piped on "
+        "standard input run line by line ('exit' or 'quit' stops)."),
+        epilog=STATUSES, formatter_class=argparse.RawDescriptionHelpFormatter)
+    parser.add_argument("--version", action="version", version=f"ketsplit {__version__}")
     parser.add_argument("-c", dest="statements", help="run statements (newline- or ';'-separated)")
     output_options(parser)
     sub = parser.add_subparsers(dest="action")
@@ -55,52 +71,110 @@ def main(argv: list[str] | None = None) -> int:
         return dispatch(args)
     except KeyboardInterrupt:
         print("cancelled", file=sys.stderr)
-        return 130
+        return CANCELLED
     except BrokenPipeError:  # the reader went away (ketsplit ... | head): stop quietly
         os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
-        return 0
+        return OK
     except Exception as err:  # a bug in the engine: say so in one line
         print(f"internal error ({type(err).__name__}: {err}); please report it", file=sys.stderr)
-        return 3
+        return INTERNAL
 
 
 def dispatch(args) -> int:
     try:
         if args.statements is not None:
-            return run_sheet(parse_sheet(args.statements.encode("utf-8"), "-c"), args, typed=True)
+            return run_typed(args.statements.splitlines(), args)
         if args.action is None:
+            if not sys.stdin.isatty():
+                return run_typed(sys.stdin, args)
             from .repl.loop import start
             return start()
         sheet = read_sheet(args.file)
     except SheetError as err:
         print(f"error: {err}", file=sys.stderr)
-        return 2
+        return BAD_INPUT
     return {"run": run_file, "verify": verify_file, "export": export_file}[args.action](sheet, args)
+
+
+# -- statements typed after -c or piped in ---------------------------------------------
+
+def run_typed(lines: Iterable[str], args) -> int:
+    """Run statements as they come, one at a time (a line with ';' gives several, and
+    so several worksheet lines on 'save'), each result printed at once; 'exit' or
+    'quit' stops.  The worst status of any statement is the status."""
+    from .session import Session, split_statements
+    session, status = Session(), OK
+    for number, line in statement_lines(lines):
+        for statement, _ in split_statements(line):
+            code = statement.strip()
+            if code in LEAVE and session.lookup(code) is None:
+                return status
+            status = max(status, run_one(session, code, Span(number, len(statement) - len(
+                statement.lstrip()) + 1), line, args))
+    return status
+
+
+def statement_lines(lines: Iterable[str]) -> Iterator[tuple[int, str]]:
+    """(number of the first line, text) of each statement line; a line that must go
+    on (an open bracket, a trailing operator) is joined to the next, as in the shell."""
+    from .repl.continuation import incomplete, join
+    pending: list[str] = []
+    start = 1
+    for number, line in enumerate(lines, start=1):
+        pending.append(line.rstrip("\r\n"))
+        if incomplete("\n".join(pending)):
+            continue
+        yield start, join(pending)
+        pending, start = [], number + 1
+    if pending:
+        yield start, join(pending)
+
+
+def run_one(session, statement: str, place: Span, line: str, args) -> int:
+    """Run one statement placed at ``place`` of ``line``; print its results or its error."""
+    try:
+        results = session.run(statement, place.line)
+    except InputError as err:
+        span = err.span and Span(place.line, err.span.column + place.column - 1, err.span.length)
+        report_error(err.located(span, line), line, args.json)
+        return BAD_INPUT
+    show(results, args)
+    return max((check_status(r) for r in results), default=OK)
+
+
+def show(results, args) -> None:
+    width = None if args.json else shutil.get_terminal_size().columns
+    for result in results:
+        print(json.dumps(result.to_json(), ensure_ascii=False) if args.json
+              else fitted_text(result.report, args.pretty, width), flush=True)
+
+
+def check_status(result) -> int:
+    """FAILED for a check whose verdict is not 'holds' (refuted, or undecided)."""
+    if result.kind != "check":
+        return OK
+    verdicts = [i.value for i in result.report.items if isinstance(i, Field) and i.label == "verdict"]
+    return OK if verdicts and all(str(v).startswith("holds") for v in verdicts) else FAILED
 
 
 # -- run -------------------------------------------------------------------------
 
 def run_file(sheet: Sheet, args) -> int:
-    report_problems(sheet, args.file)
-    return run_sheet(sheet, args, typed=False)
-
-
-def run_sheet(sheet: Sheet, args, typed: bool) -> int:
-    """Run and print; statements ``typed`` after -c may save and open files, and are not echoed."""
+    """Run a worksheet and print each line and its results."""
     from .sheets.runner import replay
-    _, outcomes = replay(sheet, files=typed)
-    failed = False
+    report_problems(sheet, args.file)
+    _, outcomes = replay(sheet)
+    status = OK
     for outcome in outcomes:
-        if not typed and outcome.runs and not args.json:
+        if outcome.runs and not args.json:
             print(f"» {outcome.entry.source.strip()}")
-        for result in outcome.results:
-            print(json.dumps(result.to_json(), ensure_ascii=False) if args.json
-                  else result.text(args.pretty))
+        show(outcome.results, args)
+        status = max([status, *(check_status(r) for r in outcome.results)])
         if outcome.error:
-            failed = True
+            status = BAD_INPUT
             report_error(outcome.error, outcome.entry.source, args.json)
-    recorded = record(sheet, outcomes, args.file) if getattr(args, "record", False) else True
-    return 2 if failed or not recorded else 0
+    recorded = record(sheet, outcomes, args.file) if args.record else True
+    return status if recorded else BAD_INPUT
 
 
 def report_error(err: InputError, source: str, as_json: bool) -> None:
@@ -141,7 +215,7 @@ def verify_file(sheet: Sheet, args) -> int:
         print(f"error: {args.file} is not a worksheet (it has no '#! ketsplit worksheet' line), "
               f"so it records no results; record them with 'ketsplit run {args.file} --record'",
               file=sys.stderr)
-        return 2
+        return BAD_INPUT
     report_problems(sheet, args.file)
     written_by = sheet.value("ketsplit")
     if written_by and written_by != __version__:
@@ -154,9 +228,9 @@ def verify_file(sheet: Sheet, args) -> int:
     if found or sheet.problems:
         print(f"{args.file}: {len(found)} of {checked} lines differ from the recorded results"
               + (f"; {len(sheet.problems)} damaged lines" if sheet.problems else ""))
-        return 1
+        return FAILED
     print(f"{args.file}: all {checked} lines give the recorded results")
-    return 0
+    return OK
 
 
 # -- export ----------------------------------------------------------------------
@@ -173,10 +247,10 @@ def export_file(sheet: Sheet, args) -> int:
     text = export(outcomes, args.to, Path(args.file).name)
     if args.output is None:
         sys.stdout.write(text)
-        return 0
+        return OK
     try:
         write_atomic(args.output, text)
     except OSError as err:
         print(f"error: cannot write {args.output}: {err.strerror or err}", file=sys.stderr)
-        return 2
-    return 0
+        return BAD_INPUT
+    return OK

@@ -1,8 +1,9 @@
 """How the shell shows results and errors: 2-D or linear text, folding, colour.
 
 Results are rendered by ``render/text.py`` (``pretty=True`` for 2-D Unicode
-math); this module only decides the mode, folds outputs taller than the
-terminal allows and keeps the last output whole for ``more`` (or F3).
+math, linear text folded to the terminal's width); this module only decides
+the mode, folds outputs taller than the terminal allows and keeps the last
+output whole for ``more`` (or F3).
 """
 
 from __future__ import annotations
@@ -16,6 +17,7 @@ from prompt_toolkit.formatted_text import FormattedText
 from prompt_toolkit.output import create_output
 
 from ..language.errors import InputError
+from ..render.text import fitted_text
 from .lexer import shell_style
 
 FOLD_LINES = 40
@@ -51,26 +53,9 @@ def fold(text: str, limit: int) -> Folded:
     return Folded("\n".join(lines[:limit]), len(lines) - limit)
 
 
-WIDE_NOTE = "  (shown linear: the 2-D form is wider than the terminal)"
-
-
 def results_text(results: Iterable, pretty: bool, width: int | None = None) -> str:
-    return "\n".join(result_text(r, pretty, width) for r in results)
-
-
-def result_text(result, pretty: bool, width: int | None) -> str:
-    """2-D when asked for and it fits in ``width`` columns; else linear text, which the
-    terminal can wrap without breaking it.  A wrapped picture of several lines
-    (a fraction, a matrix) is unreadable; a wrapped 2-D text that is drawn on as
-    many lines as the linear one has no such picture and stays."""
-    linear = result.text(False)
-    if not pretty:
-        return linear
-    drawn = result.text(True)
-    too_wide = width is not None and max(len(line) for line in drawn.split("\n")) > width
-    if not too_wide or drawn.count("\n") == linear.count("\n"):
-        return drawn
-    return linear + "\n" + WIDE_NOTE
+    """Results in 2-D when asked for and they fit ``width``; else linear text folded to it."""
+    return "\n".join(fitted_text(r.report, pretty, width) for r in results)
 
 
 def error_lines(err: InputError) -> list[tuple[str, str]]:

@@ -6,7 +6,11 @@ joined, see :mod:`.continuation`), and each line runs through
 atomic: on a Ctrl-C or an error the session is rolled back to what it was
 before the line (:mod:`.guard`).  Everything the shell prints comes from the
 Session's results; the shell adds only display choices, help scenarios and
-two directives of its own, ``more`` and ``display pretty|linear``.
+directives of its own: ``more``, ``display pretty|linear``, ``exit`` and
+``quit``.  Leaving (Ctrl-D, exit, quit) with work not saved since the last
+``save`` or ``open`` asks once: it says how many lines would be lost and
+leaves on the second request.  Asking was chosen over a recovery file because
+it writes nothing the user did not ask for, and the answer is one keystroke.
 """
 
 from __future__ import annotations
@@ -29,7 +33,8 @@ from prompt_toolkit.output import Output
 
 from ..commands import COMMANDS
 from ..language.errors import InputError
-from ..session import Session, strip_comment
+from ..render.text import wrap_lines
+from ..session import UNRECORDED as FILE_STATEMENTS, Session, strip_comment
 from . import helptext
 from .completion import DIRECTIVES, ShellCompleter
 from .continuation import logical_lines
@@ -62,38 +67,47 @@ class Shell:
         self.keyboard = keyboard  # the terminal typed on, kept silent while computing
         self.elapsed: float | None = None
         self.last_output = ""
+        self.saved = 0      # length of the work log at the last save or open
+        self.warned = 0     # unsaved lines when leaving was last refused
+        self.leaving = False
+
+    @property
+    def columns(self) -> int | None:
+        return self.width or self.console.width
 
     # -- one input -----------------------------------------------------
     def handle(self, text: str) -> None:
         for line in logical_lines(text):
+            if self.leaving:
+                return
             self.handle_line(line)
 
     def handle_line(self, line: str) -> None:
         code = strip_comment(line).strip()
         if self.directive(code):
             return
-        topic = HELP.match(code)
-        if topic and topic.group(1) in helptext.TOPICS and topic.group(1) not in COMMANDS:
-            self.show(helptext.topic_text(topic.group(1)))
-            return
         results = self.compute(line)
         if results is None:
             return
-        text = results_text(results, self.mode.pretty, self.width or self.console.width)
-        if topic:
-            extra = helptext.scenario_text(topic.group(1)) if topic.group(1) else helptext.more_topics()
-            text += f"\n{extra}" if extra else ""
-        self.show(text)
+        if any(r.kind in FILE_STATEMENTS for r in results):
+            self.saved = len(self.session.worklog)
+        text = results_text(results, self.mode.pretty, self.columns)
+        topic = HELP.match(code)
+        extra = helptext.scenario_text(topic.group(1)) if topic and topic.group(1) else None
+        self.show(text + (f"\n{wrap_lines(extra, self.columns)}" if extra else ""))
 
     def directive(self, code: str) -> bool:
-        """Run ``more`` or ``display pretty|linear``; False for anything else."""
+        """Run ``more``, ``display pretty|linear``, ``exit`` or ``quit``; False for anything else."""
         word = code.split(" ", 1)[0]
         if word not in DIRECTIVES or word in COMMANDS or word in self.session.bindings:
             return False
-        if word == "more":
-            if code != "more":
+        if word in ("more", "exit", "quit"):
+            if code != word:
                 return False
-            self.show_whole()
+            if word == "more":
+                self.show_whole()
+            else:
+                self.leaving = self.may_leave()
             return True
         chosen = DISPLAY.match(code)
         if chosen is None:
@@ -103,6 +117,24 @@ class Shell:
         self.mode = Mode(chosen.group(1) == "pretty", self.mode.fold)
         self.console.line(f"display {self.mode.name}")
         return True
+
+    # -- leaving -------------------------------------------------------
+    def unsaved(self) -> int:
+        """Lines of work (not help) run since the last save or open."""
+        return sum(1 for entry in self.session.worklog[self.saved:]
+                   if any(r.kind != "help" for r in entry.results))
+
+    def may_leave(self) -> bool:
+        """True to leave now.  With unsaved work, the first request to leave only says
+        so (asked once for that work: asked again only after more work)."""
+        pending = self.unsaved()
+        if not pending or pending == self.warned:
+            return True
+        self.warned = pending
+        lines = "1 line" if pending == 1 else f"{pending} lines"
+        self.console.line(f"{lines} of work not saved: 'save FILE' keeps them; Ctrl-D (or exit) "
+                          "again leaves without saving", "class:error")
+        return False
 
     def compute(self, line: str):
         """The line's results, or None after printing why there are none."""
@@ -159,18 +191,20 @@ class Shell:
             input=input, output=output)
 
     def loop(self, prompt_session: PromptSession) -> int:
-        """Read and run inputs until Ctrl-D (or the end of the input)."""
-        while True:
+        """Read and run inputs until Ctrl-D (or the end of the input), exit or quit."""
+        while not self.leaving:
             try:
                 text = prompt_session.prompt()
             except KeyboardInterrupt:
                 continue
             except EOFError:
-                return 0
+                self.leaving = self.may_leave()
+                continue
             try:
                 self.handle(text)
             except KeyboardInterrupt:
                 self.console.line("cancelled", "class:error")
+        return 0
 
 
 def start() -> int:
@@ -180,7 +214,7 @@ def start() -> int:
     shell = Shell(mode=Mode(fold=max(10, rows - 6)), keyboard=sys.stdin)
     history, warning = open_history()
     shell.console.line(f"ketsplit {__version__}: type a state, a command, or 'help'; "
-                       "Tab completes, Ctrl-D leaves")
+                       "Tab completes, Ctrl-D or exit leaves")
     if warning:
         shell.console.line(warning, "class:error")
     return shell.loop(shell.prompt_session(history))
