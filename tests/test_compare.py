@@ -99,9 +99,66 @@ def test_lu_equivalence():
     assert not ketsplit.lu_equivalent(family, ketsplit.ket("cos(2 t)|00> + sin(2 t)|11>", real="t"))
 
 
-def test_cuts_of_different_shapes_are_refused():
-    with pytest.raises(ketsplit.InputError, match="different shapes"):
-        ketsplit.lu_equivalent(ketsplit.ket("|00> + |11>"), ketsplit.ket("|00> + |12>"))
+def test_catalysis_pair_needs_no_common_space():
+    # Jonathan & Plenio, PRL 83, 3566 (1999) (recalled from memory): psi = (.4,.4,.1,.1) on 4x4
+    # and phi = (.5,.25,.25) written on 3x3.  Majorization and Vidal's formula are defined on
+    # vectors padded with zeros (Nielsen, PRL 83, 436 (1999); Vidal, PRL 83, 1046 (1999)), so
+    # the answer is that of the 4x4 pair: incomparable, P(psi -> phi) = 4/5 (by hand above),
+    # P(phi -> psi) = 0 (the Schmidt rank cannot grow).
+    psi = schmidt_form(R(2, 5), R(2, 5), R(1, 10), R(1, 10))
+    phi = schmidt_form(R(1, 2), R(1, 4), R(1, 4))
+    found = compare(psi, phi)
+    assert found.forward is False and found.backward is False and found.incomparable
+    assert found.p_forward == R(4, 5) and found.p_backward == 0
+    assert found.target == (R(1, 2), R(1, 4), R(1, 4), 0) and found.padded
+    session = ketsplit.Session()
+    session.run("psi = sqrt(2/5)(|00> + |11>) + sqrt(1/10)(|22> + |33>)\n"
+                "phi = sqrt(1/2)|00> + (|11> + |22>)/2")
+    text = session.run("compare psi phi")[0].text()
+    assert "psi -> phi by LOCC: no" in text and "best probability psi -> phi: 4/5" in text
+
+
+def test_lu_equivalence_across_different_dimensions():
+    # Local isometries embed a qubit in a qutrit: the Bell state on 2x2 and (|00> + |22>)/sqrt(2)
+    # on 3x3 have the same nonzero Schmidt coefficients (fact of the trade).
+    assert ketsplit.lu_equivalent(ketsplit.ket("|00> + |11>"), ketsplit.ket("|00> + |22>"))
+    assert not ketsplit.lu_equivalent(ketsplit.ket("|00> + |11>"), ketsplit.ket("|00> + |11> + |22>"))
+
+
+def test_lu_equivalence_after_a_qutrit_fourier_rotation():
+    # A local unitary (the qutrit Fourier matrix F_jk = w^(jk)/sqrt(3), w = exp(2 pi i/3)) on
+    # part 1 leaves the Schmidt coefficients as they were (fact of the trade): the exact
+    # entries carry spurious imaginary parts that must be decided, not crash the sort.
+    w = sympy.exp(2 * sympy.pi * sympy.I / 3)
+    weights = {0: 1, 1: 2, 2: 3}
+    rotated = {(j, k): w ** (j * k) * c / sympy.sqrt(3) for j in range(3) for k, c in weights.items()}
+    rotated_state = ketsplit.State((3, 3), rotated)
+    plain = ketsplit.State((3, 3), {(k, k): sympy.Integer(c) for k, c in weights.items()})
+    assert ketsplit.lu_equivalent(rotated_state, plain)
+    assert compare(rotated_state, plain).source == (R(9, 14), R(2, 7), R(1, 14))
+
+
+def test_order_proved_over_the_declared_range():
+    # On [0, pi/4] cos(t)^2 >= sin(t)^2, so the spectrum is ordered over the whole range and
+    # Vidal's formula gives P(family -> Bell) = min(1, 2 sin(t)^2) = 2 sin(t)^2 (by hand).
+    session = ketsplit.Session()
+    session.run("real t in [0, pi/4]\npsi = cos(t)|00> + sin(t)|11>\nbell = |00> + |11>")
+    family, bell = session.bindings["psi"], session.bindings["bell"]
+    found = compare(family, bell)
+    assert sympy.simplify(found.p_forward - 2 * sympy.sin(sympy.Symbol("t", real=True)) ** 2) == 0
+    assert found.backward is True   # the Bell state converts to every two-qubit state
+    assert found.forward is False   # refuted at a point of the range (t = 0 is a product)
+
+
+def test_undecided_order_says_how_to_decide():
+    # On [0, pi/2] the two coefficients cross at pi/4: Nielsen's test needs the order, so the
+    # comparison is undecided and says how to decide it (a point or a narrower range).
+    session = ketsplit.Session()
+    session.run("real t in [0, pi/2]\npsi = cos(t)|00> + sin(t)|11>\nchi = |00> + 2|11>")
+    text = session.run("compare psi chi")[0].text()
+    assert "psi -> chi by LOCC: undecided" in text and "with t=" in text
+    decided = session.run("compare psi chi with t=pi/3")[0].text()
+    assert "undecided" not in decided
 
 
 def test_parameter_dependent_order_is_an_input_error():
@@ -130,8 +187,6 @@ def test_compare_bad_input():
     session.run("psi = |00> + |11>")
     with pytest.raises(ketsplit.InputError, match="two states"):
         session.run("compare psi 1|2")
-    with pytest.raises(ketsplit.InputError, match="different shapes"):
-        session.run("compare psi, |00> + |12>")
 
 
 def test_comparison_value():

@@ -1,98 +1,129 @@
-"""How two pure states relate across a cut, decided exactly from their Schmidt spectra.
+"""How two pure states relate across a cut, decided from their squared Schmidt coefficients.
 
 - Local-unitary equivalence: the same Schmidt coefficients with multiplicity
   (a fact of the trade: the Schmidt coefficients are a complete set of
-  local-unitary invariants of a bipartite pure state).
+  local-unitary invariants of a bipartite pure state).  When the local
+  dimensions differ, the smaller spaces are embedded in the larger ones (local
+  isometries), so only the nonzero coefficients count.
 - Deterministic conversion by LOCC: psi -> phi exactly when the squared
   coefficients of psi are majorized by those of phi (Nielsen, PRL 83, 436 (1999)).
 - Optimal conversion probability: P(psi -> phi) = min over l of
   E_l(psi) / E_l(phi), with E_l the sum of the squared coefficients from the
   l-th largest on (Vidal, PRL 83, 1046 (1999)).
 
-Every comparison of numbers is an exact decision: a sign proved by an
-enclosure that excludes zero (:mod:`ketsplit.numeric.enclose`), or zero
-proved exactly.
+Both criteria are stated on vectors padded with zeros to a common length, so
+states of different local dimensions (a 4x4 state against a 3x3 one) compare
+without a common space.
+
+Every zero, sign and order goes through the decision layer
+(:mod:`ketsplit.arith.decide`): exact algebra, a ball that excludes zero, or
+range arithmetic over the declared parameter ranges.  What it cannot decide
+stays undecided (``None``), with the layer's hint saying how to decide it (a
+point, more digits, a narrower range); nothing is guessed.
 """
 
 from __future__ import annotations
 
-import random
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import cmp_to_key
 
 import sympy
 
-from .exact.coerce import as_expr
-from .cuts import Cut, parse_cut, side_dimension
+from .arith.decide import Decided, compare as compare_values, is_nonnegative, is_zero
+from .cuts import Cut, parse_cut, reduced, side_dimension
 from .decomposition import schmidt
-from .figures import tidy, without_extrema
+from .exact.coerce import as_expr
+from .exact.eigen import eigenvalues
+from .exact.signs import box_of
 from .language.errors import InputError
-from .exact.tidy import algebraic_zero
-from .numeric.enclose import enclose
 from .states import State
 
 Vector = tuple[sympy.Expr, ...]
-START_BITS, MAX_BITS = 128, 1 << 14
+Box = dict
 
 
-def sign(expr: sympy.Expr) -> int:
-    """The sign (-1, 0, 1) of a real constant, proved.
+class Undecided(InputError):
+    """A comparison the decision layer could not settle; the message says how to settle it."""
 
-    Zero is decided exactly (simplification, or a minimal polynomial equal to
-    x); a nonzero sign needs an enclosure that excludes zero.  Precision grows
-    up to MAX_BITS; past that the comparison is refused, never guessed.
+
+@dataclass(frozen=True)
+class Spectrum:
+    """Squared Schmidt coefficients of one normalised state, descending when ``ordered``.
+
+    ``box`` holds the declared parameter ranges the decisions may use; ``why``
+    says why the order is not known (and how to find it) when it is not.
     """
-    expr = without_extrema(as_expr(expr))
-    if expr.is_zero or sympy.simplify(expr) == 0:
-        return 0
-    bits = START_BITS
-    while bits <= MAX_BITS:
-        ball = enclose(expr, bits)
-        if ball.real > 0:
-            return 1
-        if ball.real < 0:
-            return -1
-        if bits == START_BITS and algebraic_zero(expr):
+
+    values: Vector
+    box: tuple = ()
+    ordered: bool = True
+    why: str = ""
+    points: tuple = ()          # parameter points met while trying to order the values
+
+    @property
+    def ranges(self) -> Box:
+        return dict(self.box)
+
+
+# -- spectra -------------------------------------------------------------------
+
+
+def spectrum(state: State, cut: Cut | str | None) -> Spectrum:
+    """The squared Schmidt coefficients of ``state`` across ``cut``, sorted where decidable.
+
+    They are the nonzero eigenvalues of the smaller reduced state (no Schmidt
+    vectors are needed); a symmetric state reads them off its Dicke weights.
+    """
+    box = box_of(state)
+    return ordered_spectrum(squared_coefficients(state, cut, box), box)
+
+
+def squared_coefficients(state: State, cut: Cut | str | None, box: Box) -> Vector:
+    """Symmetric states from their Dicke weights; states with parameters by the exact Schmidt
+    route (it splits the state into blocks first); constant states from the eigenvalues of the
+    smaller reduced state alone, since exact Schmidt vectors can cost far more than the values
+    (a qutrit Fourier rotation of |00> + 2|11> + 3|22>)."""
+    from .symmetric import SymmetricState, symmetric_spectrum
+    if isinstance(state, SymmetricState):
+        return tuple(symmetric_spectrum(state, cut))
+    if state.symbols:
+        return tuple(schmidt(state, cut).squared)
+    if not isinstance(cut, Cut):
+        cut = parse_cut(cut, state)
+    smaller = cut.left if side_dimension(state, cut.left) <= side_dimension(state, cut.right) \
+        else cut.right
+    values = [value for value, count in eigenvalues(reduced(state, smaller)) for _ in range(count)]
+    return tuple(v for v in values if is_zero(v, box).value is not True)
+
+
+def ordered_spectrum(values: Vector, box: Box) -> Spectrum:
+    """The values in descending order, every comparison proved; else as given, with why."""
+    unsure: list[Decided[int]] = []
+
+    def order(a: sympy.Expr, b: sympy.Expr) -> int:
+        found = compare_values(b, a, box)
+        if found.value is None:
+            unsure.append(found)
             return 0
-        bits *= 4
-    raise InputError(f"cannot decide the comparison exactly: the sign of {sympy.sstr(expr)} "
-                     f"is not settled at {MAX_BITS} bits")
+        return found.value
+
+    ranked = tuple(sorted(values, key=cmp_to_key(order)))
+    if not unsure:
+        return Spectrum(ranked, tuple(box.items()))
+    return Spectrum(values, tuple(box.items()), False,
+                    f"the order of the squared coefficients is undecided ({unsure[0].proof}); "
+                    f"{how_to_decide(unsure[0], values)}",
+                    tuple(dict(f.point) for f in unsure if f.point))
 
 
-def decide_sign(expr: sympy.Expr) -> int:
-    """The sign of a real quantity, proved; parameter-dependent signs only when sympy
-    can decide them from the assumptions, else an InputError asking for a point."""
-    expr = as_expr(expr)
-    if not expr.free_symbols:
-        return sign(expr)
-    simplified = sympy.simplify(expr)
-    for test, value in ((simplified.is_zero, 0), (simplified.is_positive, 1), (simplified.is_negative, -1)):
-        if test:
-            return value
-    names = ", ".join(sorted(s.name for s in expr.free_symbols))
-    raise InputError(f"the order of the Schmidt coefficients depends on {names}; compare at a "
-                     f"point, as in 'with {sorted(s.name for s in expr.free_symbols)[0]}=...'")
+def how_to_decide(found: Decided, values) -> str:
+    """The layer's hint, or a point for the parameters of ``values``."""
+    names = sorted({s.name for v in values for s in as_expr(v).free_symbols})
+    at = f"compare at a point, as in 'with {names[0]}=...'" if names else "ask for more digits"
+    return f"{found.hint}; or {at}" if found.hint else at
 
 
-def sorted_squared(state: State, cut: Cut | str | None) -> Vector:
-    """Squared Schmidt coefficients of the normalised state, in descending order."""
-    squared = schmidt(state, cut).squared
-    return tuple(sorted(squared, key=cmp_to_key(lambda a, b: decide_sign(b - a))))
-
-
-def _cuts(a: State, b: State, cut: Cut | str | None) -> tuple[Cut, Cut]:
-    cut_a, cut_b = (cut if isinstance(cut, Cut) else parse_cut(cut, s) for s in (a, b))
-    check_shapes(a, cut_a, b, cut_b)
-    return cut_a, cut_b
-
-
-def check_shapes(a: State, cut_a: Cut, b: State, cut_b: Cut) -> None:
-    """Both cuts must have sides of the same dimensions."""
-    shapes = [(side_dimension(s, c.left), side_dimension(s, c.right)) for s, c in ((a, cut_a), (b, cut_b))]
-    if shapes[0] != shapes[1]:
-        raise InputError(f"the cuts have different shapes: {shapes[0][0]}x{shapes[0][1]} against "
-                         f"{shapes[1][0]}x{shapes[1][1]}; compare states whose sides have the same "
-                         "dimensions")
+# -- the criteria on two vectors ----------------------------------------------------
 
 
 def padded(x: Vector, y: Vector) -> tuple[Vector, Vector]:
@@ -105,124 +136,206 @@ def padded(x: Vector, y: Vector) -> tuple[Vector, Vector]:
 def partial_sums(x: Vector) -> Vector:
     sums, total = [], sympy.Integer(0)
     for value in x:
-        total = tidy(total + value)
+        total = tidy_sum(total + value)
         sums.append(total)
     return tuple(sums)
 
 
-def partial_steps(x: Vector, y: Vector) -> tuple[bool, ...]:
-    """For each k: is the k-th partial sum of x (descending) at most y's?"""
+def tidy_sum(value: sympy.Expr) -> sympy.Expr:
+    """A sum written short: expanded radicals for numbers, factored terms otherwise."""
+    value = sympy.expand(value)
+    return value if not value.free_symbols else sympy.factor_terms(value)
+
+
+def partial_steps(x: Vector, y: Vector, box: Box | None = None) -> tuple[Decided[bool], ...]:
+    """For each k (vectors descending, padded): is the k-th partial sum of x at most y's,
+    for every parameter value in the box?  False comes with a point where it fails."""
     x, y = padded(x, y)
-    return tuple(decide_sign(b - a) >= 0 for a, b in zip(partial_sums(x), partial_sums(y)))
+    return tuple(at_least(b, a, box) for a, b in zip(partial_sums(x), partial_sums(y)))
 
 
-def majorized(x: Vector, y: Vector) -> bool:
-    """x is majorized by y: every partial sum of x (descending) is at most y's."""
-    return all(partial_steps(x, y))
+def at_least(b: sympy.Expr, a: sympy.Expr, box: Box | None) -> Decided[bool]:
+    """b >= a on the whole box; an identity (sin^2 + cos^2 against 1) is proved exactly first,
+    since range arithmetic cannot show that a function that is zero is >= 0."""
+    difference = b - a
+    if difference.free_symbols and is_zero(difference, box).value:
+        return Decided(True, "equal identically (exact rewriting)")
+    return is_nonnegative(difference, box)
 
 
-def vidal_probability(source: Vector, target: Vector) -> sympy.Expr:
-    """min over l of (sum_{i>=l} source_i) / (sum_{i>=l} target_i), skipping empty tails
-    of the target; the vectors are sorted in descending order."""
-    source, target = padded(source, target)
-    best = sympy.Integer(1)
-    for l in range(1, len(source)):
-        tail_target = tidy(sympy.Add(*target[l:]))
-        if decide_sign(tail_target) == 0:
-            break
-        ratio = tidy(sympy.Add(*source[l:]) / tail_target)
-        if decide_sign(ratio - best) < 0:
-            best = ratio
-    return best
-
-
-def same_multiset(x: Vector, y: Vector) -> bool:
-    """Equal as multisets; symbolic entries are matched by proved identities."""
-    if len(x) != len(y):
+def all_of(found: tuple[Decided[bool], ...]) -> bool | None:
+    """True when every one is proved, False when one is refuted, else None."""
+    values = [f.value for f in found]
+    if False in values:
         return False
+    return True if all(values) else None
+
+
+def majorized(x: Vector, y: Vector, box: Box | None = None) -> bool | None:
+    """x is majorized by y (both descending): every partial sum of x is at most y's
+    (Nielsen's criterion for x's state -> y's state); None when undecided."""
+    return all_of(partial_steps(x, y, box))
+
+
+def vidal_probability(source: Vector, target: Vector, box: Box | None = None) -> sympy.Expr | None:
+    """min over l of (sum_{i>=l} source_i) / (sum_{i>=l} target_i), skipping empty tails
+    of the target; the vectors are descending.  Candidates whose order is undecided are
+    kept inside an exact Min; None when an empty tail is undecided."""
+    source, target = padded(source, target)
+    candidates = [sympy.Integer(1)]
+    for l in range(1, len(source)):
+        tail_target = tidy_sum(sympy.Add(*target[l:]))
+        empty = is_zero(tail_target, box)
+        if empty.value is None:
+            return None
+        if empty.value:
+            break
+        candidates.append(sympy.simplify(tidy_sum(sympy.Add(*source[l:])) / tail_target))
+    return smallest(candidates, box)
+
+
+def smallest(values: list[sympy.Expr], box: Box | None) -> sympy.Expr:
+    """The minimum, exactly: values proved not smaller than another are dropped; the rest
+    (order undecided) stay together in a sympy Min."""
+    kept: list[sympy.Expr] = []
+    for value in values:
+        if any(compare_values(value, other, box).value in (0, 1) for other in kept):
+            continue
+        kept = [other for other in kept if compare_values(other, value, box).value not in (0, 1)]
+        kept.append(value)
+    return kept[0] if len(kept) == 1 else sympy.Min(*kept, evaluate=False)
+
+
+def same_spectrum(x: Spectrum, y: Spectrum) -> Decided[bool]:
+    """Equal as multisets of nonzero values (padded vectors), for every parameter value."""
+    box = {**x.ranges, **y.ranges}
+    if x.ordered and y.ordered:
+        a, b = padded(x.values, y.values)
+        found = [is_zero(p - q, box) for p, q in zip(a, b)]
+        refuted = next((f for f in found if f.value is False), None)
+        if refuted is not None:
+            return Decided(False, f"the sorted vectors differ: {refuted.proof}", point=refuted.point)
+        if all(f.value for f in found):
+            return Decided(True, "the sorted vectors agree entry by entry")
+        unsure = next(f for f in found if f.value is None)
+        return Decided(None, unsure.proof, how_to_decide(unsure, a + b))
+    return matched(x.values, y.values, box) or differing_point(x, y) or Decided(
+        None, x.why or y.why, how_to_decide(Decided(None, ""), x.values + y.values))
+
+
+def differing_point(x: Spectrum, y: Spectrum) -> Decided[bool] | None:
+    """A parameter point where the two spectra, taken exactly there, certainly differ."""
+    for point in x.points + y.points:
+        here = [ordered_spectrum(tuple(as_expr(v).subs(point) for v in s.values), {}) for s in (x, y)]
+        if all(s.ordered for s in here) and same_spectrum(*here).value is False:
+            where = ", ".join(f"{k} = {sympy.sstr(v)}" for k, v in point.items())
+            return Decided(False, f"at {where} the squared coefficients differ", point=point)
+    return None
+
+
+def matched(x: Vector, y: Vector, box: Box) -> Decided[bool] | None:
+    """Equal as multisets by proved identities (whatever the order); None when not shown."""
+    if len(x) != len(y):
+        return None
     remaining = list(y)
     for value in x:
-        match = next((k for k, other in enumerate(remaining) if identical(value, other)), None)
+        match = next((k for k, other in enumerate(remaining) if is_zero(value - other, box).value),
+                     None)
         if match is None:
-            return False
+            return None
         remaining.pop(match)
-    return True
+    return Decided(True, "each coefficient equals one of the other state's identically")
 
 
-def identical(a: sympy.Expr, b: sympy.Expr) -> bool:
-    """a = b for every parameter value; proved either way, else an InputError."""
-    difference = sympy.simplify(a - b)
-    if difference == 0:
-        return True
-    if not difference.free_symbols:
-        return decide_sign(difference) == 0
-    value = without_extrema(as_expr(difference).subs(_random_point(difference.free_symbols)))
-    ball = enclose(value, START_BITS)
-    if not ball.real.contains(0) or not ball.imag.contains(0):
-        return False
-    raise InputError(f"cannot decide whether {a} and {b} agree for every parameter value; "
-                     "compare at a point with 'with NAME=VALUE'")
-
-
-def _random_point(symbols) -> dict:
-    rng = random.Random(5)
-    point = {}
-    for s in sorted(symbols, key=lambda s: s.name):
-        x = sympy.Rational(rng.randint(1, 997), 1009)
-        point[s] = x if s.is_real else x + sympy.I * sympy.Rational(rng.randint(1, 997), 1013)
-    return point
-
-
-def lu_equivalent(a: State, b: State, cut: Cut | str | None = None) -> bool:
-    """Related by a product of local unitaries: the same Schmidt coefficients."""
-    cut_a, cut_b = _cuts(a, b, cut)
-    return same_multiset(tuple(schmidt(a, cut_a).squared), tuple(schmidt(b, cut_b).squared))
-
-
-def convertible(source: State, target: State, cut: Cut | str | None = None) -> bool:
-    """source -> target deterministically by LOCC (Nielsen's majorization criterion)."""
-    cut_a, cut_b = _cuts(source, target, cut)
-    return majorized(sorted_squared(source, cut_a), sorted_squared(target, cut_b))
-
-
-def conversion_probability(source: State, target: State, cut: Cut | str | None = None) -> sympy.Expr:
-    """The largest probability of turning source into target by LOCC (Vidal), exactly."""
-    cut_a, cut_b = _cuts(source, target, cut)
-    return vidal_probability(sorted_squared(source, cut_a), sorted_squared(target, cut_b))
+# -- the comparison value --------------------------------------------------------
 
 
 @dataclass(frozen=True)
 class Comparison:
-    """Both spectra (descending, padded), their partial sums, and the verdicts."""
+    """Both spectra (descending, padded), their partial sums, and the verdicts.
+
+    A verdict is True, False, or None (undecided); ``undecided`` says why and how
+    to decide it.  ``p_forward``/``p_backward`` are exact (None when undecided).
+    """
 
     source: Vector
     target: Vector
     source_sums: Vector
     target_sums: Vector
-    steps: tuple[bool, ...]  # source's k-th partial sum <= target's
-    lu_equivalent: bool
-    forward: bool            # source -> target by LOCC
-    backward: bool           # target -> source by LOCC
-    p_forward: sympy.Expr
-    p_backward: sympy.Expr
+    steps: tuple[bool | None, ...]  # source's k-th partial sum <= target's
+    lu_equivalent: bool | None
+    forward: bool | None            # source -> target by LOCC
+    backward: bool | None           # target -> source by LOCC
+    p_forward: sympy.Expr | None
+    p_backward: sympy.Expr | None
+    undecided: tuple[str, ...] = ()
+    padded: bool = False            # the vectors had different lengths
 
     @property
     def incomparable(self) -> bool:
-        return not self.forward and not self.backward
+        return self.forward is False and self.backward is False
+
+
+def compare_spectra(x: Spectrum, y: Spectrum) -> Comparison:
+    """The comparison of two spectra: the planner may supply them from any exact route."""
+    box = {**x.ranges, **y.ranges}
+    px, py = padded(x.values, y.values)
+    lu = same_spectrum(x, y)
+    notes = tuple(dict.fromkeys(s.why for s in (x, y) if not s.ordered))
+    if lu.value is None and not notes:
+        notes = (f"LU-equivalence is undecided: {lu.proof}; {lu.hint}",)
+    if notes:  # Nielsen's and Vidal's criteria need the descending order
+        unknown = (None,) * len(px)
+        return Comparison(px, py, partial_sums(px), partial_sums(py), unknown, lu.value, None, None,
+                          None, None, notes, len(x.values) != len(y.values))
+    steps = partial_steps(x.values, y.values, box)
+    back = partial_steps(y.values, x.values, box)
+    unsure = [s for s in steps + back if s.value is None]
+    notes = tuple(dict.fromkeys(f"a partial sum comparison is undecided ({s.proof}); "
+                                f"{how_to_decide(s, px + py)}" for s in unsure[:1]))
+    return Comparison(px, py, partial_sums(px), partial_sums(py), tuple(s.value for s in steps),
+                      lu.value, all_of(steps), all_of(back), vidal_probability(x.values, y.values, box),
+                      vidal_probability(y.values, x.values, box), notes,
+                      len(x.values) != len(y.values))
+
+
+def compare_across(source: State, cut_a: Cut | str | None, target: State, cut_b: Cut | str | None
+                   ) -> Comparison:
+    """The comparison with a cut of its own for each state; the local dimensions may differ."""
+    return compare_spectra(spectrum(source, cut_a), spectrum(target, cut_b))
 
 
 def compare(source: State, target: State, cut: Cut | str | None = None) -> Comparison:
     """Everything the comparison statement prints, from one pair of spectra."""
-    cut_a, cut_b = _cuts(source, target, cut)
-    return compare_across(source, cut_a, target, cut_b)
+    return compare_across(source, cut, target, cut)
 
 
-def compare_across(source: State, cut_a: Cut, target: State, cut_b: Cut) -> Comparison:
-    """The comparison with a cut of its own for each state (same shapes)."""
-    check_shapes(source, cut_a, target, cut_b)
-    x, y = sorted_squared(source, cut_a), sorted_squared(target, cut_b)
-    px, py = padded(x, y)
-    steps = partial_steps(x, y)
-    return Comparison(px, py, partial_sums(px), partial_sums(py), steps, same_multiset(x, y),
-                      all(steps), majorized(y, x), vidal_probability(x, y), vidal_probability(y, x))
+# -- yes/no answers for the Python API -------------------------------------------------
 
+
+def settled(value, found: Comparison, what: str):
+    """``value`` when decided; else an :class:`Undecided` error saying how to decide it."""
+    if value is None:
+        raise Undecided(f"{what} is undecided: {'; '.join(found.undecided)}")
+    return value
+
+
+def lu_equivalent(a: State, b: State, cut: Cut | str | None = None) -> bool:
+    """Related by local unitaries (local isometries when the dimensions differ): the same
+    nonzero Schmidt coefficients with multiplicity."""
+    found = compare(a, b, cut)
+    if found.lu_equivalent is None:
+        found = replace(found, undecided=found.undecided or ("give the parameters values",))
+    return settled(found.lu_equivalent, found, "local-unitary equivalence")
+
+
+def convertible(source: State, target: State, cut: Cut | str | None = None) -> bool:
+    """source -> target deterministically by LOCC (Nielsen's majorization criterion)."""
+    found = compare(source, target, cut)
+    return settled(found.forward, found, "the conversion")
+
+
+def conversion_probability(source: State, target: State, cut: Cut | str | None = None) -> sympy.Expr:
+    """The largest probability of turning source into target by LOCC (Vidal), exactly."""
+    found = compare(source, target, cut)
+    return settled(found.p_forward, found, "the conversion probability")

@@ -201,12 +201,9 @@ def symmetric_sum(left: KetValue, right: KetValue) -> SymmetricKet | None:
     return None
 
 
-def dicke_ket(*args: int) -> SymmetricKet:
-    """``dicke(n, k)`` in the language: the normalised Dicke state of n qubits with k ones."""
-    if len(args) != 2:
-        raise ValueError(f"expected two integer arguments, as in dicke(3, 1) (n parts, k ones); "
-                         f"found {len(args)}")
-    n, k = args
+def dicke_ket(n: int, k: int) -> SymmetricKet:
+    """``dicke(n, k)`` in the language: the normalised Dicke state of n qubits with k ones
+    (the builder checks the number of arguments against this signature)."""
     if not 1 <= n <= MAX_SYMMETRIC_PARTS:
         raise ValueError(f"the number of parts must be from 1 to {MAX_SYMMETRIC_PARTS}, found {n}")
     if not 0 <= k <= n:
