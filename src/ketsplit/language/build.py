@@ -247,7 +247,7 @@ class Builder:
             else:
                 coefficient = numbers.I if alone else numbers.ONE
             if sign == "-":
-                coefficient = Gaussian(-coefficient.re, -coefficient.im)
+                coefficient = numbers.negative(coefficient)
             label = ket[1:-1]
             if len(label) != parts:
                 if parts or len(label) > self.limits.parts:
@@ -361,7 +361,7 @@ class Builder:
         whole = numbers.integer_value(exponent) if type(exponent) is Gaussian else None
         if type(base) is Gaussian and whole is not None:
             self._limit(abs(whole), "exponent", f"exponent {whole}", node)
-            size = numbers.bits(base) * 30103 // 100000 + 1
+            size = numbers.digits(base)
             self._limit(size * abs(whole), "number_digits",
                         f"a power of about {size * abs(whole)} digits", node)
             if whole < 0 and numbers.is_zero(base):
@@ -428,7 +428,7 @@ class Builder:
     def _sized(self, value, node: Node):
         """``value``, refused when an exact number in it has grown past number_digits."""
         if type(value) is Gaussian:
-            largest = numbers.bits(value) * 30103 // 100000 + 1
+            largest = numbers.digits(value)
         else:
             coefficients = value.coefficients() if isinstance(value, KetValue) else (
                 value if isinstance(value, sympy.MatrixBase) else (value,))
@@ -507,12 +507,12 @@ def finished(value):
 def number_digits(value: sympy.Expr) -> int:
     """Decimal digits of the numerator or denominator of the rational factor of ``value``."""
     if type(value) is Gaussian:
-        return numbers.bits(value) * 30103 // 100000 + 1
+        return numbers.digits(value)
     coefficient = value.as_coeff_Mul()[0] if isinstance(value, sympy.Expr) else value
     if not isinstance(coefficient, sympy.Rational):
         return 0
-    bits = max(abs(coefficient.p).bit_length(), coefficient.q.bit_length())
-    return (bits * 30103) // 100000 + 1  # log10(2) = 0.30103
+    return numbers.digits_of_bits(max(abs(coefficient.p).bit_length(),
+                                      coefficient.q.bit_length()))
 
 
 def is_scalar(value) -> bool:

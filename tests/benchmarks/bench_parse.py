@@ -1,0 +1,81 @@
+"""Parsing speed against one regular-expression pass over the same text, in one run.
+
+    python -m pytest tests/benchmarks/bench_parse.py -o addopts="" -s
+
+The state: 14 qubits, all 16,384 basis kets, each with a Gaussian-integer
+coefficient written out, ``(a+bi)|01101...> + ...`` (about 420,000
+characters).  The reference is ``re.findall`` of a token pattern (kets,
+numbers, names, any other character) over the whole text: the floor of any
+parser that looks at every token.  Goal (issue 11): parse and build the
+amplitudes within 10 times that pass.  Also reported, not asserted: the same
+with the state made a State (dimensions, parameters: session.make_state), and
+a sum the plain-term run does not cover (each coefficient divided by 3), which
+takes the node-by-node route.
+
+Times are CPU seconds (process time), best of five.
+"""
+
+from __future__ import annotations
+
+import random
+import re
+import time
+
+import pytest
+import sympy
+
+import ketsplit
+from ketsplit import limits
+from ketsplit.language.build import KetValue, evaluate
+
+pytestmark = pytest.mark.benchmark
+
+TOKENS = re.compile(r"\|[^>]*>|[0-9]+(?:\.[0-9]*)?|[A-Za-z_]\w*|\S")
+QUBITS = 14
+
+
+def best(action, repeat: int = 5) -> float:
+    fastest = float("inf")
+    for _ in range(repeat):
+        start = time.process_time()
+        action()
+        fastest = min(fastest, time.process_time() - start)
+    return fastest
+
+
+def written_state(template: str) -> tuple[str, dict[tuple[int, ...], sympy.Expr]]:
+    """Every basis ket of QUBITS qubits with a random Gaussian-integer coefficient."""
+    rng = random.Random(14)
+    pairs = [(rng.randint(-9, 9), rng.randint(-9, 9)) for _ in range(1 << QUBITS)]
+    text = " + ".join(template.format(a=a, b=b, label=f"{k:0{QUBITS}b}")
+                      for k, (a, b) in enumerate(pairs))
+    expected = {tuple(int(ch) for ch in f"{k:0{QUBITS}b}"): sympy.Integer(a) + sympy.I * b
+                for k, (a, b) in enumerate(pairs)}
+    return text, expected
+
+
+def test_parse_16384_terms_against_one_regex_pass():
+    text, expected = written_state("({a}{b:+d}i)|{label}>")
+    session = ketsplit.Session()
+    with limits.limits_set(input_length=len(text)):
+        value, _ = evaluate(text, session)
+        assert isinstance(value, KetValue) and value.terms == expected
+        reference = best(lambda: TOKENS.findall(text))
+        ours = best(lambda: evaluate(text, session))
+        state = best(lambda: session.make_state(evaluate(text, session)[0]), 2)
+    print(f"\nparse {len(text)} characters, {1 << QUBITS} terms: {ours:.3f} s; one regex pass "
+          f"{reference:.3f} s; ratio {ours / reference:.1f} (goal <= 10); with make_state "
+          f"{state:.3f} s, ratio {state / reference:.1f}")
+    assert ours <= 10 * reference
+
+
+def test_parse_terms_outside_the_plain_run():
+    text, expected = written_state("({a}{b:+d}i)/3|{label}>")
+    session = ketsplit.Session()
+    with limits.limits_set(input_length=len(text)):
+        value, _ = evaluate(text, session)
+        assert value.terms == {k: v / 3 for k, v in expected.items()}
+        reference = best(lambda: TOKENS.findall(text))
+        ours = best(lambda: evaluate(text, session), 2)
+    print(f"\nnode by node, {1 << QUBITS} terms divided by 3: {ours:.3f} s; one regex pass "
+          f"{reference:.3f} s; ratio {ours / reference:.1f} (reported only)")
