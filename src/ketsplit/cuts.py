@@ -169,14 +169,23 @@ class CoefficientMatrix:
         return sorted(((sorted(r), sorted(c)) for r, c in groups.values()), key=lambda rc: rc[0])
 
     def block_matrix(self, rows: list[int], cols: list[int]) -> sympy.Matrix:
+        """The dense block on ``rows`` x ``cols``, read from the entries of those rows only."""
         check_dense(len(rows) * len(cols), "block of the coefficient matrix")
-        row_at = {r: k for k, r in enumerate(rows)}
         col_at = {c: k for k, c in enumerate(cols)}
         block = sympy.zeros(len(rows), len(cols))
-        for (i, j), value in self.entries.items():
-            if i in row_at and j in col_at:
-                block[row_at[i], col_at[j]] = value
+        for k, i in enumerate(rows):
+            for j, value in self.rows.get(i, {}).items():
+                if j in col_at:
+                    block[k, col_at[j]] = value
         return block
+
+    @cached_property
+    def rows(self) -> dict[int, dict[int, sympy.Expr]]:
+        """The nonzero entries row by row: {i: {j: C_ij}}."""
+        by_row: dict[int, dict[int, sympy.Expr]] = {}
+        for (i, j), value in self.entries.items():
+            by_row.setdefault(i, {})[j] = value
+        return by_row
 
 
 def check_dense(entries: int, what: str) -> None:

@@ -132,7 +132,9 @@ class State:
 
     def is_normalised(self) -> bool:
         if "is_normalised" not in self._cache:
-            self._cache["is_normalised"] = sympy.simplify(self.norm_squared() - 1) == 0
+            excess = self.norm_squared() - 1  # numbers: expanded exactly; simplify is for parameters
+            self._cache["is_normalised"] = (sympy.expand(excess) if not excess.free_symbols
+                                            else simplify_masked(excess)) == 0
         return self._cache["is_normalised"]
 
     def normalised(self) -> "State":
@@ -146,7 +148,8 @@ class State:
             result = self
         else:
             scale = 1 / sympy.sqrt(norm2)
-            result = self.with_amplitudes({k: sympy.expand(v * scale) if not v.free_symbols
+            result = self.with_amplitudes({k: v * scale if v.is_Rational else sympy.expand(v * scale)
+                                           if not v.free_symbols
                                            else v * scale for k, v in self.amplitudes.items()})
         self._cache["normalised"] = result
         return result
@@ -200,6 +203,8 @@ def simplify_real(expr: sympy.Expr) -> sympy.Expr:
         if expr.is_Float:
             return sympy.nsimplify(expr)
         expanded = sympy.expand(expr)
+        if expanded.is_Rational:
+            return expanded
         # radsimp asks minimal_polynomial about cos(pi/202)-like terms: minutes for nothing
         return expanded if expanded.has(*TRANSCENDENTAL_LOOKING) else sympy.radsimp(expanded)
     result = simplify_masked(expr)

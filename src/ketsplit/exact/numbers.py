@@ -96,6 +96,9 @@ def number_block(block: sympy.Matrix) -> NumberBlock | None:
     if block.free_symbols:
         return None
     values = list(block)
+    if all(v.is_Rational for v in values):  # the common case, without construct_domain
+        elements = [sympy.QQ(int(v.p), int(v.q)) for v in values]
+        return _block(block.shape, elements + elements, sympy.QQ)
     degree = field_degree_bound(values)
     if degree is None or degree > MAX_FIELD_DEGREE:
         return None
@@ -107,13 +110,16 @@ def number_block(block: sympy.Matrix) -> NumberBlock | None:
     if not (domain.is_ZZ or domain.is_QQ or domain.is_ZZ_I or domain.is_QQ_I or domain.is_AlgebraicField):
         return None
     field = domain.get_field()
-    elements = [field.convert_from(e, domain) for e in elements]
-    shape = block.shape
-    size = len(values)
+    return _block(block.shape, [field.convert_from(e, domain) for e in elements], field)
+
+
+def _block(shape: tuple[int, int], elements: list, field) -> NumberBlock:
+    """B and conj(B) from their elements over ``field`` (B's row by row, then conj(B)'s)."""
+    size = shape[0] * shape[1]
 
     def matrix(items) -> DomainMatrix:
-        rows = [items[r * shape[1]:(r + 1) * shape[1]] for r in range(shape[0])]
-        return DomainMatrix(rows, shape, field)
+        return DomainMatrix([items[r * shape[1]:(r + 1) * shape[1]] for r in range(shape[0])],
+                            shape, field)
 
     return NumberBlock(matrix(elements[:size]), matrix(elements[size:]))
 
@@ -138,7 +144,7 @@ def number_rank(block: sympy.Matrix) -> int | None:
 
 def number_pieces(found: NumberBlock) -> list[Piece]:
     """All Schmidt pieces of the block (left vectors on its rows)."""
-    if found.matrix.rank() == 1:
+    if found.matrix.shape[0] == 1 or found.matrix.rank() == 1:
         return [rank_one(found)]
     rho = found.matrix.matmul(found.conjugate.transpose())
     field = found.field
@@ -279,15 +285,16 @@ def rank_one(found: NumberBlock) -> Piece:
     weight = sum((a * b for ra, rb in zip(entries, conj) for a, b in zip(ra, rb)), field.zero)
     sigma = root(found.expr(weight))
     if rows == 1:  # keep any phase on the right vector: the left one is then |0>
-        w = Vector([found.expr(a) for a in entries[0]]) / sigma
-        return sigma, Vector([[1]]), w.applyfunc(_readable)
+        return sigma, Vector([[1]]), _vector([found.expr(a) / sigma for a in entries[0]])
     column = next(j for j in range(cols) if any(entries[i][j] for i in range(rows)))
     norm = root(found.expr(sum((entries[i][column] * conj[i][column] for i in range(rows)), field.zero)))
-    u = Vector([found.expr(entries[i][column]) for i in range(rows)]) / norm
-    x_conj = DomainMatrix([[conj[i][column]] for i in range(rows)], (rows, 1), field)
-    image = found.matrix.transpose().matmul(x_conj).to_list()
-    w = Vector([found.expr(e[0]) for e in image]) / (norm * sigma)
-    return sigma, u.applyfunc(_readable), w.applyfunc(_readable)
+    u = _vector([found.expr(entries[i][column]) / norm for i in range(rows)])
+    image = [sum((entries[i][j] * conj[i][column] for i in range(rows)), field.zero) for j in range(cols)]
+    return sigma, u, _vector([found.expr(e) / (norm * sigma) for e in image])
+
+
+def _vector(values: list[sympy.Expr]) -> Vector:
+    return Vector([v if v.is_Rational else sympy.expand(v) for v in values])
 
 
 def root(value: sympy.Expr) -> sympy.Expr:

@@ -33,7 +33,7 @@ from .numbers import number_block, number_pieces, root
 from .tidy import is_zero, neat_number, tidy
 
 Vector = sympy.Matrix
-DENSE_VECTOR_SIZE = 4096  # side spaces larger than this hold Schmidt vectors sparsely
+DENSE_VECTOR_SIZE = 256  # side spaces larger than this hold Schmidt vectors sparsely
 Piece = tuple[sympy.Expr, Vector, Vector]  # (sigma, left vector, right vector) of one block
 
 

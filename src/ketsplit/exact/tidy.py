@@ -36,11 +36,24 @@ def tidy(value: sympy.Expr) -> sympy.Expr:
 def neat_number(value: sympy.Expr) -> sympy.Expr:
     """A number expanded, and rationalised by radsimp when small with unnested radicals."""
     value = sympy.expand(value)
-    if value.is_Rational or sympy.count_ops(value) > MAX_RADSIMP_OPS or _nested_root(value):
+    if value.is_Rational or not _root_in_denominator(value) or _nested_root(value) \
+            or sympy.count_ops(value) > MAX_RADSIMP_OPS:
         return value
     if value.has(sympy.cos, sympy.sin, sympy.exp, sympy.log, sympy.acos, sympy.CRootOf):
         return value  # radsimp would ask minimal_polynomial about transcendental-looking terms
     return sympy.expand(sympy.radsimp(value))
+
+
+def _root_in_denominator(value: sympy.Expr) -> bool:
+    """A radical below a fraction bar (1/(1 + sqrt 2), 1/sqrt(1 + sqrt 2)): what radsimp is for."""
+    for p in value.atoms(sympy.Pow):
+        if not p.exp.is_negative:
+            continue
+        if not p.exp.is_Integer and not p.base.is_Rational:
+            return True
+        if any(q.exp.is_Rational and not q.exp.is_Integer for q in p.base.atoms(sympy.Pow)):
+            return True
+    return False
 
 
 def _nested_root(value: sympy.Expr) -> bool:
