@@ -18,6 +18,8 @@ away: :class:`TooLarge` says which one declined.
 
 from __future__ import annotations
 
+from math import lcm
+
 import sympy
 
 from ..exact.coerce import as_expr
@@ -27,6 +29,7 @@ from ..states import Parameter, make_symbol
 MAX_OPS = 4000        # larger expressions are not rewritten
 MAX_POWER = 16        # (sum)^n with n above this is not expanded
 SMALL_CONSTANT = 40   # simplify / minimal_polynomial only for constants up to this many operations
+MAX_DEGREE = 32       # minimal polynomials only of constants of at most this degree (a bound)
 
 
 class TooLarge(Exception):
@@ -58,7 +61,7 @@ def identically_zero(expr: sympy.Expr, params: tuple[Parameter, ...] | None = No
     if sympy.expand(expr) == 0:
         return True
     if not expr.free_symbols:
-        return constant_zero(expr) is True
+        return _zero_for_every_angle(expr) or constant_zero(expr) is True
     if params is None:
         params = parameters_of(expr.free_symbols)
     try:
@@ -69,29 +72,72 @@ def identically_zero(expr: sympy.Expr, params: tuple[Parameter, ...] | None = No
         return _zero_with_exponentials(expr)
 
 
+PI = make_symbol("(pi)", "real")   # a name the language cannot write: no clash with a parameter
+
+
+def _zero_for_every_angle(number: sympy.Expr) -> bool:
+    """cos(pi/202)^2 + sin(pi/202)^2 - 1 is zero because it is zero with any real number
+    in place of pi: an identity in polynomial variables (see :func:`identically_zero`)."""
+    if not number.has(sympy.pi):
+        return False
+    general = number.xreplace({sympy.pi: PI})
+    return bool(general.free_symbols) and identically_zero(general, (Parameter(PI.name, "real"),))
+
+
 def constant_zero(number: sympy.Expr) -> bool | None:
     """A small constant: True when zero, False when its minimal polynomial proves it nonzero,
-    None when not shown (simplify proves zeros only; large constants are not tried)."""
+    None when not shown.  Algebraic constants go to minimal_polynomial when their degree
+    bound is small; others (cos(1)) to simplify, which proves zeros only; nothing large
+    is tried (simplify of cos(pi/202)-like numbers can run for minutes)."""
     if sympy.count_ops(number) > SMALL_CONSTANT:
         return None
-    if is_algebraic_form(number):
-        x = sympy.Dummy("x")
-        try:
-            return sympy.minimal_polynomial(number, x) == x
-        except (NotImplementedError, sympy.polys.polyerrors.BasePolynomialError, ValueError):
-            return None
-    return True if sympy.simplify(number) == 0 else None
+    degree = degree_bound(number)
+    if degree is None:
+        return True if sympy.simplify(number) == 0 else None
+    if degree > MAX_DEGREE:
+        return None
+    x = sympy.Dummy("x")
+    try:
+        return sympy.minimal_polynomial(number, x) == x
+    except (NotImplementedError, sympy.polys.polyerrors.BasePolynomialError, ValueError):
+        return None
 
 
-def is_algebraic_form(number: sympy.Expr) -> bool:
-    """Built from rationals, i and rational powers only (so minimal_polynomial applies)."""
+def degree_bound(number: sympy.Expr) -> int | None:
+    """A bound on the degree of a constant built from rationals, i, radicals and sin, cos,
+    exp(i .) of rational multiples of pi; None for anything else (then it is not tried).
+
+    The trigonometric values lie in the cyclotomic field of the 2L-th roots of unity (L
+    the common denominator), of degree phi(2L); each radical of index q at most
+    multiplies the degree by q.
+    """
+    common, radicals = 1, set()
     for node in sympy.preorder_traversal(number):
-        if node.is_Rational or node is sympy.I or node.is_Add or node.is_Mul:
+        if node.is_Rational or node is sympy.I or node is sympy.pi or node.is_Add or node.is_Mul:
             continue
         if node.is_Pow and node.exp.is_Rational:
+            if not node.exp.is_Integer:
+                radicals.add((node.base, int(node.exp.q)))
             continue
-        return False
-    return True
+        turns = _rational_turns(node)
+        if turns is None:
+            return None
+        common = lcm(common, int(turns.q))
+    bound = int(sympy.totient(2 * common)) if common > 1 else 1
+    for _, index in radicals:
+        bound *= index
+    return bound
+
+
+def _rational_turns(node: sympy.Expr) -> sympy.Rational | None:
+    """r when node is sin(r pi), cos(r pi) or exp(i r pi) with r rational, else None."""
+    if isinstance(node, (sympy.sin, sympy.cos)):
+        ratio = node.args[0] / sympy.pi
+    elif isinstance(node, sympy.exp):
+        ratio = node.args[0] / (sympy.I * sympy.pi)
+    else:
+        return None
+    return ratio if ratio.is_Rational else None
 
 
 def _zero_in_polynomial_form(expr: sympy.Expr, params: tuple[Parameter, ...]) -> bool:
