@@ -29,12 +29,13 @@ from sympy.polys.matrices import DomainMatrix
 from ..language.errors import LimitError
 from .enclose import Encloser, enclose
 from .certified import Ball, SchmidtVector
-from .hermitian import Eigen, IntMatrix, eigen, single
+from .hermitian import Eigen, IntMatrix, eigen, python_ints, single
 
 MAX_NUMERIC_SIDE = 512  # the smaller side of one block; beyond it the numeric path refuses
 FIXED_GUARD_BITS = 16   # bits kept beyond the working precision when a ball entry is rounded
 
 Entries = dict[tuple[int, int], sympy.Expr]
+Rational = int | Fraction
 
 
 @dataclass(frozen=True)
@@ -62,56 +63,52 @@ class Spectrum:
     fixed: Fixed
     small: tuple[int, ...]
     large: tuple[int, ...]
+    bits: int
 
-    def vectors(self, cluster: range, bits: int) -> list[tuple[SchmidtVector, SchmidtVector]] | None:
-        """(smaller side, larger side) vectors of the positions in one eigenvalue cluster.
+    @cached_property
+    def pairs(self) -> tuple[tuple[SchmidtVector, SchmidtVector] | None, ...]:
+        """Per position (ascending): the (smaller side, larger side) vectors, or None.
 
         The larger side's vector is w = B^T conj(u) / s.  For the cluster's
         basis column x (within eps of u) it is taken as z / m with
         z = Bint^T conj(x) and m the centre of the cluster's range of s:
         ||B^T conj(u) - z|| <= s_max eps + eta ||x||, and |s_j / m - 1| <= r / m
-        for every s_j of the cluster (r the range's radius).  None when the
-        cluster's coefficients are not proved nonzero.
+        for every s_j of the cluster (r the range's radius).  None for the
+        positions of a cluster whose coefficients are not proved nonzero.
         """
         found = self.eigen
-        with ctx.workprec(bits):
-            roots = [nonnegative(found.values[k]).sqrt() for k in cluster]
-            hull = reduce(lambda a, b: a.union(b), roots)
-            if not hull > 0:
-                return None
-            centre, spread = hull.mid(), hull.rad()
+        out: list = [None] * len(found.values)
+        with ctx.workprec(self.bits):
             top = nonnegative(found.values[-1]).upper().sqrt().upper()
-            z = self._images()
-            xr, xi = found.columns
-            out_bits = bits + FIXED_GUARD_BITS
-            man, exp = (int(v) for v in centre.man_exp())
-            pairs = []
-            for k in cluster:
-                eps = found.errors[k]
-                radius = ((top * eps + self.fixed.eta * (1 + eps)) / centre + spread / centre
-                          + arb(2) ** -out_bits).upper()
-                small = SchmidtVector(self.small, tuple(int(v) for v in xr[:, k]),
-                                      tuple(int(v) for v in xi[:, k]), -found.bits, Ball.of(eps))
-                shift = out_bits - found.bits - exp
-                large = SchmidtVector(self.large, _divided(z[0][:, k], man, shift),
-                                      _divided(z[1][:, k], man, shift), -out_bits, Ball.of(radius))
-                pairs.append((small, large))
-            return pairs
+            images = None
+            for cluster in found.clusters:
+                hull = reduce(lambda a, b: a.union(b), (nonnegative(found.values[k]).sqrt() for k in cluster))
+                if not hull > 0:
+                    continue
+                images = images if images is not None else self._images()
+                for k in cluster:
+                    out[k] = self._pair(k, hull, top, images)
+        return tuple(out)
+
+    def _pair(self, k: int, hull: arb, top: arb, images) -> tuple[SchmidtVector, SchmidtVector]:
+        found = self.eigen
+        xr, xi = found.columns
+        centre, spread = hull.mid(), hull.rad()
+        man, exp = (int(v) for v in centre.man_exp())
+        eps = found.errors[k]
+        radius = ((top * eps + self.fixed.eta * (1 + eps)) / centre + spread / centre).upper()
+        small = SchmidtVector(self.small, tuple(xr[:, k]), tuple(xi[:, k]), -found.bits, Ball.of(eps))
+        large = SchmidtVector(self.large, tuple(images[0][:, k]), tuple(images[1][:, k]),
+                              -found.bits - exp, Ball.of(radius), man)
+        return small, large
 
     def _images(self):
-        """Bint^T conj(X) (scale 2^-bits), columns in ascending order, as object arrays."""
+        """Bint^T conj(X) (scale 2^-bits), columns in ascending order, as Python integers."""
         found = self.eigen
         z = self.fixed.ints.transpose() * found.x.conjugate()
         zr, zi = z.arrays()
         order = list(found.order)
-        return zr[:, order], zi[:, order]
-
-
-def _divided(values, man: int, shift: int) -> tuple[int, ...]:
-    """round(v 2^shift / man) for each integer v (half-integers rounded up)."""
-    den = man << max(-shift, 0)
-    up = max(shift, 0)
-    return tuple((2 * (int(v) << up) + den) // (2 * den) for v in values)
+        return python_ints(zr[:, order]), python_ints(zi[:, order])
 
 
 @dataclass(frozen=True, eq=False)
@@ -163,7 +160,7 @@ class Block:
             found = single(gram, eta) if self.side == 1 else eigen(gram, eta, ball.bits)
             squares = tuple(nonnegative(v) * fixed.scale ** 2 for v in found.values)
             weight = size ** 2 * fixed.scale ** 2 if fixed.eta == 0 else self.weight(ball)
-        return Spectrum(squares, weight, found, fixed, *self.vector_rows())
+        return Spectrum(squares, weight, found, fixed, *self.vector_rows(), ball.bits)
 
     def fixed(self, ball: Encloser) -> Fixed:
         """The block as Gaussian integers times a scale, exactly when it can be."""
@@ -186,12 +183,12 @@ class Block:
             if found is None:
                 return None
             parts[key] = found
-        den = reduce(math.lcm, (f.denominator for pair in parts.values() for f in pair), 1)
+        den = reduce(math.lcm, {f.denominator for pair in parts.values() for f in pair}, 1)
         rows, cols = self._shape()
         re, im = [[0] * cols for _ in range(rows)], [[0] * cols for _ in range(rows)]
         for (i, j), (x, y) in parts.items():
             r, c = self._place(i, j)
-            re[r][c], im[r][c] = int(x * den), int(y * den)
+            re[r][c], im[r][c] = (int(x * den), int(y * den)) if den > 1 else (x, y)
         scale = arb(fmpq(1, den)) if den > 1 else arb(1)
         return Fixed(IntMatrix(fmpz_mat(re), fmpz_mat(im)), scale, arb(0))
 
@@ -271,14 +268,20 @@ class Block:
         return 1 if self.rank_one else self.side
 
 
-def gaussian_rational(value: sympy.Expr) -> tuple[Fraction, Fraction] | None:
-    """(re, im) as fractions when ``value`` is written as p/q + i r/s (or a binary Float), else None."""
+def gaussian_rational(value: sympy.Expr) -> tuple[Rational, Rational] | None:
+    """(re, im) when ``value`` is written as p/q + i r/s (or a binary Float), else None.
+
+    Parts are Python integers when they are whole (no Fraction is built for
+    them: a dense state has thousands of entries).
+    """
+    if value.is_Integer:
+        return int(value.p), 0
     if value.is_Rational or value.is_Float:
-        return _fraction(value), Fraction(0)
+        return _fraction(value), 0
     if value is sympy.I:
-        return Fraction(0), Fraction(1)
+        return 0, 1
     if value.is_Mul and len(value.args) == 2 and value.args[1] is sympy.I and value.args[0].is_Rational:
-        return Fraction(0), _fraction(value.args[0])
+        return 0, _fraction(value.args[0])
     if value.is_Add and len(value.args) == 2:
         first, second = (gaussian_rational(v) for v in value.args)
         if first is not None and second is not None:
@@ -286,12 +289,12 @@ def gaussian_rational(value: sympy.Expr) -> tuple[Fraction, Fraction] | None:
     return None
 
 
-def _fraction(value: sympy.Expr) -> Fraction:
+def _fraction(value: sympy.Expr) -> Rational:
     if value.is_Float:
         sign, mantissa, exponent, _ = value._mpf_
         number = Fraction(mantissa) * Fraction(2) ** exponent
         return -number if sign else number
-    return Fraction(int(value.p), int(value.q))
+    return int(value.p) if value.q == 1 else Fraction(int(value.p), int(value.q))
 
 
 def round_part(x: arb, q: int) -> tuple[int, arb]:

@@ -13,7 +13,7 @@ import math
 from dataclasses import dataclass
 
 import mpmath
-from flint import acb, arb
+from flint import acb, arb, ctx
 
 from ..render.report import Digits
 from .digits import certain_text, digits_cell
@@ -47,8 +47,9 @@ class SchmidtVector:
     """A unit vector enclosed entry by entry, sparse.
 
     Entry ``indices[k]`` (a row or column index of the coefficient matrix,
-    mixed radix over the parts of that side) is (re[k] + i im[k]) 2^exp; its
-    real and imaginary parts each lie within ``radius`` of those values.
+    mixed radix over the parts of that side) is (re[k] + i im[k]) 2^exp /
+    divisor; its real and imaginary parts each lie within ``radius`` of
+    those values.
     Entries at other indices are exactly zero.
     """
 
@@ -57,12 +58,16 @@ class SchmidtVector:
     im: tuple[int, ...]
     exp: int
     radius: Ball
+    divisor: int = 1
 
-    def entries(self) -> list[acb]:
-        rad = (self.radius.man, self.radius.exp)
-        if self.radius.rad_man:  # a radius given as a ball itself: take its upper end
-            rad = tuple(int(v) for v in self.radius.arb().upper().mid().man_exp())
-        return [acb(arb((r, self.exp), rad), arb((i, self.exp), rad)) for r, i in zip(self.re, self.im)]
+    def entries(self, bits: int = 0) -> list[acb]:
+        """The entries as complex balls (at ``bits`` bits, by default enough for the radius)."""
+        rad = self.radius.arb()
+        if not bits:
+            bits = max(64, 16 - self.radius.exp - self.radius.man.bit_length())
+        with ctx.workprec(bits):
+            out = [acb(arb((r, self.exp)), arb((i, self.exp))) / self.divisor for r, i in zip(self.re, self.im)]
+            return [acb(z.real + arb(0, rad), z.imag + arb(0, rad)) for z in out]
 
     def dense(self, size: int) -> list[acb]:
         """The whole vector of length ``size`` (zeros outside the block)."""

@@ -115,7 +115,8 @@ class Encloser:
             return rule(self.ball(expr.args[0]))
         if expr.free_symbols:
             names = ", ".join(sorted(s.name for s in expr.free_symbols))
-            raise InputError(f"a numeric value needs every parameter set: {names} has no value")
+            raise InputError(f"a numeric value needs every parameter set: {names} has no value "
+                             "(give it with 'with NAME=VALUE' or at={NAME: value})")
         raise NotEnclosable(f"no certified enclosure is known here for {sympy.sstr(expr.func)}(...);"
                             " rewrite the state with exp, log, trigonometric or hyperbolic functions")
 

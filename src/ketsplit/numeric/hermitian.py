@@ -41,7 +41,8 @@ from dataclasses import dataclass
 
 from flint import arb, fmpz_mat
 
-GUARD_BITS = 20
+GUARD_BITS = 8           # fixed-point bits beyond the working precision (which has its own guard)
+GAP_FREE_BITS = 24       # eigenvalue gaps down to 2^-24 ||A|| are paid for by the working precision's guard
 START_BITS = 50          # float64 eigenvectors, as fixed point
 MAX_STEPS = 12
 GAP_BITS_MAX = 40        # extra precision bought for small (but resolved) eigenvalue gaps
@@ -81,24 +82,32 @@ class IntMatrix:
         return IntMatrix(self.re + other.re, self.im + other.im)
 
     def arrays(self):
-        """Entries as numpy object arrays of Python integers (for elementwise exact work)."""
-        import numpy
-        rows, cols = self.shape
-        to = lambda m: numpy.array([int(v) for v in m.entries()], dtype=object).reshape(rows, cols)  # noqa: E731
-        return to(self.re), to(self.im)
+        """Entries as numpy object arrays (flint integers, for elementwise exact work)."""
+        return _objects(self.re), _objects(self.im)
 
     def floats(self, shift: int):
         """The matrix times 2^-shift as complex128 (an approximation)."""
         return _floats(self.re, shift) + 1j * _floats(self.im, shift)
 
 
-def _floats(matrix: fmpz_mat, shift: int):
+def python_ints(values):
+    """An object array of Python integers (flint's do not pickle)."""
     import numpy
-    values = matrix.entries()
-    top = max((abs(v) for v in values), default=0)
-    drop = max(0, int(top).bit_length() - 60) if top else 0
-    ints = numpy.array([int(v >> drop) for v in values], dtype=float)
-    return numpy.ldexp(ints, drop - shift).reshape(matrix.nrows(), matrix.ncols())
+    return numpy.array(list(map(int, values.ravel())), dtype=object).reshape(values.shape)
+
+
+def _objects(matrix: fmpz_mat):
+    import numpy
+    return numpy.array(matrix.entries(), dtype=object).reshape(matrix.nrows(), matrix.ncols())
+
+
+def _floats(matrix: fmpz_mat, shift: int):
+    """matrix 2^-shift in float64, each entry to about 60 bits relative to the largest."""
+    import numpy
+    values = _objects(matrix)
+    top = int(numpy.max(numpy.abs(values))) if values.size else 0
+    drop = max(0, top.bit_length() - 1000)  # float64 holds integers up to 2^1024
+    return numpy.ldexp((values >> drop if drop else values).astype(float), drop - shift)
 
 
 def from_floats(z, bits: int) -> IntMatrix:
@@ -167,12 +176,12 @@ def eigen(a: IntMatrix, eta: arb, bits: int) -> Eigen:
         y, g = a * x, x.adjoint() * x
         if p >= target:
             found, residual = certify(a, eta, x, p, y, g)
-            if residual is not None and (residual < 2.0 ** (2 * n.bit_length() - target)
+            if residual is not None and (residual < 2.0 ** -bits
                                          or (last is not None and residual > last / 16)):
                 return found
             last = residual if residual is not None else last
         xf, correction, accuracy, gap_bits = refine(xf, x, x.adjoint() * y, g, p, scale)
-        target = max(target, bits + GUARD_BITS + gap_bits)
+        target = max(target, bits + GUARD_BITS + max(0, gap_bits - GAP_FREE_BITS))
         new_p = max(p, min(target, 2 * accuracy + GUARD_BITS))
         x = x.shifted(new_p - p) + correction(new_p)
         p = new_p
@@ -312,7 +321,7 @@ def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMa
             errors[cluster[0]] = _phase_fixed(bound, members[0], pivots[members[0]], xr, xi, lengths, p)
     norm = _upper_sqrt(sum(v * v for v in d), p)
     relative = float(f / norm) if norm > 0 else 0.0
-    columns = (xr[:, order], xi[:, order])
+    columns = (python_ints(xr[:, order]), python_ints(xi[:, order]))
     return Eigen(tuple(arb(c, f) for c in centers), x, tuple(order), columns, p, tuple(errors),
                  tuple(clusters), tuple(angles), tuple(pivots[k] for k in order)), relative
 

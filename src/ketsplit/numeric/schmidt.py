@@ -55,9 +55,7 @@ def certified_decomposition(state: State, cut: Cut | str | None = None, digits: 
     if isinstance(state, SymmetricState):
         state, cut = dicke_split(state, cut)
     if at:
-        state = at_point(state, at)
-    else:
-        at_point(state, {})  # every parameter must already have a value
+        state = at_point(state, at)  # a parameter left without a value is met when enclosing
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
     matrix = CoefficientMatrix(state, cut)
@@ -139,10 +137,7 @@ def block_term(b: int, spectrum: Spectrum, position: int, square: arb, norm2: ar
     eigen = spectrum.eigen
     index = next(c for c, cluster in enumerate(eigen.clusters) if position in cluster)
     cluster = eigen.clusters[index]
-    pair = None
-    if vectors:
-        pairs = spectrum.vectors(cluster, bits)
-        pair = pairs[cluster.index(position)] if pairs is not None else None
+    pair = spectrum.pairs[position] if vectors else None
     several = len(cluster) > 1
     return Found(coefficient(square, norm2), pair, eigen.angles[index] if several else None,
                  (b, index) if several else None)
