@@ -144,3 +144,14 @@ def test_exact_signs_module_goes_through_the_decision_layer():
     assert sign_on_box(sympy.cos(t), {t: (0, sympy.pi)}) is None
     assert drop_abs(sympy.Abs(sympy.cos(t)) + sympy.Abs(sympy.cos(2 * t)), box) == \
         sympy.cos(t) + sympy.Abs(sympy.cos(2 * t))
+
+
+def test_constants_with_pi_are_decided_exactly_and_quickly():
+    # cos(pi/7) + cos(3pi/7) + cos(5pi/7) = 1/2 (a classical identity; mpmath agrees), and
+    # cos(pi/202)^2 + sin(pi/202)^2 = 1 as an identity in a stand-in for pi (no simplify)
+    assert abs(sum(mpmath.cos(k * mpmath.pi / 7) for k in (1, 3, 5)) - mpmath.mpf(1) / 2) < 1e-70
+    heptagon = sum(sympy.cos(k * sympy.pi / 7) for k in (1, 3, 5)) - sympy.Rational(1, 2)
+    assert is_zero(heptagon).value is True
+    angle = sympy.pi / 202
+    assert is_zero(sympy.cos(angle) ** 2 + sympy.sin(angle) ** 2 - 1).value is True
+    assert is_zero(sympy.cos(angle) * sympy.sin(angle) - sympy.sin(2 * angle) / 2).value is True
