@@ -1,5 +1,7 @@
 """The state language: tokens, grammar, construction, and errors with line:column."""
 
+import random
+
 import pytest
 import sympy
 
@@ -95,3 +97,92 @@ def test_label_outside_declared_space():
 def test_zero_state_is_an_error():
     with pytest.raises(InputError, match="zero"):
         ketsplit.schmidt(ketsplit.ket("|00> - |00>"))
+
+
+# -- implicit multiplication after a value's name (issue 11) ------------------------------
+def test_i_before_a_bracket_multiplies():
+    # i(|00>+|11>)/sqrt(2) is i times the Bell state (Nielsen & Chuang's |beta_00>, times i)
+    h = 1 / sympy.sqrt(2)
+    assert amplitudes("i(|00>+|11>)/sqrt(2)") == {(0, 0): sympy.I * h, (1, 1): sympy.I * h}
+    assert amplitudes("pi(|0>+|1>)") == {(0,): sympy.pi, (1,): sympy.pi}
+
+
+def test_parameter_and_bound_name_before_a_bracket_multiply():
+    t = sympy.Symbol("t", real=True)
+    assert amplitudes("t(|0>+|1>)", real="t") == {(0,): t, (1,): t}
+    session = ketsplit.Session()
+    session.run("c = 3")
+    assert session.run("psi = c(|0>+|1>)")[0].report.title == "psi ="
+    assert dict(session.bindings["psi"].amplitudes) == {(0,): 3, (1,): 3}
+    # a summation variable, too: sum(n=1..2, n(|n>)) = 1|1> + 2|2>
+    assert amplitudes("sum(n=1..2, n(|n>))") == {(1,): 1, (2,): 2}
+
+
+def test_functions_stay_functions():
+    t = sympy.Symbol("t", real=True)
+    assert amplitudes("cos(t)|0> + sin(t)|1>", real="t") == {(0,): sympy.cos(t), (1,): sympy.sin(t)}
+
+
+@pytest.mark.parametrize("prelude, text, fragment", [
+    ("psi = |0> + |1>", "psi(|0>)", "psi is a state, not a function"),
+    ("real t", "t(1, 2)|0>", "t is a number, not a function"),
+    ("", "i()|0>", "i is a number, not a function"),
+    ("", "foo(t)|0>", "unknown function 'foo'"),  # an unknown name is not silently a product
+])
+def test_names_before_a_bracket_that_cannot_multiply(prelude, text, fragment):
+    session = ketsplit.Session()
+    session.run(prelude)
+    with pytest.raises(InputError) as info:
+        session.run(text)
+    assert fragment in info.value.message and info.value.column == 1
+
+
+# -- hardening (issue 16) ----------------------------------------------------------------
+def test_confusable_letter_in_a_name_is_an_error():
+    # U+0455 CYRILLIC SMALL LETTER DZE looks like the Latin s (Unicode confusables.txt)
+    with pytest.raises(InputError) as info:
+        ketsplit.Session().run("ѕchmidt |00> + |11>")
+    assert "CYRILLIC SMALL LETTER DZE" in info.value.message and "confusable" in info.value.message
+    assert (info.value.line, info.value.column) == (1, 1)
+    with pytest.raises(InputError, match="FULLWIDTH"):  # NFKC folds it to an ASCII a
+        ketsplit.ket("ａ|0> + |1>")
+
+
+def test_greek_names_that_look_like_nothing_else_stay_names():
+    state = ketsplit.ket("cos(θ)|0> + sin(θ)|1>", real="θ")
+    assert [p.name for p in state.params] == ["θ"]
+
+
+def test_ket_function_arity_is_a_clear_message():
+    with pytest.raises(InputError) as info:
+        ketsplit.ket("dicke(1)")
+    assert info.value.message == "dicke takes 2 integer argument(s), dicke(n, k); found 1"
+    assert "dicke_ket" not in str(info.value)
+
+
+# -- the fast routes give the values of the slow ones ------------------------------------
+def test_gaussian_numbers_become_sympy_in_canonical_form():
+    from ketsplit.language.numbers import Gaussian, reduced, to_sympy
+    rng = random.Random(11)
+    for _ in range(500):
+        re, im, den = rng.randint(-30, 30), rng.randint(-30, 30), rng.randint(1, 12)
+        built = to_sympy(reduced(re, im, den))
+        evaluated = (sympy.Integer(re) + sympy.I * im) / den  # sympy's own arithmetic
+        assert built == evaluated and sympy.srepr(built) == sympy.srepr(evaluated)
+    assert to_sympy(Gaussian(0, -1)) == -sympy.I
+
+
+@pytest.mark.parametrize("text", [
+    "(2+7i)|01> - 3|10> + i|11> - (1 - 2 i) |00>",
+    "|0> + |1> - 7i|1>",                       # a repeated label: summed
+    "x|00> + 2|01> + (3-4i)|10>",              # a run after a term it does not cover
+    "(|00> + 2|11>)(|0> - i|1>)",              # runs inside brackets, then a product
+    "2|0>|1> + 3|10>",                         # not a run: a product of kets
+    "-(2+7i)|0> + 5|1>/2",                     # the last term binds tighter: left out of the run
+])
+def test_runs_of_plain_terms_build_the_values_of_the_tree(text):
+    from ketsplit.language.build import Builder, evaluate
+    session = ketsplit.Session()
+    fast, _ = evaluate(text, session)
+    slow = Builder(session, text).build(parse_expression(text))  # node by node, no runs
+    assert fast.terms == slow.terms and fast.nparts == slow.nparts
