@@ -6,18 +6,25 @@ say how to decide it.
 """
 
 import mpmath
+import pytest
 import sympy
 
 from ketsplit.arith.decide import Decided, compare, is_nonnegative, is_zero, sign
 from ketsplit.arith.ranges import value_range
 from ketsplit.exact.signs import drop_abs, sign_on_box
 
-mpmath.mp.dps = 80
 t = sympy.Symbol("t", real=True)
 s = sympy.Symbol("s", real=True)
 x = sympy.Symbol("x", positive=True)
 z = sympy.Symbol("z", complex=True)
 half_pi = sympy.pi / 2
+
+
+@pytest.fixture(autouse=True)
+def eighty_digits():
+    """mpmath at 80 digits for each test here (other modules set their own precision)."""
+    with mpmath.workdps(80):
+        yield
 
 
 def mp(value):
