@@ -22,6 +22,7 @@ from .cuts import Cut, reduced, side_dimension
 from .decomposition import Decomposition, decompose
 from .exact.signs import box_of, drop_abs
 from .language.errors import InputError
+from .planner import MAX_FIELD_DEGREE, field_degree_bound
 from .states import State, simplify_real
 
 UNITS = {"bits": sympy.log(2), "nats": sympy.Integer(1)}
@@ -113,12 +114,20 @@ def tidy(expr: sympy.Expr) -> sympy.Expr:
     expr = as_expr(expr)
     if expr.is_Rational or expr.has(sympy.Max, sympy.Min) or sympy.count_ops(expr) > MAX_TIDY_OPS:
         return expr
+    if expr.is_number and not _small_field(expr):  # simplify would compute minimal polynomials
+        return expr                                 # of degree 100 (cos(pi/202)) for minutes
     if expr.has(sympy.log):
         return _tidy_logs(expr)
     candidates = [expr, sympy.simplify(expr)]
     if expr.has(sympy.sin, sympy.cos):
         candidates.append(sympy.trigsimp(candidates[1]))
     return min(candidates, key=sympy.count_ops)
+
+
+def _small_field(value: sympy.Expr) -> bool:
+    """The constant lies in a number field of small degree (radicals, small roots of unity)."""
+    degree = field_degree_bound([value.replace(lambda e: isinstance(e, sympy.log), lambda e: e.args[0])])
+    return degree is not None and degree <= MAX_FIELD_DEGREE
 
 
 def _tidy_logs(expr: sympy.Expr) -> sympy.Expr:

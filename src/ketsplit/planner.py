@@ -42,6 +42,7 @@ METHODS = ("auto", "exact", "certified")
 MAX_CLOSED_DEGREE = 3     # irreducible factors up to this degree are solved in closed form
 MAX_ALGEBRAIC_SIDE = 4    # blocks with algebraic entries try closed forms up to this side
 MAX_PROBED_SIDE = 32      # Gaussian-rational blocks up to this side have their charpoly factored
+MAX_FIELD_DEGREE = 8      # algebraic amplitudes from number fields of larger degree go to numbers
 
 
 @dataclass(frozen=True)
@@ -84,8 +85,9 @@ def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
         if integers is None:
             if side <= MAX_ALGEBRAIC_SIDE and _algebraic(entries.values()):
                 continue
-            why = "transcendental numbers among the amplitudes" if side <= MAX_ALGEBRAIC_SIDE else \
-                f"a block of side {side} with algebraic amplitudes"
+            why = (f"a block of side {side} with algebraic amplitudes" if side > MAX_ALGEBRAIC_SIDE
+                   else "amplitudes that are transcendental or from a number field of degree over "
+                   f"{MAX_FIELD_DEGREE}")
             return Plan("certified", f"{why}: certified numbers")
         if side > MAX_PROBED_SIDE:
             return Plan("certified", f"a dense block of side {side}: certified numbers")
@@ -169,15 +171,48 @@ def irreducible_factors(real: flint.fmpz_mat, imag: flint.fmpz_mat) -> list[flin
 
 
 def _algebraic(values) -> bool:
-    """Every amplitude is an algebraic number (no pi, e, or transcendental function values)."""
-    for v in values:
-        if v.is_Rational:
-            continue
-        if v.has(sympy.pi, sympy.E, sympy.exp, sympy.log, sympy.sin, sympy.cos, sympy.tan,
-                 sympy.sinh, sympy.cosh, sympy.tanh, sympy.atan, sympy.acos, sympy.asin):
-            if not v.is_algebraic:
-                return False
-    return True
+    """Every amplitude lies in a number field of degree at most MAX_FIELD_DEGREE."""
+    degree = field_degree_bound(values)
+    return degree is not None and degree <= MAX_FIELD_DEGREE
 
 
-__all__ = ["Plan", "plan", "METHODS", "irreducible_factors"]
+def field_degree_bound(values) -> int | None:
+    """An upper bound of the degree of the number field holding ``values``; None if some
+    value may be transcendental.  Stops counting past MAX_FIELD_DEGREE.
+
+    The degree is bounded from the atoms alone, without computing a primitive
+    element: an n-th root of a rational adds a factor n, a root of unity or a
+    cosine or sine of a rational multiple of pi with denominator q a factor
+    phi(2q) (its field lies in the cyclotomic field of order 2q).  Anything
+    else (pi itself, e, exp(1), cos(1)) is treated as transcendental.
+    """
+    degree = 1
+    for atom in set().union(*(_atoms(v) for v in values)):
+        found = _atom_degree(atom)
+        if found is None:
+            return None
+        degree *= found
+        if degree > MAX_FIELD_DEGREE:
+            return degree
+    return degree
+
+
+def _atoms(value: sympy.Expr) -> set[sympy.Expr]:
+    """The irrational building blocks of a number: roots and function values."""
+    return {node for node in sympy.preorder_traversal(value)
+            if (node.is_Pow and not node.exp.is_Integer) or isinstance(node, sympy.Function)
+            or node in (sympy.pi, sympy.E)}
+
+
+def _atom_degree(atom: sympy.Expr) -> int | None:
+    """An upper bound of the degree of the field an atom generates, or None if not algebraic."""
+    if atom.is_Pow and atom.base.is_Rational and atom.exp.is_Rational:
+        return int(atom.exp.q)
+    if isinstance(atom, (sympy.cos, sympy.sin, sympy.exp)):
+        turn = atom.args[0] / (sympy.pi * (sympy.I if isinstance(atom, sympy.exp) else 1))
+        if turn.is_Rational:
+            return int(sympy.totient(2 * turn.q))
+    return None
+
+
+__all__ = ["Plan", "plan", "METHODS", "irreducible_factors", "field_degree_bound"]

@@ -15,7 +15,8 @@ from dataclasses import replace
 
 from ..exact.schmidt import nonzero_entries
 from ..numeric.enclose import enclose
-from ..numeric.schmidt import start_bits
+from ..numeric.digits import certain_count
+from ..numeric.schmidt import MAX_DOUBLINGS, start_bits
 from ..numeric.values import exact_cell
 from ..render.ketprint import text as language_text
 from .numeric import certified_report, complex_text
@@ -75,8 +76,19 @@ def _vector_cell(d: Decomposition, vector, side: str, digits: int):
     terms = d.vector_terms(vector, side)
     if not any(_long(a) for a, _ in terms):
         return Kets(tuple(terms))
+    return " + ".join(f"({_certified_entry(a, digits)})|{label}>" for a, label in terms)
+
+
+def _certified_entry(value: sympy.Expr, digits: int) -> str:
+    """An exact complex number by its certain digits, raising the precision as cancellation needs."""
     bits = start_bits(digits)
-    return " + ".join(f"({complex_text(enclose(a, bits), digits)})|{label}>" for a, label in terms)
+    for _ in range(MAX_DOUBLINGS + 1):
+        ball = enclose(value, bits)
+        if all(part.is_exact() and part.is_zero() or certain_count(part, digits) == digits
+               for part in (ball.real, ball.imag)):
+            break
+        bits *= 2
+    return complex_text(ball, digits)
 
 
 def descending_text(polynomial: sympy.Expr) -> str:
