@@ -223,14 +223,16 @@ def simple_pieces(found: NumberBlock, projector: Projector) -> list[Piece]:
     for part in projector.parts:
         row = DomainMatrix([[part[column][i]] for i in range(rows)], (rows, 1), found.field)
         images.append(found.matrix.transpose().matmul(row).to_list())
+    w_polys = [[images[j][k][0] for j in range(len(images))] for k in range(found.matrix.shape[1])]
+    # radicals are expanded; Viete and CRootOf forms are left whole (expand walks them for minutes)
+    neat = _readable if projector.factor.degree() <= 2 else (lambda v: v)
     pieces = []
     for value in solve_factor(projector.factor):
         norm = root(_at(found, norm2, value))
         sigma = root(value)
-        u = Vector([_at(found, p, value) for p in u_polys]) / norm
-        w = Vector([sympy.Add(*(found.expr(images[j][k][0]) * value ** j for j in range(len(images))))
-                    for k in range(found.matrix.shape[1])]) / (norm * sigma)
-        pieces.append((sigma, u.applyfunc(_readable), w.applyfunc(_readable)))
+        u = Vector([neat(_at(found, p, value) / norm) for p in u_polys])
+        w = Vector([neat(_at(found, p, value) / (norm * sigma)) for p in w_polys])
+        pieces.append((sigma, u, w))
     return pieces
 
 
