@@ -85,6 +85,8 @@ def test_check_compares_dicke_weights():
     assert "fails" in failed and "dicke(20, 3)" in failed
     assert "holds" in run("check dicke(20,10) ~ i dicke(20,10)")[0].text()
     assert "holds" in run("check a dicke(20,2) + b dicke(20,9) = b dicke(20,9) + a dicke(20,2)")[0].text()
+    assert "holds" in run("check a dicke(20,10) = 2 dicke(20,10) with a=2")[0].text()
+    assert "fails" in run("check a dicke(20,10) = 3 dicke(20,10) with a=2")[0].text()
 
 
 def test_check_of_a_dicke_state_against_ordinary_labels():

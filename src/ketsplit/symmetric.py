@@ -171,6 +171,14 @@ class SymmetricKet(KetValue):
     def coefficients(self):
         return self.weights.values()
 
+    @property
+    def free_symbols(self) -> set[sympy.Symbol]:
+        return set().union(*(as_expr(c).free_symbols for c in self.weights.values()))
+
+    def subs(self, table: Mapping) -> "SymmetricKet":
+        """The ket at a parameter point: its weights substituted."""
+        return SymmetricKet(self.nparts, {j: as_expr(c).subs(table) for j, c in self.weights.items()})
+
     def scaled(self, factor: sympy.Expr) -> "SymmetricKet":
         return SymmetricKet(self.nparts, {j: c * factor for j, c in self.weights.items()})
 

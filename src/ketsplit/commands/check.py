@@ -30,6 +30,7 @@ from ..language.tokens import KET_CHARS
 from ..render.ketprint import text
 from ..render.report import Field, Report
 from ..states import State
+from ..symmetric import SymmetricKet
 from .declarations import split_top_level
 from .registry import CommandCall, command
 
@@ -154,12 +155,16 @@ def _at_point(call: CommandCall, value):
         return value
     symbols = _symbols(value)
     table = {s: call.point[s.name] for s in symbols if s.name in call.point}
+    if isinstance(value, SymmetricKet):  # its Dicke weights, never its 2^n labels
+        return value.subs(table)
     if isinstance(value, KetValue):
         return KetValue({k: v.subs(table) for k, v in value.terms.items()}, value.nparts, value.dims)
     return value.subs(table)
 
 
 def _symbols(value) -> set[sympy.Symbol]:
+    if isinstance(value, SymmetricKet):
+        return value.free_symbols
     if isinstance(value, KetValue):
         found: set[sympy.Symbol] = set()
         for v in value.terms.values():
