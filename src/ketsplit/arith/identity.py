@@ -13,12 +13,13 @@
 
 ``False`` means "not shown", never "nonzero".  Size guards, decided from the
 expression (operation count, powers of sums), keep each step from running
-away: :class:`TooLarge` says which one declined.
+away (operations, and a bound on the terms an expansion could make; never the
+clock): :class:`TooLarge` says which one declined.
 """
 
 from __future__ import annotations
 
-from math import lcm
+from math import comb, lcm, prod
 
 import sympy
 
@@ -27,7 +28,7 @@ from ..exact.polyform import NoPolynomialForm, polynomial_form
 from ..states import Parameter, make_symbol
 
 MAX_OPS = 4000        # larger expressions are not rewritten
-MAX_POWER = 16        # (sum)^n with n above this is not expanded
+MAX_TERMS = 5000      # expressions whose expansion may have more terms are not expanded
 SMALL_CONSTANT = 40   # simplify / minimal_polynomial only for constants up to this many operations
 MAX_DEGREE = 32       # minimal polynomials only of constants of at most this degree (a bound)
 
@@ -168,9 +169,22 @@ def _zero_with_exponentials(expr: sympy.Expr) -> bool:
 
 
 def guard(expr: sympy.Expr) -> None:
-    """Raise TooLarge when rewriting ``expr`` could run away."""
+    """Raise TooLarge when rewriting ``expr`` could run away (decided from its shape)."""
     if sympy.count_ops(expr) > MAX_OPS:
         raise TooLarge(f"the expression has more than {MAX_OPS} operations")
-    for power in expr.atoms(sympy.Pow):
-        if power.base.is_Add and power.exp.is_Integer and abs(power.exp) > MAX_POWER:
-            raise TooLarge(f"a power above {MAX_POWER} of a sum would be expanded")
+    if expansion_terms(expr) > MAX_TERMS:
+        raise TooLarge(f"its expansion could have more than {MAX_TERMS} terms")
+
+
+def expansion_terms(expr: sympy.Expr) -> int:
+    """An upper bound on the number of terms of ``expand(expr)`` (functions count as one):
+    sums add, products multiply, a sum of k terms to the power n has at most
+    C(n + k - 1, k - 1) monomials; a negative power counts as its positive one."""
+    if expr.is_Add:
+        return sum(expansion_terms(a) for a in expr.args)
+    if expr.is_Mul:
+        return prod(expansion_terms(a) for a in expr.args)
+    if expr.is_Pow and expr.exp.is_Integer:
+        k, n = expansion_terms(expr.base), abs(int(expr.exp))
+        return comb(n + k - 1, k - 1) if k > 1 else 1
+    return 1

@@ -15,8 +15,11 @@ differences at a point.  The decision runs in this order:
 3. otherwise random exact points of the domain may refute (balls excluding
    zero), but never confirm: the verdict is undecided and says how to decide.
 
-The exact step gets at most ``Options.exact_seconds``; a timer interrupts a
-long sympy step, and the verdict is then undecided (never a guessed "holds").
+Which step decides is read from the expressions (their size, whether they
+are polynomial), never from the clock.  The time limits only stop runaway
+work: the exact step gets at most ``Options.exact_seconds``, the whole check
+``Options.budget``; a timer interrupts a long sympy step, and the verdict is
+then undecided and says so (never an answer of another kind).
 """
 
 from __future__ import annotations
@@ -44,6 +47,8 @@ from .verdict import DIFFERENCE, WHERE, Verdict
 SAMPLE_POINTS = 8             # random domain points tried for a counterexample
 MAX_PRECISION_FACTOR = 8      # escalation limit for an unclear point
 EXTRA_DIGITS = 10             # working digits above the requested ones
+STOPPED_HINT = ("give it more time (the 'budget' statement, or budget= in Python); a time "
+                "limit never changes the kind of answer")
 EXACT_VALUE_OPS = 200         # a counterexample's value is tried exactly up to this size
 BUDGET = 10.0                 # default seconds for one check
 EXACT_SHARE = 5.0             # default cap on the exact path's seconds (and at most half the budget)
@@ -101,6 +106,7 @@ class ExactOutcome:
     proved: bool
     story: str
     witness: Point | None = None    # where an entry is certainly nonzero ({} for constants)
+    stopped: bool = False           # the time limit stopped it (the answer is then undecided)
 
 
 def decide(difference: Difference, options: Options = Options()) -> Verdict:
@@ -111,14 +117,19 @@ def decide(difference: Difference, options: Options = Options()) -> Verdict:
     exact = _exact(difference, options, box_of_params(difference.params))
     if exact.proved:
         return Verdict(True, "exact", exact.story, domain, quantity=difference.quantity)
+    if exact.stopped:
+        return Verdict(None, "none", exact.story, domain, quantity=difference.quantity,
+                       hint=STOPPED_HINT)
     try:
         with time_budget(deadline - time.monotonic()):
             return _after_exact(difference, options, exact, domain)
     except NotEvaluable as why:
         reason = f"{exact.story}; and {why}"
     except OverBudget:
-        reason = f"{exact.story}; the search for a counterexample ran past the " \
-                 f"{options.budget:g} s budget"
+        reason = f"{exact.story}; the time limit stopped the search for a counterexample " \
+                 f"after {options.budget:g} s"
+        return Verdict(None, "none", reason, domain, quantity=difference.quantity,
+                       hint=STOPPED_HINT)
     return Verdict(None, "none", reason, domain, quantity=difference.quantity,
                    hint=_hint(difference))
 
@@ -129,7 +140,7 @@ def _exact(difference: Difference, options: Options, box: dict) -> ExactOutcome:
         return ExactOutcome(False, difference.exact_skipped)
     seconds = options.exact_seconds
     if seconds <= 0:
-        return ExactOutcome(False, "the exact path was skipped: no time for it")
+        return ExactOutcome(False, "the time limit left no time for the exact path", stopped=True)
     proofs: list[str] = []
     try:
         with time_budget(seconds):
@@ -142,7 +153,8 @@ def _exact(difference: Difference, options: Options, box: dict) -> ExactOutcome:
                     return ExactOutcome(False, f"the exact path did not decide: {found.proof}")
                 proofs.append(found.proof)
     except OverBudget:
-        return ExactOutcome(False, f"the exact path ran past its {seconds:g} s share of the budget")
+        return ExactOutcome(False, f"the time limit stopped the exact path after {seconds:g} s",
+                            stopped=True)
     pieces = " (piece by piece between the zeros of the |.| arguments)" \
         if any("piece" in p for p in proofs) else ""
     return ExactOutcome(True, f"every entry vanishes after exact rewriting{pieces}")
