@@ -78,14 +78,21 @@ def exact_box(box: Box | None) -> dict:
 def ball_at(expr: sympy.Expr, point: Point, bits: int) -> acb | None:
     """A ball holding the value of ``expr`` at the exact ``point``; None when it has no
     ball rule or is not finite there (a pole)."""
-    encloser = Encloser(bits)
     try:
-        for symbol, value in point.items():
-            encloser.memo[symbol] = encloser(as_expr(value))
-        ball = encloser(expr)
+        ball = point_encloser(point, bits)(expr)
     except (InputError, ZeroDivisionError, ValueError):
         return None
     return ball if ball.is_finite() else None
+
+
+def point_encloser(point: Point, bits: int) -> Encloser:
+    """An encloser whose symbols stand for the exact values of ``point``: expressions are
+    evaluated at the point without being rebuilt by substitution (sympy's automatic
+    evaluation of a substituted tree can be slow, or fail)."""
+    encloser = Encloser(bits)
+    for symbol, value in point.items():
+        encloser.memo[symbol] = encloser(as_expr(value))
+    return encloser
 
 
 def _excludes_zero(ball: acb) -> bool:

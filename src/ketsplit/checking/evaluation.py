@@ -12,8 +12,8 @@ from typing import Iterable, Mapping
 import flint
 import sympy
 
-from ..exact.coerce import as_expr
-from ..numeric.enclose import Encloser, NotEnclosable
+from ..arith.decide import point_encloser
+from ..numeric.enclose import NotEnclosable
 
 
 class NotEvaluable(ValueError):
@@ -22,16 +22,10 @@ class NotEvaluable(ValueError):
 
 def values_at(exprs: Iterable[sympy.Expr], point: Mapping[sympy.Symbol, sympy.Expr],
               bits: int) -> list[flint.acb]:
-    """Balls certain to hold each expression at ``point``, computed at ``bits`` bits.
-
-    The point's values enter the encloser's memo as the balls of its symbols,
-    so the expressions are never rebuilt by substitution (sympy's automatic
-    evaluation of a substituted tree can be slow, or fail).
-    """
-    encloser = Encloser(bits)
+    """Balls certain to hold each expression at ``point``, computed at ``bits`` bits
+    (through :func:`ketsplit.arith.decide.point_encloser`, sharing repeated pieces)."""
     try:
-        for symbol, value in point.items():
-            encloser.memo[symbol] = encloser(as_expr(value))
+        encloser = point_encloser(point, bits)
         return [encloser(expr) for expr in exprs]
     except NotEnclosable as why:
         raise NotEvaluable(why.message) from None
