@@ -93,13 +93,20 @@ def test_rank_seven_integer_state_of_side_eight():
 
 def test_pi_among_the_amplitudes_declines_with_a_typed_reason():
     # issue 11: NotAlgebraic.  A 3x3 block with pi has no closed form the exact route writes;
-    # it says so with NoClosedForm (the planner then certifies).  Its rank is 3: by hand,
-    # det = pi (15 - 1) - (5 - 1) + 2 (1 - 3) = 14 pi - 8 != 0.
+    # it says so with NoClosedForm (the planner then certifies).  Its rank is decided exactly
+    # over QQ(pi): by hand, det = pi (15 - 1) - (5 - 1) + 2 (1 - 3) = 14 pi - 8 != 0, rank 3.
     rows = [[pi, 1, 2], [1, 3, 1], [1, 1, 5]]
     with pytest.raises(NoClosedForm):
         schmidt(state_of(rows), CUT)
-    assert number_rank(sympy.Matrix(rows)) is None  # pi is not an algebraic number
-    assert len([v for v in mpmath_singular_values(rows) if v > 1e-30]) == 3
+    assert number_rank(sympy.Matrix(rows)) == 3
+
+
+def test_ranks_over_one_transcendental_constant_are_exact():
+    # by hand: (pi, 1) and (pi^2, pi) are proportional (rank 1), so are (e^40, 1), (e^80, e^40);
+    # pi with e is refused (their algebraic independence is an open problem, fact of the trade)
+    assert number_rank(sympy.Matrix([[pi, 1], [pi ** 2, pi]])) == 1
+    assert number_rank(sympy.Matrix([[exp(40), 1], [exp(80), exp(40)]])) == 1
+    assert number_rank(sympy.Matrix([[pi, sympy.E], [1, 1]])) is None
 
 
 def test_algebraic_quartic_factor_declines_with_a_typed_reason():

@@ -1,62 +1,51 @@
-"""Exact eigenvalues of Hermitian (reduced density) matrices.
+"""Exact eigenvalues of symbolic Hermitian (reduced density) matrices.
 
-The characteristic polynomial is taken in the exact domain (a DomainMatrix
-over ZZ, QQ, an algebraic field, or EX when symbolic) and factored first;
-each factor is then solved on its own.  Hermitian matrices have real
-eigenvalues, so an irreducible cubic is written in Viète's trigonometric form
-(real cosines of real arccosines), never with complex cube roots.  Factors of
-degree four and more with rational coefficients give exact CRootOf numbers.
+Blocks of numbers never come here: they are decomposed in their number field
+(:mod:`ketsplit.exact.numbers`), which also uses :func:`solve_factor`.  For a
+matrix with parameters the characteristic polynomial is factored over all its
+symbols first; each factor is then solved on its own.  Hermitian matrices
+have real eigenvalues, so an irreducible cubic is written in Viete's
+trigonometric form (real cosines of real arccosines), never with complex cube
+roots.  Factors of degree four and more with rational coefficients give exact
+CRootOf numbers.  Where the structure says there is no readable closed form
+(a characteristic polynomial too large to factor, a large cubic, a quartic
+with symbols) NoClosedForm is raised at once, before any long computation.
 """
 
 from __future__ import annotations
 
 import sympy
-from sympy.polys.matrices import DomainMatrix
 
 from .errors import NoClosedForm
 from .tidy import is_zero, tidy
 
 LAMBDA = sympy.Dummy("lambda")
-MAX_SYMBOLIC_CUBIC_OPS = 30  # larger cubic coefficients give unreadable (and slow) Viete forms
+MAX_SYMBOLIC_CUBIC_OPS = 30     # larger cubic coefficients give unreadable (and slow) Viete forms
+MAX_CHARPOLY_OPS = 3000         # larger symbolic characteristic polynomials are not factored
 
 
 def characteristic_polynomial(rho: sympy.Matrix) -> sympy.Poly:
-    """det(lambda I - rho) as a Poly in LAMBDA, computed in the exact domain."""
-    if not rho.free_symbols:
-        dm = DomainMatrix.from_Matrix(rho)
-        try:
-            from sympy.polys.constructor import construct_domain
-            domain, _ = construct_domain(list(rho), extension=True)
-            dm = dm.convert_to(domain)
-        except Exception:  # noqa: BLE001 - any failure leaves the EX domain, which is exact
-            pass
-        coeffs = dm.charpoly()
-        return sympy.Poly([dm.domain.to_sympy(c) for c in coeffs], LAMBDA)
+    """det(lambda I - rho) as a Poly in LAMBDA."""
     return sympy.Poly(rho.charpoly().as_expr(LAMBDA), LAMBDA)  # charpoly renames a Dummy
 
 
 def eigenvalues(rho: sympy.Matrix) -> list[tuple[sympy.Expr, int]]:
-    """(eigenvalue, multiplicity) pairs of a Hermitian matrix, exactly."""
+    """(eigenvalue, multiplicity) pairs of a symbolic Hermitian matrix, exactly."""
     poly = characteristic_polynomial(rho)
-    extension = _extension_of(poly)
+    size = sum(sympy.count_ops(c) for c in poly.all_coeffs())
+    if size > MAX_CHARPOLY_OPS:
+        raise NoClosedForm(f"the characteristic polynomial has {size} operations in its coefficients: "
+                           "too large for closed forms; substitute parameter values (with t=...)")
     # factor over every symbol: with LAMBDA alone as generator, sympy can return a
     # symbolic polynomial whole as the "content" and no factors at all
-    factored = sympy.factor_list(poly.as_expr(), extension=extension) if extension else \
-        sympy.factor_list(poly.as_expr())
     found: list[tuple[sympy.Expr, int]] = []
-    for factor, power in factored[1]:
+    for factor, power in sympy.factor_list(poly.as_expr())[1]:
         if factor.has(LAMBDA):
             found.extend((root, power) for root in solve_factor(sympy.Poly(factor, LAMBDA)))
     if sum(power for _, power in found) != poly.degree():
         raise NoClosedForm(f"the characteristic polynomial {poly.as_expr()} did not factor completely")
-    # distinct irreducible factors over a field share no root; only a symbolic
-    # factorisation (which may be incomplete) can repeat an eigenvalue
-    return merge_equal(found) if poly.free_symbols - {LAMBDA} else found
-
-
-def _extension_of(poly: sympy.Poly) -> list[sympy.Expr] | None:
-    algebraics = [c for c in poly.all_coeffs() if c.is_number and not c.is_Rational]
-    return algebraics or None
+    # a symbolic factorisation may be incomplete: equal eigenvalues from two factors are merged
+    return merge_equal(found)
 
 
 def solve_factor(factor: sympy.Poly) -> list[sympy.Expr]:

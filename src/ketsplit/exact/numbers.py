@@ -87,7 +87,8 @@ class NumberBlock:
 
     def expr(self, element) -> sympy.Expr:
         """An element of F as a readable sympy number (roots of unity as radicals)."""
-        return radical_form(self.field.to_sympy(element))
+        value = self.field.to_sympy(element)
+        return value if self.field.is_QQ or self.field.is_QQ_I else radical_form(value)
 
 
 def number_block(block: sympy.Matrix) -> NumberBlock | None:
@@ -137,9 +138,38 @@ def radical_form(value: sympy.Expr) -> sympy.Expr:
 
 
 def number_rank(block: sympy.Matrix) -> int | None:
-    """The exact rank of a block of algebraic numbers; None for other entries."""
+    """The exact rank of a block of numbers; None when no exact domain decides it.
+
+    Algebraic numbers: the rank over their number field.  Otherwise, numbers
+    polynomial in ONE transcendental constant (pi, or exp of a nonzero
+    rational, Lindemann's theorem): the rank over QQ(pi), treating pi as a
+    variable, which is exact because pi satisfies no polynomial equation.  Two
+    such constants (pi and e) are refused: their algebraic independence is not
+    known, so a polynomial identity between them cannot be ruled out.
+    """
+    if block.free_symbols:
+        return None
     found = number_block(block)
-    return None if found is None else found.matrix.rank()
+    if found is not None:
+        return found.matrix.rank()
+    try:
+        domain, elements = construct_domain(list(block))
+    except (BasePolynomialError, CoercionFailed, NotImplementedError, ValueError):
+        return None
+    if not (domain.is_PolynomialRing or domain.is_FractionField) or len(domain.symbols) != 1 \
+            or not _transcendental(domain.symbols[0]) or not domain.domain.is_Exact or domain.domain.is_EX:
+        return None
+    field = domain.get_field()
+    rows, cols = block.shape
+    entries = [field.convert_from(e, domain) for e in elements]
+    return DomainMatrix([entries[r * cols:(r + 1) * cols] for r in range(rows)], (rows, cols), field).rank()
+
+
+def _transcendental(generator: sympy.Expr) -> bool:
+    """pi, e, and exp(q) for rational q != 0 (Lindemann)."""
+    if generator is sympy.pi or generator is sympy.E:
+        return True
+    return isinstance(generator, sympy.exp) and generator.args[0].is_Rational and generator.args[0] != 0
 
 
 def number_pieces(found: NumberBlock) -> list[Piece]:

@@ -214,7 +214,7 @@ def embed(vector: Vector, positions: list[int], size: int) -> Vector:
     """The block's vector placed in the whole side space (sparse when that space is large)."""
     entries = {(p, 0): vector[k] for k, p in enumerate(positions) if vector[k] != 0}
     if size > DENSE_VECTOR_SIZE:
-        return sympy.SparseMatrix(size, 1, entries)
+        return sympy.SparseMatrix._new(size, 1, entries)
     full = sympy.zeros(size, 1)
     for (p, _), value in entries.items():
         full[p] = value
