@@ -9,6 +9,8 @@ from ..render.report import Field, Report
 from ..session import Session
 from ..sheets.atomic import refuse_read_only
 from ..sheets.format import EXTENSION, MAGIC, SheetError, read_sheet
+from ..sheets.header import ceiling_for
+from ..sheets.reading import read_bounded
 from ..sheets.runner import Outcome, differences, replay, save, sheet_of_worklog
 from .registry import CommandCall, command
 
@@ -61,11 +63,13 @@ def run_save(call: CommandCall) -> Report:
 
 
 def is_worksheet(path: Path) -> bool:
-    """Does the file start with the worksheet format line (so that replacing it loses nothing)?"""
+    """Is it a plain file that starts with the worksheet format line (so that replacing it
+    loses nothing)?  A device, a FIFO or a socket is not, and is never opened here."""
     try:
-        with path.open("rb") as handle:
-            return handle.read(len(MAGIC)) == MAGIC.encode()
-    except OSError:
+        if not path.is_file():
+            return False
+        return read_bounded(path, len(MAGIC)) == MAGIC.encode()
+    except (OSError, SheetError):
         return False
 
 
@@ -73,11 +77,12 @@ def is_worksheet(path: Path) -> bool:
          "open photon-pair.kss", topic="worksheets")
 def run_open(call: CommandCall) -> Report:
     path = sheet_path(call)
+    ceiling = ceiling_for(call.session.settings)  # the worksheet may not ask for more
     try:
-        sheet = read_sheet(path)
+        sheet = read_sheet(path, ceiling)
     except SheetError as err:
-        raise call.error(f"{err}", *argument_place(call)) from None
-    fresh, outcomes = replay(sheet)
+        raise call.error(err.message, *argument_place(call)) from None
+    fresh, outcomes = replay(sheet, ceiling=ceiling)
     changed = differences(outcomes, fresh) if sheet.format is not None else []
     adopt(call.session, fresh)
     items = tuple(item for o in outcomes for item in replayed_items(o))

@@ -10,13 +10,25 @@ A target that cannot be written (read-only file or directory, full disk,
 missing directory) is a :class:`WriteError`: an InputError with a sentence a
 person can act on, and also an OSError (``strerror`` holds the short reason),
 so that callers catching OSError keep working.
+
+A target that is a symbolic link is written through: the file it points to
+gets the new text and the link stays a link (a link to nothing, or a loop of
+links, is refused, saying so).  A process killed between writing aside and
+the rename leaves its temporary file behind; the next save beside the same
+target removes such files, and only those that are provably litter of ours:
+named with our marker, this machine's tag and the id of a process that no
+longer runs, a plain file owned by this user (see :func:`sweep`).
 """
 
 from __future__ import annotations
 
 import contextlib
 import errno
+import hashlib
 import os
+import re
+import socket
+import stat
 import tempfile
 from pathlib import Path
 
@@ -32,13 +44,21 @@ class WriteError(InputError, OSError):
         self.errno, self.strerror, self.filename = code, reason, str(path)
 
 
+MARK = "ketsplit"  # in the name of every temporary file we write aside
+HOST = hashlib.sha256(socket.gethostname().encode()).hexdigest()[:8]  # this machine's tag
+SUFFIX = ".part"
+NAME_KEPT = 100  # characters of the target's name kept in a temporary file's name
+
+
 def write_atomic(path: str | Path, text: str) -> None:
-    """Write ``text`` (UTF-8) to ``path`` atomically; WriteError when it cannot be written."""
-    target = Path(path)
+    """Write ``text`` (UTF-8) to ``path`` atomically; WriteError when it cannot be written.
+    A symbolic link is written through (the file it points to is replaced)."""
+    target = through_links(Path(path))
     refuse_read_only(target)
+    sweep(target)
     try:
-        handle, temporary = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".part",
-                                             dir=target.parent)
+        handle, temporary = tempfile.mkstemp(prefix=f"{litter_stem(target)}{os.getpid()}-",
+                                             suffix=SUFFIX, dir=target.parent)
     except OSError as err:
         raise WriteError(target, reason(err, target), err.errno) from None
     try:
@@ -55,6 +75,58 @@ def write_atomic(path: str | Path, text: str) -> None:
             raise WriteError(target, reason(err, target), err.errno) from None
         raise
     sync_directory(target.parent)
+
+
+def through_links(path: Path) -> Path:
+    """The file a symbolic link points to (following a chain of them); the path itself
+    when it is no link.  WriteError for a link to nothing or a loop of links."""
+    try:
+        if "\x00" in str(path) or not path.is_symlink():
+            return path
+        return path.resolve(strict=True)
+    except FileNotFoundError:
+        raise WriteError(path, f"it is a symbolic link to {os.readlink(path)}, which does not "
+                               "exist; save to that file by its own name, or remove the link",
+                         errno.ENOENT) from None
+    except (OSError, RuntimeError) as err:  # a loop of links, a name too long, ...
+        raise WriteError(path, f"it is a symbolic link that cannot be followed "
+                               f"({getattr(err, 'strerror', None) or err})", errno.ELOOP) from None
+
+
+def litter_stem(target: Path) -> str:
+    """How the names of our temporary files beside ``target`` start (the pid comes next)."""
+    return f".{target.name[:NAME_KEPT]}.{MARK}-{HOST}-"
+
+
+def sweep(target: Path) -> None:
+    """Remove temporary files that an interrupted save beside ``target`` left behind:
+    those named as ours (the target's name, our marker and this machine's tag) by a
+    process that no longer runs, plain files owned by this user.  Nothing else is touched."""
+    pattern = re.compile(re.escape(litter_stem(target)) + r"(\d+)-[a-z0-9_]{8}" + re.escape(SUFFIX))
+    with contextlib.suppress(OSError):
+        with os.scandir(target.parent) as entries:
+            for entry in entries:
+                found = pattern.fullmatch(entry.name)
+                if found and is_our_litter(entry, int(found.group(1))):
+                    with contextlib.suppress(OSError):
+                        os.unlink(entry.path)
+
+
+def is_our_litter(entry: os.DirEntry, pid: int) -> bool:
+    info = entry.stat(follow_symlinks=False)
+    return (stat.S_ISREG(info.st_mode) and info.st_uid == os.getuid() and pid != os.getpid()
+            and not running(pid))
+
+
+def running(pid: int) -> bool:
+    """Does a process with this id run now (on this machine)?"""
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except OSError:  # it exists, but belongs to someone else
+        return True
+    return True
 
 
 def refuse_read_only(target: Path) -> None:

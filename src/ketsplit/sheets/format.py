@@ -17,6 +17,11 @@ Recorded results are never executed: to the language they are comments.  A
 typed comment that itself starts with a marker is written with a space after
 its ``#`` so that it stays a comment.  The end line lets a reader tell a
 truncated file from a whole one.
+
+A worksheet may come from a stranger.  Reading it is bounded (.reading: bytes,
+lines, time); its header may set only known settings to allowed values, never
+above the reader's (.header); control characters are written and read as
+visible escapes (.visible), and a line that held one is reported as damage.
 """
 
 from __future__ import annotations
@@ -25,7 +30,10 @@ import re
 from dataclasses import dataclass, fields, replace
 from pathlib import Path
 
-from ..session import MAX_DIGITS, MIN_DIGITS, Settings
+from ..session import Settings
+from .header import read_settings
+from .reading import SheetError, read_bounded
+from .visible import described, has_controls, visible
 
 FORMAT = 1
 MAGIC = "#! ketsplit worksheet"
@@ -34,11 +42,7 @@ MARKERS = (DIRECTIVE, FIRST, MORE)
 END = re.compile(r"#! end: (\d+) lines?$")
 HEADER = re.compile(r"#! ([a-z][a-z ]*): (.*)$")
 EXTENSION = ".kss"
-MAX_BYTES = 64 << 20  # a worksheet is typed text; anything larger is refused unread
-
-
-class SheetError(Exception):
-    """A file that cannot be read as a worksheet at all (nothing is loaded)."""
+MAX_LINES = 200_000  # a worksheet is typed text; a file of more lines is refused unparsed
 
 
 @dataclass(frozen=True)
@@ -97,9 +101,9 @@ def format_sheet(sheet: Sheet, version: str, date: str) -> str:
     out += [f"#! {key}: {value}" for key, value in settings_header(sheet.settings)]
     out.append(f"#! saved: {date}")
     for entry in sheet.lines:
-        out.append(protect(entry.source))
+        out.append(visible(protect(entry.source)))
         for record in entry.records:
-            lines = [line.rstrip() for line in record.lines] or [""]
+            lines = [visible(line).rstrip() for line in record.lines] or [""]
             out.append(f"{FIRST} {lines[0]}".rstrip())
             out.extend(f"{MORE} {line}".rstrip() for line in lines[1:])
     out.append(f"#! end: {len(sheet.lines)} lines")
@@ -117,44 +121,46 @@ def protect(source: str) -> str:
 
 # -- reading -----------------------------------------------------------------
 
-def read_sheet(path: str | Path) -> Sheet:
-    """Read a worksheet; SheetError when the file is not one at all."""
-    try:
-        size = Path(path).stat().st_size
-        if size > MAX_BYTES:
-            raise SheetError(f"{path} holds {size} bytes, more than a worksheet may "
-                             f"({MAX_BYTES}); it was not read")
-        data = Path(path).read_bytes()
-    except OSError as err:
-        raise SheetError(f"cannot read {path}: {err.strerror or err}") from None
-    except ValueError:  # a NUL byte in the name
-        raise SheetError(f"cannot read {path!r}: a file name cannot hold a NUL character") from None
-    return parse_sheet(data, str(path))
+def read_sheet(path: str | Path, ceiling: Settings = Settings()) -> Sheet:
+    """Read a worksheet; SheetError when the file is not one at all, or when its header
+    asks for settings outside their allowed sets or above ``ceiling`` (see .header)."""
+    return parse_sheet(read_bounded(path), visible(str(path)), ceiling)
 
 
-def parse_sheet(data: bytes, name: str = "the worksheet") -> Sheet:
+def parse_sheet(data: bytes, name: str = "the worksheet", ceiling: Settings = Settings()) -> Sheet:
     """Parse worksheet bytes, loading what can be loaded and listing what is damaged."""
     if b"\0" in data:
         raise SheetError(f"{name} is a binary file, not a worksheet (a worksheet is UTF-8 text)")
+    if data.count(b"\n") >= MAX_LINES:
+        raise SheetError(f"{name} has more than {MAX_LINES} lines, more than a worksheet may; "
+                         "it was not read")
     texts, problems = decode_lines(data.removeprefix(b"\xef\xbb\xbf"))
     fmt, body_start = read_format(texts, name)
     reader = BodyReader(problems)
     for number, text in texts[body_start:]:
         reader.feed(number, text)
     reader.finish(fmt, texts[-1][0] + 1 if texts else 1)
-    settings, header_problems = read_settings(reader.header, reader.header_at)
+    settings = read_settings(reader.header, reader.header_lines, name, ceiling)
     return Sheet(tuple(reader.lines), settings, tuple(reader.header), fmt,
-                 tuple(sorted(reader.problems + header_problems, key=lambda p: p.line)))
+                 tuple(sorted(reader.problems, key=lambda p: p.line)))
 
 
 def decode_lines(data: bytes) -> tuple[list[tuple[int, str]], list[Problem]]:
-    """(line number, text) for each line that is valid UTF-8; the others are problems."""
+    """(line number, text) for each line that is valid UTF-8 (control characters written
+    as visible escapes); the others, and lines that held control characters, are problems."""
     texts, problems = [], []
     for number, raw in enumerate(data.splitlines(), start=1):
         try:
-            texts.append((number, raw.decode("utf-8")))
+            text = raw.decode("utf-8")
         except UnicodeDecodeError:
             problems.append(Problem(number, "not UTF-8 text; the line was skipped"))
+            continue
+        if has_controls(text):
+            first = next(ch for ch in text if has_controls(ch))
+            problems.append(Problem(number, f"holds control characters such as {described(first)}; "
+                                            "they are shown escaped, never sent to the terminal"))
+            text = visible(text)
+        texts.append((number, text))
     return texts, problems
 
 
@@ -179,7 +185,7 @@ class BodyReader:
     def __init__(self, problems: list[Problem]):
         self.problems = problems
         self.header: list[tuple[str, str]] = []
-        self.header_at: dict[str, int] = {}  # the file line of each header key
+        self.header_lines: list[int] = []  # the file line of each header value
         self.lines: list[SheetLine] = []
         self.open: list[str] | None = None  # the record being read
         self.end: tuple[int, int] | None = None  # (file line, line count it declares)
@@ -224,7 +230,7 @@ class BodyReader:
             self.end = (number, int(end.group(1)))
         elif header and not self.lines:
             self.header.append((header.group(1), header.group(2).strip()))
-            self.header_at[header.group(1)] = number
+            self.header_lines.append(number)
         else:
             self.problems.append(Problem(number, f"not a worksheet line: {text.strip()!r}; "
                                                  "it was skipped"))
@@ -240,25 +246,3 @@ class BodyReader:
         elif self.end[1] >= 0 and self.end[1] != len(self.lines):
             self.problems.append(Problem(self.end[0], f"the end line counts {self.end[1]} lines "
                                          f"but {len(self.lines)} were found"))
-
-
-def read_settings(header: list[tuple[str, str]], at: dict[str, int]
-                  ) -> tuple[Settings, list[Problem]]:
-    """Settings from the header values; a bad value keeps the default and is reported."""
-    settings, problems = Settings(), []
-    for f in fields(Settings):
-        key = f.name.replace("_", " ")
-        written = dict(header).get(key)
-        if written is None:
-            continue
-        kind = type(getattr(settings, f.name))
-        try:
-            settings = replace(settings, **{f.name: kind(written)})
-        except ValueError:
-            problems.append(Problem(at[key], f"header value {key}: {written!r} is not a "
-                                             f"{kind.__name__}; the default was used"))
-    if not MIN_DIGITS <= settings.digits <= MAX_DIGITS:
-        problems.append(Problem(at["digits"], f"header value digits: {settings.digits} is outside "
-                                f"{MIN_DIGITS}..{MAX_DIGITS}; the default was used"))
-        settings = replace(settings, digits=Settings().digits)
-    return settings, problems

@@ -5,10 +5,14 @@ Lines that read the same agree.  Otherwise the two lines are cut into cells
 
 - the text outside their decimal numbers (those with a point or an exponent;
   whole numbers such as a rank compare exactly) is the same and each pair of
-  decimals agrees to the digits printed: a certified decimal with last place u
-  is the correctly rounded value of a number within u/2 of it
-  (:mod:`ketsplit.numeric.digits`), so two of them agree when they lie within
-  half the sum of their last places (compared in exact rationals); or
+  decimals is the same where both are certain: a certified decimal D with
+  last place u is the correctly rounded value of a number strictly inside
+  (D - u/2, D + u/2) (:mod:`ketsplit.numeric.digits`).  Two decimals with the
+  same last place must therefore be equal, digit for digit (0.96 and 0.97 are
+  a difference, whatever the engine's precision); two with different last
+  places (a later version certifying more digits) agree when their rounding
+  cells overlap, so that one number can be both (compared in exact
+  rationals); or
 - both read, in the state language, as exact values whose difference
   simplifies to zero (the ``equal`` callback decides; it must say False when
   it cannot prove equality).
@@ -73,12 +77,18 @@ def skeleton(text: str, found: list[re.Match[str]]) -> str:
 
 
 def decimals_agree(recorded: str, fresh: str) -> bool:
-    """Same text around the decimals, and each pair of decimals equal to the digits shown."""
+    """Same text around the decimals, and each pair of decimals the same where both are certain."""
     old, new = decimals(recorded), decimals(fresh)
     if not old or len(old) != len(new) or skeleton(recorded, old) != skeleton(fresh, new):
         return False
-    return all(2 * abs(value(a) - value(b)) <= last_place(a) + last_place(b)
-               for a, b in zip(old, new))
+    return all(same_where_certain(a, b) for a, b in zip(old, new))
+
+
+def same_where_certain(a: re.Match[str], b: re.Match[str]) -> bool:
+    """Equal when printed to the same place; otherwise their open rounding cells overlap."""
+    if last_place(a) == last_place(b):
+        return value(a) == value(b)
+    return 2 * abs(value(a) - value(b)) < last_place(a) + last_place(b)
 
 
 def value(match: re.Match[str]) -> Fraction:

@@ -1,9 +1,15 @@
 """Run a worksheet through a Session, compare with what it recorded, re-record it.
 
 Only computations run: a worksheet line that would act on files (``save``,
-``open``, an option ``--to FILE``) or raise the process-wide resource limits
-is refused, so replaying a stranger's worksheet reads and writes nothing and
-stays inside the limits the reader chose.
+``open``, an option ``--to FILE``), change the process-wide resource limits,
+or raise the precision or a budget above the reader's ceiling (see
+:mod:`.header`) is refused, so replaying a stranger's worksheet reads and
+writes nothing and stays inside the limits the reader chose.
+
+Recorded results come from the file too: reading them back as values, and
+proving them equal to this run's, happens under the statement time limit,
+line by line; a recorded value that cannot be read or proved equal in that
+time is a difference, never a pass.
 """
 
 from __future__ import annotations
@@ -11,22 +17,23 @@ from __future__ import annotations
 import dataclasses
 import datetime
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 
 import sympy
 
-from .. import __version__
+from .. import __version__, limits
+from ..arith import decide
 from ..language.build import KetValue
 from ..language.errors import InputError, Span
-from ..session import UNRECORDED, Entry, Result, Session, split_statements
-from ..timebudget import alarm
+from ..session import UNRECORDED, Entry, Result, Session, Settings, split_statements
+from ..timebudget import time_limited
 from .format import Record, Sheet, SheetLine, format_sheet
+from .header import raised
 from .matching import first_difference
+from .visible import visible
 
 FILE_OPTION = re.compile(r"\s--to\s")  # the option by which a statement names a file to write
-# Recorded results come from the file: proving two of them equal gets a bounded time.
-SIMPLIFY_SECONDS = 10.0
 
 
 @dataclass(frozen=True)
@@ -57,15 +64,19 @@ class Difference:
     recorded: tuple[Record, ...]
     fresh: tuple[Record, ...]
     first: int = 0  # where the two first part, in flat(): that line is marked '≠' when shown
+    reason: str = ""  # why the comparison itself stopped, when it did
 
     def describe(self) -> str:
+        """The difference as text; what came from the file is shown with control characters
+        escaped (see .visible), so that a recorded line cannot drive the terminal."""
         def block(records: tuple[Record, ...]) -> str:
             lines = [line for r in records for line in r.lines] or ["(nothing)"]
             mark = result_line(records, self.first)
-            return "\n".join(("  ≠ " if k == mark else "    ") + line
+            return "\n".join(("  ≠ " if k == mark else "    ") + visible(line)
                              for k, line in enumerate(lines))
-        return (f"line {self.line}: {self.source.strip()}\n  recorded:\n{block(self.recorded)}"
-                f"\n  now:\n{block(self.fresh)}")
+        why = f"\n  {visible(self.reason)}" if self.reason else ""
+        return (f"line {self.line}: {visible(self.source.strip())}{why}\n  recorded:\n"
+                f"{block(self.recorded)}\n  now:\n{block(self.fresh)}")
 
 
 def record_of(result: Result) -> Record:
@@ -79,10 +90,36 @@ def error_record(err: InputError) -> Record:
     return Record((f"error: {where}{err.message}", *caret))
 
 
-def replay(sheet: Sheet, files: bool = False) -> tuple[Session, list[Outcome]]:
-    """Run every line of the sheet in order in a fresh session; ``save`` and ``open``
-    run only when ``files`` allows them (statements typed by the user, not a file)."""
-    session = Session(settings=sheet.settings)
+@dataclass
+class SheetSession(Session):
+    """The session a worksheet from a file replays in: a statement that would raise the
+    precision or a budget above ``ceiling`` is refused and the settings stay as they were."""
+
+    ceiling: Settings = field(default_factory=Settings)
+
+    def execute(self, statement: str, line: int = 1) -> Result:
+        before = self.settings
+        result = super().execute(statement, line)
+        over = raised(self.settings, self.ceiling)
+        if over:
+            self.settings = before
+            indent = len(statement) - len(statement.lstrip())
+            limit = ", ".join(f"{name} {getattr(self.ceiling, name.replace(' ', '_')):g}"
+                              for name in over)
+            raise InputError(f"a worksheet cannot raise {' or '.join(over)} above the reader's "
+                             f"settings ({limit}); to allow it, set it in the shell first and "
+                             "open the worksheet there", Span(line, indent + 1,
+                                                              len(statement.strip())), statement)
+        return result
+
+
+def replay(sheet: Sheet, files: bool = False, ceiling: Settings = Settings()
+           ) -> tuple[Session, list[Outcome]]:
+    """Run every line of the sheet in order in a fresh session.  Statements typed by the
+    user (``files``) may save, open and change any setting; lines from a file may not
+    touch files nor raise a setting above ``ceiling`` (see .header.ceiling_for)."""
+    session = (Session(settings=sheet.settings) if files
+               else SheetSession(settings=sheet.settings, ceiling=ceiling))
     return session, [run_line(session, entry, files) for entry in sheet.lines]
 
 
@@ -130,11 +167,30 @@ def differences(outcomes: list[Outcome], session: Session) -> list[Difference]:
         recorded, fresh = outcome.entry.records, outcome.records
         if not outcome.runs and not recorded:
             continue
-        first = first_difference(flat(recorded), flat(fresh), equal)
-        if first is not None:
-            found.append(Difference(outcome.entry.line, outcome.entry.source, recorded, fresh,
-                                    first))
+        difference = compared(outcome.entry, fresh, equal)
+        if difference is not None:
+            found.append(difference)
     return found
+
+
+def compared(entry: SheetLine, fresh: tuple[Record, ...], equal: ValueEquality
+             ) -> Difference | None:
+    """The line's difference, if any; the comparison runs under the statement time limit
+    (it reads values from the file), and a comparison stopped by it is a difference."""
+    try:
+        with time_limited(limits.current().seconds, TimeUp):
+            first = first_difference(flat(entry.records), flat(fresh), equal)
+    except TimeUp:
+        return Difference(entry.line, entry.source, entry.records, fresh, 0,
+                          "the recorded values could not be compared with this run's within "
+                          f"{limits.how_to_change('seconds')}")
+    if first is None:
+        return None
+    return Difference(entry.line, entry.source, entry.records, fresh, first)
+
+
+class TimeUp(Exception):
+    """Comparing one line's recorded values ran past the statement time limit."""
 
 
 BETWEEN = "\0"  # stands between two results of one line, so that none can merge with the next
@@ -154,17 +210,20 @@ class ValueEquality:
 
     The texts are read with the state language in a scratch session that knows
     the worksheet's parameters (so symbols carry the same assumptions) and no
-    bound names."""
+    bound names; equality is proved by the decision layer over the declared
+    ranges.  A cell that cannot be read, or whose equality is not proved (or
+    whose reading fails in any way: it comes from the file), is not equal."""
 
     def __init__(self, session: Session):
         self.scratch = Session(params=dict(session.params), space=session.space)
+        self.box = {p.symbol: p.range for p in session.params.values()
+                    if p.is_real and p.range is not None}
 
     def __call__(self, recorded: str, fresh: str) -> bool:
         try:
-            a, b = self.read(recorded), self.read(fresh)
-        except InputError:
+            return same_value(self.read(recorded), self.read(fresh), self.box)
+        except Exception:  # a cell from the file that cannot be read is not proved equal
             return False
-        return same_value(a, b)
 
     def read(self, text: str):
         text = text.strip()
@@ -173,32 +232,22 @@ class ValueEquality:
         return self.scratch.evaluate(text)
 
 
-def same_value(a, b) -> bool:
+def same_value(a, b, box: dict) -> bool:
+    zero = sympy.S.Zero
     if isinstance(a, KetValue) and isinstance(b, KetValue):
         labels = set(a.terms) | set(b.terms)
-        zero = sympy.S.Zero
         return a.nparts == b.nparts and all(
-            is_zero(a.terms.get(k, zero) - b.terms.get(k, zero)) for k in labels)
+            proved_zero(a.terms.get(k, zero) - b.terms.get(k, zero), box) for k in labels)
     if isinstance(a, sympy.MatrixBase) and isinstance(b, sympy.MatrixBase):
-        return a.shape == b.shape and all(is_zero(x - y) for x, y in zip(a, b))
+        return a.shape == b.shape and all(proved_zero(x - y, box) for x, y in zip(a, b))
     if isinstance(a, sympy.Expr) and isinstance(b, sympy.Expr):
-        return is_zero(a - b)
+        return proved_zero(a - b, box)
     return False
 
 
-class Undecided(BaseException):
-    """Simplification ran past its budget (a BaseException, so that sympy cannot swallow it)."""
-
-
-def is_zero(expr: sympy.Expr) -> bool:
-    """Proved zero within SIMPLIFY_SECONDS (False when sympy cannot decide in time)."""
-    if expr == 0:
-        return True
-    try:
-        with alarm(SIMPLIFY_SECONDS, Undecided):
-            return sympy.simplify(expr) == 0
-    except Undecided:
-        return False
+def proved_zero(expr: sympy.Expr, box: dict) -> bool:
+    """True only when the decision layer proves ``expr`` zero (on the declared ranges)."""
+    return expr == 0 or decide.is_zero(expr, box).value is True
 
 
 # -- sheets from sessions and outcomes -----------------------------------------
