@@ -64,10 +64,11 @@ class Spectrum:
     small: tuple[int, ...]
     large: tuple[int, ...]
     bits: int
+    flipped: bool
 
     @cached_property
     def pairs(self) -> tuple[tuple[SchmidtVector, SchmidtVector] | None, ...]:
-        """Per position (ascending): the (smaller side, larger side) vectors, or None.
+        """Per position (ascending): the (left, right) vectors, or None.
 
         The larger side's vector is w = B^T conj(u) / s.  For the cluster's
         basis column x (within eps of u) it is taken as z / m with
@@ -100,7 +101,7 @@ class Spectrum:
         small = SchmidtVector(self.small, tuple(xr[:, k]), tuple(xi[:, k]), -found.bits, Ball.of(eps))
         large = SchmidtVector(self.large, tuple(images[0][:, k]), tuple(images[1][:, k]),
                               -found.bits - exp, Ball.of(radius), man)
-        return small, large
+        return (large, small) if self.flipped else (small, large)
 
     def _images(self):
         """Bint^T conj(X) (scale 2^-bits), columns in ascending order, as Python integers."""
@@ -160,7 +161,7 @@ class Block:
             found = single(gram, eta) if self.side == 1 else eigen(gram, eta, ball.bits)
             squares = tuple(nonnegative(v) * fixed.scale ** 2 for v in found.values)
             weight = size ** 2 * fixed.scale ** 2 if fixed.eta == 0 else self.weight(ball)
-        return Spectrum(squares, weight, found, fixed, *self.vector_rows(), ball.bits)
+        return Spectrum(squares, weight, found, fixed, *self.vector_rows(), ball.bits, self.flipped)
 
     def fixed(self, ball: Encloser) -> Fixed:
         """The block as Gaussian integers times a scale, exactly when it can be."""

@@ -8,11 +8,14 @@ any rounding and the certificate needs no rounding-error analysis.
 
 1. **Start**: numpy's float64 ``eigh`` of A0.
 2. **Refine** (Ogita & Aishima, Japan J. Indust. Appl. Math. 35 (2018)
-   1007-1035, with the Rayleigh-Ritz step of their part II, 36 (2019)
-   435-459, for clusters): from exact R = I - X^H X and S = X^H A0 X, a
-   correction E is computed in float64 (it only needs relative accuracy)
-   and X <- X + X E.  Each step about doubles the correct bits, so the fixed
+   1007-1035): from exact R = I - X^H X and S = X^H A0 X, a correction E
+   is computed in float64 (it only needs relative accuracy) and
+   X <- X + X E.  Each step about doubles the correct bits, so the fixed
    point grows with it (53, ~110, ... bits, then the working precision).
+   Eigenvalues closer than a step can tell apart form a cluster; a
+   Rayleigh-Ritz rotation (their part II) splits it when its spread stands
+   out of the noise, and a truly repeated eigenvalue is left as a cluster,
+   whose subspace the certificate encloses.
 3. **Certify**, once, at the working precision, from the exact G = X^H X and
    Y = A0 X, with d_k the Rayleigh quotients (any real numbers would do):
 
@@ -166,7 +169,8 @@ def eigen(a: IntMatrix, eta: arb, bits: int) -> Eigen:
     """Certified eigenpairs of the Hermitian A0 + F (||F|| <= eta), about ``bits`` bits."""
     import numpy
     n = a.shape[0]
-    af = a.floats(0)
+    shift = max(0, max(abs(int(v)) for m in (a.re, a.im) for v in m.entries()).bit_length() - 60)
+    af = a.floats(shift)  # A0 2^-shift: entries below 2^60, whatever the size of A0
     scale = float(numpy.max(numpy.abs(af))) or 1.0
     _, xf = numpy.linalg.eigh(af / scale)
     xf = fix_phases(xf)
@@ -180,7 +184,7 @@ def eigen(a: IntMatrix, eta: arb, bits: int) -> Eigen:
                                          or (last is not None and residual > last / 16)):
                 return found
             last = residual if residual is not None else last
-        xf, correction, accuracy, gap_bits = refine(xf, x, x.adjoint() * y, g, p, scale)
+        xf, correction, accuracy, gap_bits = refine(xf, x, x.adjoint() * y, g, p, scale, shift)
         target = max(target, bits + GUARD_BITS + max(0, gap_bits - GAP_FREE_BITS))
         new_p = max(p, min(target, 2 * accuracy + GUARD_BITS))
         x = x.shifted(new_p - p) + correction(new_p)
@@ -196,8 +200,10 @@ def fix_phases(x):
     return x * (numpy.abs(top) / top)[None, :]
 
 
-def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float):
+def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float, shift: int):
     """One Ogita-Aishima step from the exact S = X^H A0 X and G = X^H X (scale 2^-2p).
+
+    Floats are in units of 2^shift scale (A0 / (2^shift scale) has entries of size <= 1).
 
     Returns the new float X, a function giving round(X E 2^bits) exactly as
     an integer matrix, the estimated number of correct bits after the step,
@@ -209,8 +215,9 @@ def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float):
     rf = _floats(r, 2 * p) - 1j * _floats(g.im, 2 * p)
     diag_s = [int(s.re[k, k]) for k in range(n)]
     diag_g = [int(g.re[k, k]) for k in range(n)]
-    lam = numpy.array([math.ldexp(float((ds << 60) // dg), -60) for ds, dg in zip(diag_s, diag_g)]) / scale
-    sf = IntMatrix(s.re - diagonal(diag_s), s.im).floats(2 * p) / scale   # off-diagonal part only
+    lam = numpy.array([math.ldexp(float(((ds << 60) // dg) >> shift), -60) for ds, dg in zip(diag_s, diag_g)])
+    lam = lam / scale
+    sf = IntMatrix(s.re - diagonal(diag_s), s.im).floats(2 * p + shift) / scale   # off-diagonal part only
     off = sf - numpy.diag(lam * numpy.diag(rf).real)                     # S - diag(lambda)
     size = float(numpy.linalg.norm(numpy.diag(lam))) or 1.0
     delta = 2 * (numpy.linalg.norm(off) + size * numpy.linalg.norm(rf))
@@ -218,17 +225,81 @@ def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float):
     apart = numpy.abs(gaps) > delta
     numpy.fill_diagonal(apart, False)
     e = numpy.where(apart, (sf + lam[None, :] * rf) / numpy.where(apart, gaps, 1.0), rf / 2)
-    e = rotate_clusters(e, sf, rf, lam, apart, delta)
-    xe = untilt(xf, xf @ e, x, p)
     error = max(float(numpy.linalg.norm(rf)), float(numpy.linalg.norm(off)) / size, 2.0 ** -1000)
+    turn = ritz(xf, s, g, p, lam * scale, apart, error ** 2 * size * scale, shift)
+    for members, _ in turn:
+        e[numpy.ix_(members, members)] = 0
+    w = numpy.zeros_like(e)
+    for members, v in turn:
+        w[numpy.ix_(members, members)] = v - numpy.eye(len(members))
+    xe = xf @ e
+    xe = xe + untilt(xf, xe + xf @ w, x, p)
     resolved = numpy.abs(gaps[apart])
     gap = float(resolved.min()) / size if resolved.size else 1.0
     gap_bits = min(GAP_BITS_MAX, max(0, int(-math.log2(gap)))) if gap > 2.0 ** -GAP_BITS_MAX else 0
-    return xf + xe, lambda bits: from_floats(xe, bits), int(-math.log2(error)), gap_bits
+
+    def correction(bits: int) -> IntMatrix:
+        found = from_floats(xe, bits)
+        return found + rotated(x, w, p, bits) if turn else found
+    return xf + xe + xf @ w, correction, int(-math.log2(error)), gap_bits
+
+
+ROTATION_BITS = 52
+
+
+def rotated(x: IntMatrix, w, p: int, bits: int) -> IntMatrix:
+    """round(X W 2^bits), exactly from X (scale 2^-p) and W rounded to 2^-52."""
+    product = x * from_floats(w, ROTATION_BITS)  # scale 2^-(p + 52)
+    drop = p + ROTATION_BITS - bits
+    if drop <= 0:
+        return product.shifted(-drop)
+    half = 1 << (drop - 1)
+    shift = lambda m: fmpz_mat(((_objects(m) + half) >> drop).tolist())  # noqa: E731
+    return IntMatrix(shift(product.re), shift(product.im))
+
+
+def ritz(xf, s: IntMatrix, g: IntMatrix, p: int, lam, apart, noise: float, shift: int) -> list:
+    """Rayleigh-Ritz rotations (members, V) of the clusters whose spread stands out of the noise.
+
+    A cluster is a run of eigenvalue estimates that the correction cannot
+    tell apart; inside it the refinement only orthonormalises.  Its block
+    of S - mu G (exact, mu the cluster's mean) is diagonalised in float64
+    and the cluster's columns are turned by the eigenvectors V (Ogita &
+    Aishima, part II, Japan J. Indust. Appl. Math. 36 (2019) 435-459).  A
+    truly repeated eigenvalue leaves only noise (of order noise = error^2
+    ||A||) in that block and is left alone: any orthonormal basis serves.
+    """
+    import numpy
+    order = numpy.argsort(lam)
+    turns, start = [], 0
+    for k in range(1, len(lam) + 1):
+        if k < len(lam) and not apart[order[k - 1], order[k]]:
+            continue
+        members, start = [int(v) for v in order[start:k]], k
+        if len(members) < 2:
+            continue
+        mu = round(float(numpy.mean(lam[members])) * 2 ** 60)
+        block = numpy.array([[_shifted_entry(s, g, i, j, mu, p, shift) for j in members] for i in members])
+        spread = numpy.linalg.norm(block - numpy.trace(block) / len(members) * numpy.eye(len(members)))
+        if spread <= 2 ** 10 * noise:
+            continue
+        _, v = numpy.linalg.eigh(block)
+        columns = xf[:, members] @ v
+        pivots = numpy.argmax(numpy.abs(columns), axis=0)
+        top = columns[pivots, numpy.arange(len(members))]
+        turns.append((members, v * (numpy.abs(top) / top)[None, :]))
+    return turns
+
+
+def _shifted_entry(s: IntMatrix, g: IntMatrix, i: int, j: int, mu: int, p: int, shift: int) -> complex:
+    """(S 2^-shift - mu 2^-60 G)[i, j] as a float (S, G at scale 2^-2p), exact before the rounding."""
+    re = (int(s.re[i, j]) << 60) - (mu * int(g.re[i, j]) << shift)
+    im = (int(s.im[i, j]) << 60) - (mu * int(g.im[i, j]) << shift)
+    return complex(re / 2 ** (2 * p + 60 + shift), im / 2 ** (2 * p + 60 + shift))
 
 
 def untilt(xf, xe, x: IntMatrix, p: int):
-    """The correction with each column turned so that its largest entry becomes real.
+    """The extra correction that turns each new column so that its largest entry becomes real.
 
     The turn by -theta is taken to first order (x -> x - i theta x), theta
     being the new pivot's argument; the error is of second order and the
@@ -236,43 +307,12 @@ def untilt(xf, xe, x: IntMatrix, p: int):
     """
     import numpy
     n = xf.shape[1]
-    pivots = numpy.argmax(numpy.abs(xf), axis=0)
+    pivots = numpy.argmax(numpy.abs(xf + xe), axis=0)
     imag = numpy.array([int(x.im[int(j), k]) / 2 ** p for k, j in enumerate(pivots)])
     columns = numpy.arange(n)
     new = xf[pivots, columns] + xe[pivots, columns]
-    theta = (imag + xe[pivots, columns].imag) / new.real
-    return xe - 1j * theta[None, :] * xf
-
-
-def rotate_clusters(e, sf, rf, lam, apart, delta):
-    """Rayleigh-Ritz inside clusters whose spread stands out of the noise (Ogita-Aishima II).
-
-    A cluster is a run of eigenvalue estimates closer than ``delta``.  Its
-    block of S (shifted by the mean) is diagonalised in float64; when that
-    block is only noise (a truly repeated eigenvalue) nothing is rotated,
-    since any orthonormal basis of the subspace will do.
-    """
-    import numpy
-    n = len(lam)
-    order = numpy.argsort(lam)
-    start = 0
-    for k in range(1, n + 1):
-        if k < n and not apart[order[k - 1], order[k]]:
-            continue
-        members = order[start:k]
-        start = k
-        if len(members) < 2:
-            continue
-        block = sf[numpy.ix_(members, members)]
-        shift = numpy.trace(block).real / len(members)
-        block = block - shift * numpy.eye(len(members))
-        if numpy.linalg.norm(block) <= 2 ** 10 * delta * numpy.linalg.norm(rf):
-            continue
-        _, v = numpy.linalg.eigh(block)
-        v = fix_phases(v)
-        local = numpy.eye(len(members)) + rf[numpy.ix_(members, members)] / 2
-        e[numpy.ix_(members, members)] = local @ v - numpy.eye(len(members))
-    return e
+    theta = (imag + xe[pivots, columns].imag) / numpy.where(new.real > 0, new.real, numpy.inf)
+    return -1j * theta[None, :] * (xf + xe)
 
 
 # -- certification ----------------------------------------------------------------
@@ -280,8 +320,9 @@ def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMa
             ) -> tuple[Eigen | None, float | None]:
     """The enclosures from exact Y = A0 X (scale 2^-p) and G = X^H X (scale 2^-2p).
 
-    Also returns the residual relative to ||A|| (a float, to steer the
-    refinement); (None, None) when X is too far from orthonormal to certify.
+    Also returns the larger of ||G - I|| and the residual of A0 relative to
+    ||A0|| (a float, to steer the refinement); (None, None) when X is too
+    far from orthonormal to certify.
     """
     import numpy
     n = x.shape[0]
@@ -300,7 +341,8 @@ def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMa
     rr, ri = (yr << p) - xr * dd, (yi << p) - xi * dd                      # scale 2^-2p
     squares = [int(v) for v in (rr * rr + ri * ri).sum(axis=0)]
     base, stretch = (1 - e).sqrt(), (1 + e).sqrt()
-    f = ((_upper_sqrt(sum(squares), 2 * p) + eta * stretch) / base).upper()
+    exact_part = _upper_sqrt(sum(squares), 2 * p)
+    f = ((exact_part + eta * stretch) / base).upper()
     order = sorted(range(n), key=lambda k: d[k])
     centers = [arb(d[k]) / arb(2) ** p for k in order]
     clusters = _clusters(centers, f)
@@ -320,7 +362,7 @@ def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMa
         if len(cluster) == 1:
             errors[cluster[0]] = _phase_fixed(bound, members[0], pivots[members[0]], xr, xi, lengths, p)
     norm = _upper_sqrt(sum(v * v for v in d), p)
-    relative = float(f / norm) if norm > 0 else 0.0
+    relative = max(float(exact_part / norm) if norm > 0 else 0.0, float(e))  # eta: the data's own width
     columns = (python_ints(xr[:, order]), python_ints(xi[:, order]))
     return Eigen(tuple(arb(c, f) for c in centers), x, tuple(order), columns, p, tuple(errors),
                  tuple(clusters), tuple(angles), tuple(pivots[k] for k in order)), relative
