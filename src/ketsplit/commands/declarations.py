@@ -2,14 +2,15 @@
 
 from __future__ import annotations
 
-import re
 from typing import TYPE_CHECKING, Callable, Mapping
 
 import sympy
 
 from .. import limits
-from ..language.build import KetValue, kind_of
+from ..language.build import CONSTANTS, Builder, KetValue, is_scalar, kind_of
 from ..language.errors import InputError, Span
+from ..language.statements import Declaration, parse_declaration, parse_space, \
+    parse_with_clause, trailing_names
 from ..render.ketprint import ket_text
 from ..render.report import Field, Kets, Note, Report
 from ..render.ketprint import label_text
@@ -19,8 +20,6 @@ from ..states import KINDS, State
 if TYPE_CHECKING:
     from ..session import Session
 
-NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
-
 
 def _error(message: str, line: int, column: int, length: int, statement: str) -> InputError:
     return InputError(message, Span(line, column + 1, max(1, length)), statement)
@@ -29,54 +28,40 @@ def _error(message: str, line: int, column: int, length: int, statement: str) ->
 def declare(session: "Session", statement: str, start: int, line: int) -> Report:
     """``real t, phi in [0, pi]``: names separated by commas or spaces, optional range."""
     kind = statement[:start].strip()
-    body = statement[start:]
-    range_at = re.search(r"\sin\s", body)
-    names_text = body[:range_at.start()] if range_at else body
-    names = []
-    for match in re.finditer(r"[^\s,]+", names_text):
-        name = match.group()
-        if not NAME.fullmatch(name):
-            raise _error(f"expected a parameter name, found {name!r}", line, start + match.start(),
-                         len(name), statement)
+    declaration = parse_declaration(statement, start, line)
+    for name, span in declaration.names:
         if session.reserved(name):
-            raise _error(f"{name!r} is a reserved word and cannot be a parameter", line,
-                         start + match.start(), len(name), statement)
-        names.append(name)
-    if not names:
+            raise InputError(f"{name!r} is a reserved word and cannot be a parameter", span,
+                             statement)
+    if not declaration.names:
         raise _error(f"{kind}: expected one or more parameter names", line, start, 1, statement)
     rng = None
-    if range_at:
-        rng = parse_range(session, body[range_at.end():], start + range_at.end(), line, statement)
+    if declaration.bounds is not None:
         if kind == "complex":
-            raise _error("a complex parameter cannot have a range", line, start + range_at.start() + 1,
-                         2, statement)
+            raise InputError("a complex parameter cannot have a range", declaration.range_span,
+                             statement)
+        rng = range_bounds(session, declaration, statement)
+    names = [name for name, _ in declaration.names]
     session.declare(names, kind, rng)
     where = f" in [{language_text(rng[0])}, {language_text(rng[1])}]" if rng else ""
     return Report(f"declared {kind} {', '.join(names)}{where}")
 
 
-def parse_range(session: "Session", text: str, offset: int, line: int, statement: str
-                ) -> tuple[sympy.Expr, sympy.Expr]:
-    """``[lo, hi]`` with real constant bounds, lo <= hi."""
-    inner = text.strip()
-    lead = offset + len(text) - len(text.lstrip())
-    if not (inner.startswith("[") and inner.endswith("]")):
-        raise _error("expected a range written as [lo, hi]", line, lead, len(inner), statement)
-    parts = split_top_level(inner[1:-1], ",")
-    if len(parts) != 2:
-        raise _error("a range needs exactly two bounds: [lo, hi]", line, lead, len(inner), statement)
+def range_bounds(session: "Session", declaration: Declaration, statement: str
+                 ) -> tuple[sympy.Expr, sympy.Expr]:
+    """The two bounds of a declared range: real constants, lo <= hi."""
     bounds = []
-    column = lead + 1
-    for part in parts:
-        value = session.evaluate(part, column, line)
-        if isinstance(value, (KetValue, sympy.MatrixBase)) or not value.is_number or not value.is_real:
-            raise _error(f"a range bound must be a real constant, found {part.strip()!r}", line,
-                         column, len(part), statement)
+    for node in declaration.bounds or ():
+        value = Builder(session, statement, closed="a range bound").build(node)
+        if isinstance(value, (KetValue, sympy.MatrixBase)) or not value.is_number or \
+                not value.is_real:
+            raise InputError(f"a range bound must be a real constant, found "
+                             f"{language_text(value) if is_scalar(value) else kind_of(value)}",
+                             node.span, statement)
         bounds.append(value)
-        column += len(part) + 1
     if bool(bounds[0] > bounds[1]):
-        raise _error(f"the range is empty: {language_text(bounds[0])} > {language_text(bounds[1])}",
-                     line, lead, len(inner), statement)
+        raise InputError(f"the range is empty: {language_text(bounds[0])} > "
+                         f"{language_text(bounds[1])}", declaration.range_span, statement)
     return bounds[0], bounds[1]
 
 
@@ -101,22 +86,18 @@ def split_top_level(text: str, separator: str) -> list[str]:
 
 def space(session: "Session", statement: str, start: int, line: int) -> Report:
     """``space A:2 B:3 C:2`` (names and dimensions) or ``space 2 3 2`` (dimensions only)."""
-    names, dims = [], []
-    for match in re.finditer(r"\S+", statement[start:]):
-        item = match.group()
-        column = start + match.start()
-        name, _, dim = item.rpartition(":")
-        size = int(dim) if dim.isascii() and dim.isdigit() and len(dim) <= 20 else 10 ** 20
-        if not (dim.isascii() and dim.isdigit()) or size < 1 or (name and not NAME.fullmatch(name)):
-            raise _error(f"expected NAME:DIMENSION (as in A:2) or a dimension, found {item!r}",
-                         line, column, len(item), statement)
-        limits.check(size, "part_dimension", f"a part of dimension {dim}" if len(dim) <= 20 else
-                     f"a part dimension of {len(dim)} digits", Span(line, column + 1, len(item)),
-                     statement)
-        names.append(name or str(len(names) + 1))
-        dims.append(size)
-    if not dims:
+    parts = parse_space(statement, start, line).parts
+    for part in parts:
+        if part.dimension < 1:
+            raise InputError(f"a part needs dimension 1 or more, found {part.dimension}",
+                             part.span, statement)
+        limits.check(part.dimension, "part_dimension", f"a part of dimension {part.dimension}"
+                     if part.dimension < 10 ** 20 else "a part dimension of more than 20 digits",
+                     part.span, statement)
+    if not parts:
         raise _error("space: expected parts such as A:2 B:3", line, start, 1, statement)
+    names = [part.name or str(k + 1) for k, part in enumerate(parts)]
+    dims = [part.dimension for part in parts]
     if len(set(names)) != len(names):
         raise _error("space: a part name is used twice", line, start, len(statement) - start, statement)
     limits.check_shape(tuple(dims), Span(line, start + 1, len(statement) - start), statement)
@@ -182,20 +163,31 @@ def show(session: "Session", statement: str, line: int) -> Report:
 
 def parse_point(session: "Session", text: str, offset: int, line: int, statement: str
                 ) -> dict[str, sympy.Expr]:
-    """``t=pi/6, phi=0`` -> {name: exact value}."""
+    """``with t=pi/6, phi=0`` -> {name: exact value}; ``text`` is the statement from the
+    0-based column ``offset`` on.  A value may use numbers, constants, declared parameters
+    and bound names only: a word typed after the clause (``with t=pi/6 purity``) would
+    otherwise join the value as a product with a new parameter."""
     point: dict[str, sympy.Expr] = {}
-    column = offset
-    for piece in split_top_level(text, ","):
-        name, equals, value_text = piece.partition("=")
-        if not equals or not NAME.fullmatch(name.strip()):
-            raise _error("expected NAME=VALUE after 'with', as in with t=pi/6", line, column,
-                         len(piece), statement)
-        value = session.evaluate(value_text, column + len(name) + 1, line)
-        if isinstance(value, (KetValue, sympy.MatrixBase)):
-            raise _error(f"{name.strip()} must be set to a number", line, column, len(piece), statement)
-        point[name.strip()] = value
-        column += len(piece) + 1
+    for assignment in parse_with_clause(statement, offset, line).assignments:
+        stray = next((n for n in trailing_names(assignment.value) if unknown(session, n.name)),
+                     None)
+        if stray is not None:
+            raise InputError(f"expected ',' or the end of the statement after the value of "
+                             f"{assignment.name}, found {stray.name!r}: a with clause is "
+                             f"NAME=VALUE, NAME=VALUE, and the command's other words go before "
+                             f"'with'", stray.span, statement)
+        value = Builder(session, statement, closed=f"the value of {assignment.name}"
+                        ).build(assignment.value)
+        if not is_scalar(value):
+            raise InputError(f"{assignment.name} must be set to a number", assignment.value.span,
+                             statement)
+        point[assignment.name] = value
     return point
+
+
+def unknown(session: "Session", name: str) -> bool:
+    """Neither bound, declared nor a constant: no value a with clause could use."""
+    return session.lookup(name) is None and name not in CONSTANTS
 
 
 STATEMENTS: dict[str, Callable[["Session", str, int, int], Report]] = {

@@ -70,7 +70,7 @@ class Lexer:
     Tokens are matched where they are needed, so that the parser can pass over a
     stretch of the line in one step (see grammar's term runs) without tokens for it."""
 
-    def __init__(self, text: str, line: int = 1):
+    def __init__(self, text: str, line: int = 1, start: int = 0):
         limits.check(len(text), "input_length", f"input of {len(text)} characters",
                      Span(line, 1, 1), text[:200])
         self.text = text
@@ -79,7 +79,7 @@ class Lexer:
         self.start = 0
         self.width = 0      # source width (** is read as ^, π as pi)
         self.spaced = False  # whitespace stood right before the token
-        self.after = 0      # where the next token is looked for
+        self.after = start  # where the next token is looked for
         self.advance()
 
     def advance(self) -> None:
@@ -91,7 +91,7 @@ class Lexer:
             start = found.start(2) if found else len(self.text)
             token = _resolve(token, start, self.text, self.line)
         if token == "#":
-            self.spaced = (self.text[:found.start(2)] if found else self.text)[-1:] in WHITESPACE
+            self.spaced = self.text[:found.start(2) if found else len(self.text)][-1:] in WHITESPACE
             self.token, self.start, self.width = "", len(self.text.rstrip()), 1
             self.after = len(self.text)
             return
