@@ -9,8 +9,9 @@ import sympy
 from .. import limits
 from ..language.build import CONSTANTS, Builder, KetValue, is_scalar, kind_of
 from ..language.errors import InputError, Span
+from ..language.syntax import Number
 from ..language.statements import Declaration, parse_declaration, parse_space, \
-    parse_with_clause, trailing_names
+    parse_with_clause, trailing_words
 from ..render.ketprint import ket_text
 from ..render.report import Field, Kets, Note, Report
 from ..render.ketprint import label_text
@@ -165,15 +166,17 @@ def parse_point(session: "Session", text: str, offset: int, line: int, statement
                 ) -> dict[str, sympy.Expr]:
     """``with t=pi/6, phi=0`` -> {name: exact value}; ``text`` is the statement from the
     0-based column ``offset`` on.  A value may use numbers, constants, declared parameters
-    and bound names only: a word typed after the clause (``with t=pi/6 purity``) would
-    otherwise join the value as a product with a new parameter."""
+    and bound names only, and may not end in a juxtaposed number or unknown name: a word
+    typed after the clause (``with t=pi/6 purity``) would otherwise join the value as a
+    product with a new parameter."""
     point: dict[str, sympy.Expr] = {}
     for assignment in parse_with_clause(statement, offset, line).assignments:
-        stray = next((n for n in trailing_names(assignment.value) if unknown(session, n.name)),
-                     None)
+        stray = next((w for w in trailing_words(assignment.value) if isinstance(w, Number) or
+                      unknown(session, w.name)), None)
         if stray is not None:
+            word = stray.text if isinstance(stray, Number) else stray.name
             raise InputError(f"expected ',' or the end of the statement after the value of "
-                             f"{assignment.name}, found {stray.name!r}: a with clause is "
+                             f"{assignment.name}, found {word!r}: a with clause is "
                              f"NAME=VALUE, NAME=VALUE, and the command's other words go before "
                              f"'with'", stray.span, statement)
         value = Builder(session, statement, closed=f"the value of {assignment.name}"

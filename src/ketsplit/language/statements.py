@@ -15,7 +15,7 @@ from dataclasses import dataclass
 
 from .errors import Span
 from .grammar import Parser, is_name
-from .syntax import Binary, Name, Node
+from .syntax import Binary, Name, Node, Number
 from .tokens import DIGITS, Lexer
 
 
@@ -80,14 +80,14 @@ def parse_with_clause(statement: str, start: int, line: int) -> WithClause:
         parser.expect_op(",", f"',' or the end of the statement after the value of {name}")
 
 
-def trailing_names(value: Node) -> list[Name]:
-    """The bare names juxtaposed at the end of ``value`` (``pi/6 purity`` -> [purity]), left
-    to right: where a word typed after a with clause lands in the value before it."""
-    names: list[Name] = []
-    while isinstance(value, Binary) and value.implicit and isinstance(value.right, Name):
-        names.insert(0, value.right)
+def trailing_words(value: Node) -> list[Name | Number]:
+    """The bare names and numbers juxtaposed at the end of ``value`` (``pi/6 purity`` ->
+    [purity]), left to right: where words typed after a with clause land in the value."""
+    words: list[Name | Number] = []
+    while isinstance(value, Binary) and value.implicit and isinstance(value.right, (Name, Number)):
+        words.insert(0, value.right)
         value = value.left
-    return names
+    return words
 
 
 def parse_declaration(statement: str, start: int, line: int) -> Declaration:
