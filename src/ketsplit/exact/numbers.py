@@ -254,15 +254,18 @@ def simple_pieces(found: NumberBlock, projector: Projector) -> list[Piece]:
         row = DomainMatrix([[part[column][i]] for i in range(rows)], (rows, 1), found.field)
         images.append(found.matrix.transpose().matmul(row).to_list())
     w_polys = [[images[j][k][0] for j in range(len(images))] for k in range(found.matrix.shape[1])]
-    # radicals are expanded; Viete and CRootOf forms are left whole (expand walks them for minutes)
-    neat = _readable if projector.factor.degree() <= 2 else (lambda v: v)
+    # |w| scale: sigma |P e_c| = sqrt(lambda N(lambda)), one radical of a polynomial reduced mod f
+    lam = sympy.Poly(LAMBDA, LAMBDA, domain=found.field)
+    scale2 = (norm2 * lam).rem(projector.factor)
+    # numerators are expanded (a + b sqrt d); Viete and CRootOf forms are left whole
+    neat = sympy.expand if projector.factor.degree() <= 2 else (lambda v: v)
     pieces = []
     for value in solve_factor(projector.factor):
-        norm = root(_at(found, norm2, value))
-        sigma = root(value)
-        u = Vector([neat(_at(found, p, value) / norm) for p in u_polys])
-        w = Vector([neat(_at(found, p, value) / (norm * sigma)) for p in w_polys])
-        pieces.append((sigma, u, w))
+        norm = root(neat(_at(found, norm2, value)))
+        scale = root(neat(_at(found, scale2, value)))
+        u = Vector([neat(_at(found, p, value)) / norm for p in u_polys])
+        w = Vector([neat(_at(found, p, value)) / scale for p in w_polys])
+        pieces.append((root(value), u, w))
     return pieces
 
 
