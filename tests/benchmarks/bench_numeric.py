@@ -7,6 +7,19 @@ Run on demand (the default test run ignores this folder); every benchmark file:
 or these alone: ``python -m pytest tests/benchmarks -o addopts="" -s -k "dense_50 or d20_10 or d24_12"``
 (naming the file itself makes pytest collect it twice, once through the folder's conftest).
 
+Every reference, and ours, runs with BLAS on one thread (threadpoolctl), so a
+loaded machine does not flatter the ratios.
+
+- Dense 14-qubit state (Gaussian-integer amplitudes), cut 1..7|8..14, 30
+  certified digits for the coefficients AND the Schmidt vectors
+  (``certified_decomposition``), against one python-flint ``acb_mat``
+  product of the 128x128 reduced state rho = C C^H / <psi|psi> at the
+  working precision (the floor of any certified method here).  Goal: at most
+  10 such products.  Also shown: the ratio to the product of the
+  unnormalised Gaussian-integer C C^H (exact entries, a cheaper product),
+  and to ``mpmath.svd_c`` at 30 digits with vectors (no error bound).
+- Dense random 6-qubit state, cut 123|456 (8x8): the reference ``numeric``
+  route of the planner; ours against ``mpmath.svd_c`` at 30 digits.
 - Dense random states with complex integer amplitudes, 50 digits: ours is the
   certified path from the State (ball enclosures, proved rank), against
   ``mpmath.svd_c`` at 50 digits on the ready-made mpmath matrix (no error
@@ -23,18 +36,27 @@ DEVELOPERS.md.
 
 from __future__ import annotations
 
+import os
 import random
 import time
 import tracemalloc
 
-import mpmath
-import numpy
-import pytest
-import sympy
-from sympy.core.cache import clear_cache
+os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")  # in case threadpoolctl is missing and numpy not loaded yet
+import mpmath  # noqa: E402
+import numpy  # noqa: E402
+import pytest  # noqa: E402
+import sympy  # noqa: E402
+from flint import acb, acb_mat, arb, ctx  # noqa: E402
+from sympy.core.cache import clear_cache  # noqa: E402
 
-import ketsplit
-from ketsplit.numeric.schmidt import certified_schmidt
+import ketsplit  # noqa: E402
+from ketsplit.numeric.schmidt import certified_decomposition, certified_schmidt, start_bits  # noqa: E402
+
+try:
+    from threadpoolctl import threadpool_limits
+    ONE_THREAD = threadpool_limits(1)  # numpy is loaded: its BLAS now runs on one thread
+except ImportError:  # pragma: no cover - the environment variable above is the fallback
+    ONE_THREAD = None
 
 pytestmark = pytest.mark.benchmark
 
@@ -76,6 +98,73 @@ def test_dense_50_digits_against_mpmath_svd(n):
           f"ratio {ours / theirs:.3f}")
     if n == 64:
         assert ours / theirs <= 0.2
+
+
+def qubit_state(n: int, seed: int) -> tuple[ketsplit.State, list[list[tuple[int, int]]]]:
+    """A dense n-qubit state with amplitudes a + b i, a, b in -9..9, and its coefficient matrix
+    across the first n/2 qubits | the rest (rows: first half, most significant qubit first)."""
+    rng = random.Random(seed)
+    half = 2 ** (n // 2)
+    pairs = [[(rng.randint(-9, 9), rng.randint(-9, 9)) for _ in range(2 ** (n - n // 2))] for _ in range(half)]
+    amplitudes = {}
+    for i, row in enumerate(pairs):
+        for j, (a, b) in enumerate(row):
+            if (a, b) != (0, 0):
+                label = tuple(int(c) for c in format(i * len(row) + j, f"0{n}b"))
+                amplitudes[label] = sympy.Integer(a) + sympy.I * b
+    return ketsplit.State((2,) * n, amplitudes), pairs
+
+
+def halves(n: int) -> str:
+    return ",".join(map(str, range(1, n // 2 + 1))) + "|" + ",".join(map(str, range(n // 2 + 1, n + 1)))
+
+
+def reduced_products(pairs, bits: int) -> tuple[float, float]:
+    """Best times of one acb_mat product of rho = C C^H / <psi|psi> and of the integer C C^H."""
+    with ctx.workprec(bits):
+        c = acb_mat([[acb(a, b) for a, b in row] for row in pairs])
+        gram = c * c.conjugate().transpose()
+        norm2 = sum((arb(a * a + b * b) for row in pairs for a, b in row), arb(0))
+        rho = gram * acb(1 / norm2)
+        return best_of(3, lambda: rho * rho), best_of(3, lambda: gram * gram)
+
+
+def mpmath_svd(pairs, dps: int, vectors: bool) -> None:
+    with mpmath.workdps(dps):
+        matrix = mpmath.matrix([[mpmath.mpc(a, b) for a, b in row] for row in pairs])
+        mpmath.svd_c(matrix, compute_uv=vectors)
+
+
+def test_dense_14_qubits_coefficients_and_vectors_against_acb_products():
+    state, pairs = qubit_state(14, 14)
+    cut = halves(14)
+    found = certified_decomposition(state, cut, 30)
+    assert found.rank == 128 and found.complete and found.bits == start_bits(30)
+    ours = best_of(3, lambda: certified_decomposition(state, cut, 30))
+    rho, exact = reduced_products(pairs, found.bits)
+    print(f"\n  14 qubits 1..7|8..14, 30 digits, coefficients and vectors: ours {ours:.3f} s; "
+          f"acb_mat product of rho at {found.bits} bits {rho:.4f} s, ratio {ours / rho:.2f} "
+          f"(goal <= 10); of the integer C C^H {exact:.4f} s, ratio {ours / exact:.1f}")
+    assert ours / rho <= 10
+
+
+@pytest.mark.slow
+def test_dense_14_qubits_against_mpmath_svd():
+    state, pairs = qubit_state(14, 14)
+    ours = best_of(3, lambda: certified_decomposition(state, halves(14), 30))
+    theirs = best_of(1, lambda: mpmath_svd(pairs, 30, vectors=True))
+    print(f"\n  14 qubits, 30 digits with vectors: ours {ours:.3f} s, mpmath.svd_c {theirs:.2f} s, "
+          f"ratio {ours / theirs:.4f}")
+
+
+def test_dense_6_qubits_reference_route():
+    state, pairs = qubit_state(6, 6)
+    found = certified_decomposition(state, "123|456", 30)
+    assert found.rank == 8 and found.complete
+    ours = best_of(5, lambda: certified_decomposition(state, "123|456", 30))
+    theirs = best_of(5, lambda: mpmath_svd(pairs, 30, vectors=True))
+    print(f"\n  6 qubits 123|456, 30 digits with vectors: ours {ours:.4f} s, mpmath.svd_c {theirs:.4f} s, "
+          f"ratio {ours / theirs:.3f}")
 
 
 def dense_dicke_matrix(n: int, k: int) -> numpy.ndarray:

@@ -165,8 +165,13 @@ class Eigen:
     pivots: tuple[int, ...]
 
 
-def eigen(a: IntMatrix, eta: arb, bits: int) -> Eigen:
-    """Certified eigenpairs of the Hermitian A0 + F (||F|| <= eta), about ``bits`` bits."""
+def eigen(a: IntMatrix, eta: arb, bits: int, goal: int) -> Eigen:
+    """Certified eigenpairs of the Hermitian A0 + F (||F|| <= eta) at ``bits`` bits of precision.
+
+    The refinement stops once every eigenvalue that is proved nonzero has
+    ``goal`` correct bits (relative) and its vector ``goal`` bits (absolute),
+    or once it stops improving.
+    """
     import numpy
     n = a.shape[0]
     shift = max(0, max(abs(int(v)) for m in (a.re, a.im) for v in m.entries()).bit_length() - 60)
@@ -180,8 +185,7 @@ def eigen(a: IntMatrix, eta: arb, bits: int) -> Eigen:
         y, g = a * x, x.adjoint() * x
         if p >= target:
             found, residual = certify(a, eta, x, p, y, g)
-            if residual is not None and (residual < 2.0 ** -bits
-                                         or (last is not None and residual > last / 16)):
+            if residual is not None and (reaches(found, goal) or (last is not None and residual > last / 16)):
                 return found
             last = residual if residual is not None else last
         xf, correction, accuracy, gap_bits = refine(xf, x, x.adjoint() * y, g, p, scale, shift)
@@ -190,6 +194,16 @@ def eigen(a: IntMatrix, eta: arb, bits: int) -> Eigen:
         x = x.shifted(new_p - p) + correction(new_p)
         p = new_p
     return found if found is not None else certify(a, eta, x, p, a * x, x.adjoint() * x)[0]
+
+
+def reaches(found: Eigen, goal: int) -> bool:
+    """Every eigenvalue proved nonzero has ``goal`` relative bits, and its vector ``goal`` bits."""
+    for value, error in zip(found.values, found.errors):
+        if value.contains(0):
+            continue
+        if not (value.rad() * 2 ** goal <= abs(value.mid()) and error * 2 ** goal <= 1):
+            return False
+    return True
 
 
 def fix_phases(x):

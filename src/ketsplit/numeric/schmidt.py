@@ -36,6 +36,7 @@ from .values import check_digits
 BITS_PER_DIGIT = math.log2(10)
 GUARD_BITS = 32
 MAX_DOUBLINGS = 4
+GOAL_GUARD_BITS = 6  # beyond the digits asked for, so that rounding to them is certain
 
 
 def start_bits(digits: int) -> int:
@@ -111,7 +112,8 @@ def attempt(blocks: list[Block], bits: int, digits: int, shape: tuple[int, int],
     """All blocks at one working precision."""
     ball = Encloser(bits)
     with ctx.workprec(bits):
-        spectra = [block.spectrum(ball) for block in blocks]
+        goal = int(digits * BITS_PER_DIGIT) + GOAL_GUARD_BITS
+        spectra = [block.spectrum(ball, goal) for block in blocks]
         norm2 = sum((s.weight for s in spectra), arb(0))
         found: list[Found] = []
         undecided: list[arb] = []
