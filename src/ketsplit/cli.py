@@ -86,7 +86,7 @@ def dispatch(args) -> int:
             return run_typed(args.statements.splitlines(), args)
         if args.action is None:
             if not sys.stdin.isatty():
-                return run_typed(sys.stdin, args)
+                return run_typed(sys.stdin, args, piped=True)
             from .repl.loop import start
             return start()
         sheet = read_sheet(args.file)
@@ -98,10 +98,13 @@ def dispatch(args) -> int:
 
 # -- statements typed after -c or piped in ---------------------------------------------
 
-def run_typed(lines: Iterable[str], args) -> int:
+def run_typed(lines: Iterable[str], args, piped: bool = False) -> int:
     """Run statements as they come, one at a time (a line with ';' gives several, and
     so several worksheet lines on 'save'), each result printed at once; 'exit' or
-    'quit' stops.  The worst status of any statement is the status."""
+    'quit' stops.  The worst status of any statement is the status.  From a pipe,
+    Ctrl-C cancels the running statement (the session as it was) and goes on, as
+    the shell does; after -c it stops everything."""
+    from .repl.guard import guarded
     from .session import Session, split_statements
     session, status = Session(), OK
     for number, line in statement_lines(lines):
@@ -109,8 +112,14 @@ def run_typed(lines: Iterable[str], args) -> int:
             code = statement.strip()
             if code in LEAVE and session.lookup(code) is None:
                 return status
-            status = max(status, run_one(session, code, Span(number, len(statement) - len(
-                statement.lstrip()) + 1), line, args))
+            place = Span(number, len(statement) - len(statement.lstrip()) + 1)
+            try:
+                status = max(status, guarded(session, lambda: run_one(session, code, place, line, args)))
+            except KeyboardInterrupt:
+                if not piped:
+                    raise
+                print("cancelled: the session is as it was before this statement", file=sys.stderr,
+                      flush=True)
     return status
 
 

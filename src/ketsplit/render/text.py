@@ -162,17 +162,21 @@ def cell_lines(cell, room: int) -> list[str]:
 
 
 def field_text(label: str, body: str, cell=None, width: int | None = None) -> str:
+    """``label: value``; fitted to ``width``, a value that does not fit beside its label
+    is folded under it (on the next line when the label leaves too little room)."""
     lines = body.splitlines() or [""]
     head = f"{INDENT}{label}: "
     if width is None or len(lines) > 1 or len(head) + len(lines[0]) <= width:
         if len(lines) == 1:
             return head + lines[0]
         return f"{INDENT}{label}:\n" + "\n".join(HANGING + line for line in lines)
-    room = max(width - len(head), NARROWEST_COLUMN)
+    if width - len(head) < NARROWEST_COLUMN:
+        return f"{INDENT}{label}:\n" + "\n".join(
+            HANGING + line for line in cell_lines(cell if is_prose(cell) else body,
+                                                  width - len(HANGING)))
     if is_prose(cell):
         return "\n".join(wrap_prose(body, width, head, HANGING))
-    folded = fold(body, room, width - len(HANGING))
-    return head + "\n".join(folded)
+    return head + "\n".join(fold(body, width - len(head), width - len(HANGING)))
 
 
 def table_text(table: Table, pretty: bool = False, width: int | None = None) -> str:
