@@ -53,6 +53,7 @@ def state_text(matrix: sympy.Matrix) -> str:
     return " + ".join(terms)
 
 
+@pytest.mark.slow  # a dozen qutrit families with exact roots: several seconds
 @settings(max_examples=12, deadline=None)
 @given(st.lists(entry, min_size=9, max_size=9))
 def test_random_qutrit_polynomial_families(entries):
@@ -81,6 +82,7 @@ def on_stratum(stratum, point) -> bool:
     return all(sympy.simplify(e.subs(point)) == 0 for e in stratum.equations)
 
 
+@pytest.mark.slow  # twenty two-parameter families, each solved along four lines
 @settings(max_examples=20, deadline=None)
 @given(st.lists(linear, min_size=4, max_size=4))
 def test_random_two_parameter_families_lose_no_real_point(entries):

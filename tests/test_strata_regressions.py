@@ -108,25 +108,20 @@ def test_one_parameter_locus_at_an_end_of_the_range():
     check_all(found, psi, "1|2")
 
 
-def test_two_parameter_locus_at_a_corner_of_the_box():
+@pytest.mark.parametrize("amplitude, point", [
     # By hand: s^2 + t^2 <= 2 on [0, 1]^2 with equality only at s = t = 1: the circle
     # s^2 + t^2 = 2 meets the box in the single corner (1, 1), which is the sample
-    psi = unit_square("|00> + (s^2 + t^2 - 2)|11>")
-    s, t = psi.parameter("s").symbol, psi.parameter("t").symbol
-    found = strata(psi, "1|2")
-    assert [x.rank for x in found] == [2, 1]
-    assert found[1].sample == {s: 1, t: 1}
-    check_all(found, psi, "1|2")
-
-
-def test_an_isolated_inner_point_missed_by_simple_values_is_found_exactly():
+    ("s^2 + t^2 - 2", (1, 1)),
     # By hand: (5s - 1)^4 + (7t - 2)^2 >= 0 with equality only at (1/5, 2/7), inside the box;
-    # 1/5 and 2/7 are not among the simple sample values, so the cylindrical search must find it
-    psi = unit_square("|00> + ((5 s - 1)^4 + (7 t - 2)^2)|11>")
+    # 1/5 and 2/7 are not among the simple sample values: the cylindrical search must find it
+    ("(5 s - 1)^4 + (7 t - 2)^2", (sympy.Rational(1, 5), sympy.Rational(2, 7))),
+])
+def test_a_locus_of_one_point_in_the_box_is_found_exactly(amplitude, point):
+    psi = unit_square(f"|00> + ({amplitude})|11>")
     s, t = psi.parameter("s").symbol, psi.parameter("t").symbol
     found = strata(psi, "1|2")
     assert [x.rank for x in found] == [2, 1]
-    assert found[1].sample == {s: sympy.Rational(1, 5), t: sympy.Rational(2, 7)}
+    assert found[1].sample == {s: point[0], t: point[1]}
     check_all(found, psi, "1|2")
 
 

@@ -21,6 +21,11 @@ Measured on the project machine (2 cores), 2026-12-01:
     4x4 one-angle family with sextic points    1.60      184.7         0.009
     three qubits GHZ family, cut 1|23          0.11        0.11        1.0
 
+Issue 11 moved the generic complex 2x2 family to algebra over C (it took about
+30 s over the real and imaginary parts, and a 2 s budget cut it short); the
+last two cases exercise the proofs that a locus misses the ranges and the exact
+search in tangent half-angle charts.
+
 The reference's time on the 4x4 family is solveset's on a degree-7 trigonometric
 determinant; ours goes through tan(t/2) and a univariate gcd.
 (These figures are refreshed by running the file; it prints a table.)
@@ -58,6 +63,11 @@ CASES = [
      " + |33>", "1|2", {"real": "t", "ranges": {"t": (0, "pi")}}, 2),
     ("three qubits GHZ family, cut 1|23", "cos(t)|000> + sin(t)|111>", "1|23",
      {"real": "t", "ranges": {"t": (0, "pi")}}, 2),
+    ("generic 2x2, complex a, b, c, d (ad = bc)", "a|00> + b|01> + c|10> + d|11>", "1|2", {}, 3),
+    ("line s - t = 2 missing the unit square", "|00> + (s - t - 2)|11>", "1|2",
+     {"real": "s t", "ranges": {"s": (0, 1), "t": (0, 1)}}, 1),
+    ("angle point cos t = 1/3, s = 1/5 (exact charts)", "|00> + ((cos(t) - 1/3)^2 + (s - 1/5)^2)|11>",
+     "1|2", {"real": "t s", "ranges": {"t": (0, "pi"), "s": (0, 1)}}, 2),
 ]
 
 RESULTS: list[tuple[str, float, float]] = []
@@ -98,5 +108,5 @@ def test_strata_speed(name, text, cut, declarations, strata_count):
     theirs = reference(state, cut)
     RESULTS.append((name, ours, theirs))
     print(f"\n{name:42s} ours {ours:7.2f} s  reference {theirs:7.2f} s  ratio {ours / theirs:6.1f}")
-    assert found.complete and len(found) == strata_count
+    assert len(found) == strata_count and not found.undecided
     assert ours < 20.0  # "a one-parameter 3x3 trigonometric family should answer in seconds"

@@ -2,8 +2,11 @@
 
 ``strata(state, cut)`` answers "for which parameter values inside the
 declared ranges is this family a product state, or of rank r?".  See
-:mod:`.search` for the mathematics, :mod:`.family` for the rank conditions
-and :mod:`ketsplit.exact.polyform` for the polynomial variables.
+:mod:`.search` for the mathematics over real variables, :mod:`.holomorphic`
+for complex parameters met polynomially (answered over C), :mod:`.region`
+for the proofs that a locus has or has no point in the ranges,
+:mod:`.family` for the rank conditions and :mod:`ketsplit.exact.polyform`
+for the polynomial variables.
 """
 
 from __future__ import annotations

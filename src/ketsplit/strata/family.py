@@ -27,6 +27,7 @@ from ..cuts import CoefficientMatrix, Cut
 from ..exact.polyform import PolyForm, polynomial_form, split_complex
 from ..language.errors import LimitError
 from ..states import State
+from .proved import zero
 
 MAX_MINORS = 20_000  # minors of one size beyond this are refused (ketsplit.strata.family)
 
@@ -105,7 +106,8 @@ class Family:
         return exact_rank(numbers, self.shape)
 
     def defined_at(self, values: dict[sympy.Symbol, sympy.Expr]) -> bool:
-        return sympy.expand(self.guard.xreplace(values)) != 0
+        value = sympy.expand(self.guard.xreplace(values))
+        return value != 0 and not zero(value)
 
     def random_values(self, rng: random.Random) -> dict[sympy.Symbol, sympy.Expr]:
         """Exact values of the variables at a random point of the family (radicals consistent)."""

@@ -35,6 +35,8 @@ from ..states import State
 from .budget import Budget, BudgetExceeded
 from .family import exact_rank, nonzero_minors, strip_common_denominators
 from .model import Stratum, Strata, StrataError, Undecided
+from .proved import zero
+from .search import same_point, state_rank_at
 from .solve import Component, Point, complex_points, components
 
 HIDDEN_PARTS = (sympy.conjugate, sympy.re, sympy.im, sympy.Abs, sympy.arg)
@@ -64,7 +66,8 @@ class HolomorphicFamily:
         return exact_rank(numbers, self.matrix.shape)
 
     def defined_at(self, point: Point) -> bool:
-        return sympy.expand(self.guard.xreplace(point)) != 0
+        value = sympy.expand(self.guard.xreplace(point))
+        return value != 0 and not zero(value)
 
 
 def holomorphic_family(state: State, cut: Cut) -> HolomorphicFamily | None:
@@ -165,7 +168,7 @@ class HolomorphicSearch:
     def add_point(self, point: Point) -> None:
         rank = self.family.rank_at(point)
         known = self.points.setdefault(rank, [])
-        if point not in known:
+        if not any(same_point(point, other) for other in known):
             known.append(point)
 
     def inside_lower(self, piece: Component, rank: int) -> bool:
@@ -218,7 +221,6 @@ class HolomorphicSearch:
 
     def verified(self, point: Point, rank: int) -> Point:
         """The original state's own exact rank at the point must be ``rank``."""
-        from .search import state_rank_at
         found = state_rank_at(self.family.state, self.family.cut, point)
         if found is not None and found != rank:
             raise StrataError(f"the point {point} has rank {found}, not {rank}")
@@ -254,5 +256,6 @@ class HolomorphicSearch:
 
 
 def on(point: Point, stratum: Stratum) -> bool:
-    """The point lies on the stratum's closure (its equations vanish there, exactly)."""
-    return all(sympy.expand(e.xreplace(point)) == 0 for e in stratum.equations)
+    """The point lies on the stratum's closure (its equations vanish there, proved)."""
+    return all(zero(sympy.expand(e.xreplace(point))) for e in stratum.equations)
+

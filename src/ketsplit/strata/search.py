@@ -11,13 +11,20 @@ excluded).  That set is split into components (:mod:`.solve`):
 - infinite components not contained in {rank <= r - 1} give curve (or
   surface) strata, described by their equations and a sample point; when
   some parameters do not occur in a component's equations, the component is
-  "these values of the other parameters, any value of those".
+  "these values of the other parameters, any value of those".  A component
+  is listed only with a sample point inside the ranges whose exact rank is r.
+  When simple values find none, it is either proved to miss the ranges
+  (range arithmetic, or the exact search of :mod:`.region` in the charts of
+  :mod:`.plain`; said in a note), or found a point there, or reported as
+  :class:`~.model.Undecided` with how to decide it -- never as a stratum.
 
 The generic rank is found at a random exact point and proved an upper bound
 by reducing every (R+1)-minor to zero modulo the relations; so a family that
 is a product state for every parameter value is recognised as such, not
 mistaken for one that never is.  Every point and sample is checked by its
-exact rank before it is returned.
+exact rank before it is returned.  Every zero test, sign and order goes
+through the decision layer (:mod:`.proved`); the time limit stops the search
+with a LimitError, it never shortens the list.
 """
 
 from __future__ import annotations
@@ -463,9 +470,7 @@ def same_point(a: dict, b: dict) -> bool:
 
 
 def same_value(x: sympy.Expr, y: sympy.Expr) -> bool:
-    xr, xi = real_imag(x)
-    yr, yi = real_imag(y)
-    return order(xr, yr) == 0 and order(xi, yi) == 0
+    return zero(sympy.expand(x - y))
 
 
 def unique_points(points: list[dict]) -> list[dict]:
