@@ -162,3 +162,20 @@ def test_constants_with_pi_are_decided_exactly_and_quickly():
     angle = sympy.pi / 202
     assert is_zero(sympy.cos(angle) ** 2 + sympy.sin(angle) ** 2 - 1).value is True
     assert is_zero(sympy.cos(angle) * sympy.sin(angle) - sympy.sin(2 * angle) / 2).value is True
+
+
+def test_zeros_of_angles_growths_and_polynomials_are_found_exactly():
+    # cos t - sin t vanishes at pi/4 on [0, pi/2]; exp(t) = 2 at log 2; t cos t at pi/2 inside
+    # (0, 2); t^2 - 2 at sqrt 2 (all by hand)
+    from ketsplit.arith.decide import exact_zeros
+    assert exact_zeros(sympy.cos(t) - sympy.sin(t), t, 0, half_pi) == (sympy.pi / 4,)
+    assert exact_zeros(sympy.exp(t) - 2, t, 0, 1) == (sympy.log(2),)
+    assert exact_zeros(t * sympy.cos(t), t, 0, 2) == (half_pi,)
+    assert exact_zeros(t ** 2 - 2, t, 0, 2) == (sympy.sqrt(2),)
+    # cos 3t + sin(t)/2 on [0, 10]: every sign change mpmath finds lies next to a listed point
+    listed = [mp(z) for z in exact_zeros(sympy.cos(3 * t) + sympy.sin(t) / 2, t, 0, 10)]
+    f = lambda u: mpmath.cos(3 * u) + mpmath.sin(u) / 2
+    grid = [mpmath.mpf(k) / 100 for k in range(1001)]
+    for a, b in zip(grid, grid[1:]):
+        if f(a) * f(b) < 0:
+            assert any(a <= z <= b for z in listed)

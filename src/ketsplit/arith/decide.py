@@ -38,6 +38,7 @@ from ..language.errors import InputError
 from ..numeric.enclose import Encloser
 from .identity import TooLarge, constant_zero, identically_zero, parameters_of
 from .radicals import square_roots_as_moduli
+from .zeros import candidate_zeros
 from .ranges import Box, NoRange, bisect, midpoint, rational_inside, value_range
 
 T = TypeVar("T")
@@ -349,17 +350,14 @@ def _continuous(expr: sympy.Expr) -> bool:
 
 @lru_cache(maxsize=512)
 def exact_zeros(expr: sympy.Expr, symbol: sympy.Symbol, lo, hi) -> tuple[sympy.Expr, ...] | None:
-    """The exact zeros of a continuous real ``expr`` strictly inside (lo, hi), sorted; None
-    when they are not found completely (not continuous, too large, or an unsure order)."""
+    """Exact points strictly inside (lo, hi), sorted, that hold every zero of the continuous
+    real ``expr`` there (:mod:`.zeros`); None when they are not found completely (not
+    continuous, too large, or an unsure order)."""
     if not _continuous(expr) or sympy.count_ops(expr) > ZERO_SEARCH_OPS:
         return None
-    if expr.is_polynomial(symbol) and all(c.is_Rational for c in sympy.Poly(expr, symbol).coeffs()):
-        candidates = list(sympy.Poly(expr, symbol).real_roots())
-    else:
-        found = sympy.solveset(expr, symbol, sympy.Interval(lo, hi))
-        if not isinstance(found, sympy.FiniteSet):
-            return None
-        candidates = list(found)
+    candidates = candidate_zeros(expr, symbol, lo, hi)
+    if candidates is None:
+        return None
     inside = []
     for z in set(candidates):
         after, before = compare(z, lo), compare(z, hi)
