@@ -179,3 +179,13 @@ def test_zeros_of_angles_growths_and_polynomials_are_found_exactly():
     for a, b in zip(grid, grid[1:]):
         if f(a) * f(b) < 0:
             assert any(a <= z <= b for z in listed)
+
+
+def test_products_touching_zero_at_an_irrational_corner():
+    # cos t cos s >= 0 on [0, pi/2]^2 (each factor is, by hand); it is 0 on the far edges,
+    # where a ball around pi/2 always dips below zero, so the factors' signs must carry it
+    box = {t: (0, half_pi), s: (0, half_pi)}
+    assert sign(sympy.cos(t) * sympy.cos(s), box).value == 1
+    assert sign(-sympy.cos(t) * sympy.cos(s) ** 3, box).value == -1
+    found = sign(sympy.cos(t) - sympy.cos(s), box)  # both signs: cos is decreasing
+    assert found.value is None and mpmath.cos(mp(found.point[t])) < mpmath.cos(mp(found.point[s]))

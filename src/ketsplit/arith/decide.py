@@ -27,6 +27,7 @@ from __future__ import annotations
 
 from collections import deque
 from functools import cmp_to_key, lru_cache
+from math import prod
 from dataclasses import dataclass
 from typing import Generic, Mapping, TypeVar
 
@@ -273,7 +274,47 @@ def _one_sign(expr: sympy.Expr, box: Box, want: int) -> Decided[bool]:
     by_zeros = _sign_by_zeros(expr, box, want)
     if by_zeros is not None:
         return by_zeros
+    parts = _sign_from_parts(expr, box)
+    if parts is not None and parts * want >= 0:
+        return Decided(True, "the signs of its factors and terms, each proved on the box")
     return _range_proof(expr, box, want)
+
+
+def _sign_from_parts(expr: sympy.Expr, box: Box) -> int | None:
+    """1 (>= 0), -1 (<= 0) or 0 from the signs of the factors of a product, the terms of
+    a sum or the base of a power, each settled by one range evaluation or by its exact
+    zeros (cos t cos s >= 0 on [0, pi/2]^2, where ranges alone never reach the corner)."""
+    if expr.is_Mul or expr.is_Add:
+        signs = [_part_sign(a, box) for a in expr.args]
+        if None in signs:
+            return None
+        if expr.is_Mul:
+            return prod(signs)
+        if all(v >= 0 for v in signs):
+            return 1 if any(signs) else 0
+        if all(v <= 0 for v in signs):
+            return -1
+        return None
+    if expr.is_Pow and expr.exp.is_Integer and expr.base.is_extended_real:
+        if int(expr.exp) % 2 == 0:
+            return 1
+        return _part_sign(expr.base, box)
+    return None
+
+
+def _part_sign(expr: sympy.Expr, box: Box) -> int | None:
+    if not expr.free_symbols:
+        return _constant_sign(expr).value
+    if not expr.free_symbols <= set(box):
+        return 1 if expr.is_nonnegative else (-1 if expr.is_nonpositive else None)
+    whole = _whole_box_sign(expr, box)
+    if whole is not None:
+        return whole.value
+    for want in (1, -1):
+        found = _sign_by_zeros(expr, box, want)
+        if found is not None and found.value:
+            return want
+    return _sign_from_parts(expr, box)
 
 
 def _sample_points(expr: sympy.Expr, box: Box) -> list[Point]:
