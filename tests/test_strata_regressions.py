@@ -6,12 +6,15 @@ Every point and sample is also re-checked outside the strata code
 
 from __future__ import annotations
 
+import dataclasses
+
 import mpmath
 import pytest
 import sympy
 
 import ketsplit
 from ketsplit import Session
+from ketsplit.language.errors import LimitError
 from ketsplit.strata import strata
 
 from strata_checks import check_all, values_of
@@ -185,3 +188,13 @@ def test_a_locus_neither_sampled_nor_excluded_is_undecided_not_a_stratum():
         out = Session().run("real r; real s in [0, 1]\n"
                             "strata |00> + ((exp(r) - 3)^2 + (s - 1/5)^4)|11>")[-1].text()
         assert "UNDECIDED" in out and "how to decide" in out
+
+
+def test_a_spent_time_limit_in_the_shell_is_a_limit_error_at_the_state():
+    # issue 11: the shell's strata_budget must stop the statement with a clear LimitError
+    # (what was not finished), never print part of the table as the answer
+    session = Session()
+    session.settings = dataclasses.replace(session.settings, strata_budget=0.05)
+    with pytest.raises(LimitError, match="ran out while .* no table is given") as err:
+        session.run("real t, p\nstrata cos(t)|00> + sin(t) cos(p)|11> + sin(t) sin(p)|22>")
+    assert (err.value.line, err.value.column) == (2, 8)

@@ -25,7 +25,8 @@ def run_strata(call: CommandCall) -> Report:
         if err.span is not None:
             raise
         subject = call.subject()
-        raise call.error(err.message, call.offset + call.args.index(subject), len(subject)) from None
+        place = call.error(err.message, call.offset + call.args.index(subject), len(subject))
+        raise err.located(place.span, place.source) from None  # a LimitError stays one
     rows = tuple((s.rank, where(s, digits), point_cell(s.sample, digits)) for s in found)
     items = [Table(("rank", "where", "sample point"), rows)]
     notes = list(found.notes) + unused_ranges(call, state)

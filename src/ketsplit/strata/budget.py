@@ -42,6 +42,15 @@ class Budget:
         if self.remaining <= 0:
             raise self.exceeded()
 
+    def stopped(self, task: str) -> BudgetExceeded:
+        """The error for a limit that ran out during ``task``: what was not finished, and
+        what to do (no partial table is ever given)."""
+        return BudgetExceeded(
+            f"strata: the time limit of {self.seconds:g} s ran out while {task}, so no table is "
+            "given (it would be incomplete); raise the limit (strata_budget in the session "
+            "settings or a worksheet header, budget= in Python), narrow the ranges, or fix a "
+            "parameter with 'with'")
+
     def run(self, function: Callable[..., T], *args, **kwargs) -> T:
         """``function(*args, **kwargs)``, stopped when the budget runs out."""
         self.check()

@@ -123,12 +123,9 @@ class HolomorphicSearch:
         for rank in range(generic - 1, -1, -1):
             try:
                 self.level(rank)
-            except BudgetExceeded as err:
-                raise BudgetExceeded(
-                    f"strata: {err.message} while solving the minors for rank <= {rank} over the "
-                    "complex numbers, so no table is given (it would be incomplete); raise the "
-                    "limit (strata_budget in the shell, budget= in Python) or fix a parameter "
-                    "with 'with'") from None
+            except BudgetExceeded:
+                raise self.budget.stopped(f"solving the minors for rank <= {rank} over the "
+                                          "complex numbers") from None
         names = ", ".join(s.name for s in self.family.symbols)
         notes = (f"{names} {'are complex parameters' if len(self.family.symbols) > 1 else 'is a complex parameter'}"
                  ": each lower stratum is the complex algebraic set where the minors of the "

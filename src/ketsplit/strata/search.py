@@ -86,12 +86,8 @@ class Search:
         for rank in range(generic - 1, lowest - 1, -1):
             try:
                 self.level(rank)
-            except BudgetExceeded as err:
-                raise BudgetExceeded(
-                    f"strata: {err.message} while looking for the points of rank <= {rank}, so no "
-                    "table is given (it would be incomplete); raise the limit (strata_budget in "
-                    "the shell, budget= in Python), narrow the ranges, or fix a parameter with "
-                    "'with'") from None
+            except BudgetExceeded:
+                raise self.budget.stopped(f"looking for the points of rank <= {rank}") from None
         return Strata(self.assemble(generic), tuple(self.notes), tuple(self.undecided))
 
     def generic_rank(self) -> int:
