@@ -19,6 +19,7 @@ from ..render.report import Digits
 from .digits import certain_text, digits_cell
 
 BITS_PER_DIGIT = math.log2(10)
+EXACT_DECIMALS = 10 ** 6  # stands for 'every decimal' when a vector has no radius
 
 
 @dataclass(frozen=True)
@@ -77,11 +78,15 @@ class SchmidtVector:
         return full
 
     @property
+    def exact(self) -> bool:
+        return self.radius.man == 0 and self.radius.rad_man == 0
+
+    @property
     def decimals(self) -> int:
-        """Decimal places certain in every entry: radius < 10^-decimals / 2."""
+        """Decimal places certain in every entry: radius < 10^-decimals / 2 (EXACT_DECIMALS if exact)."""
         rad = self.radius.arb()
-        if rad == 0:
-            return 10 ** 6
+        if self.exact:
+            return EXACT_DECIMALS
         if not rad.is_finite():
             return 0
         places = int(-float((2 * rad).log()) / math.log(10))
@@ -227,7 +232,7 @@ class CertifiedDecomposition:
                  f"working precision {self.digits_tried} digits, shape {self.shape}"]
         lines += [f"  sigma_{k} = {certain_text(t.value, self.digits)} ({t.digits} digits"
                   + (f", cluster {t.cluster}" if t.cluster is not None else "")
-                  + (f", vectors to {min(t.left.decimals, t.right.decimals)} decimals)" if t.left else ")")
+                  + (f", vectors {_accuracy(t.left, t.right)})" if t.left else ", no vectors)")
                   for k, t in enumerate(self.terms, start=1)]
         lines += [f"  undecided: {b!r}" for b in self.undecided_balls]
         if self.zeros:
@@ -235,3 +240,9 @@ class CertifiedDecomposition:
         lines += [f"  cluster {c}: {cluster!r}" for c, cluster in enumerate(self.clusters)]
         return "\n".join(lines) + ")"
 
+
+
+def _accuracy(left: SchmidtVector, right: SchmidtVector) -> str:
+    if left.exact and right.exact:
+        return "exact"
+    return f"to {min(left.decimals, right.decimals)} decimals"

@@ -193,7 +193,10 @@ def eigen(a: IntMatrix, eta: arb, bits: int, goal: int) -> Eigen:
         new_p = max(p, min(target, 2 * accuracy + GUARD_BITS))
         x = x.shifted(new_p - p) + correction(new_p)
         p = new_p
-    return found if found is not None else certify(a, eta, x, p, a * x, x.adjoint() * x)[0]
+    found = found if found is not None else certify(a, eta, x, p, a * x, x.adjoint() * x)[0]
+    if found is None:
+        raise ArithmeticError("the eigenvector estimates are too far from orthonormal to certify")
+    return found
 
 
 def reaches(found: Eigen, goal: int) -> bool:

@@ -63,12 +63,19 @@ def certified_decomposition(state: State, cut: Cut | str | None = None, digits: 
     blocks = split_blocks(matrix)
     for block in blocks:
         block.check_size()
-    bits = start_bits(digits)
+    bits, result = start_bits(digits), None
     for _ in range(MAX_DOUBLINGS + 1):
-        result = attempt(blocks, bits, digits, matrix.shape, vectors)
-        if result.complete:
+        try:
+            result = attempt(blocks, bits, digits, matrix.shape, vectors)
+        except ArithmeticError:  # nothing certified at this precision (an entry too wide, say)
+            pass
+        if result is not None and result.complete:
             break
         bits *= 2
+    if result is None:
+        raise LimitError(f"no certified enclosure of the Schmidt coefficients up to "
+                         f"{int(bits / 2 / BITS_PER_DIGIT)} digits of working precision; write the "
+                         "amplitudes so that they can be enclosed (exact numbers, smaller magnitudes)")
     return result
 
 
