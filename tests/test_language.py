@@ -179,10 +179,19 @@ def test_gaussian_numbers_become_sympy_in_canonical_form():
     "(|00> + 2|11>)(|0> - i|1>)",              # runs inside brackets, then a product
     "2|0>|1> + 3|10>",                         # not a run: a product of kets
     "-(2+7i)|0> + 5|1>/2",                     # the last term binds tighter: left out of the run
+    "1/2|00> - (1+i)/4|01> + 3i/6|10> - i/2|11>",  # divisors
+    "1/0|0> + |1>",                            # division by zero: the ordinary route's error
 ])
 def test_runs_of_plain_terms_build_the_values_of_the_tree(text):
     from ketsplit.language.build import Builder, evaluate
     session = ketsplit.Session()
-    fast, _ = evaluate(text, session)
-    slow = Builder(session, text).build(parse_expression(text))  # node by node, no runs
-    assert fast.terms == slow.terms and fast.nparts == slow.nparts
+
+    def outcome(build):
+        try:
+            value = build()
+            return value.terms, value.nparts
+        except InputError as err:
+            return err.message, err.column
+    fast = outcome(lambda: evaluate(text, session)[0])
+    slow = outcome(lambda: Builder(session, text).build(parse_expression(text)))  # no runs
+    assert fast == slow

@@ -238,7 +238,7 @@ class Builder:
             return None
         terms: dict[tuple[int, ...], Scalar] = {}
         parts, allowed = 0, None
-        for sign, real, isign, im, whole, unit, alone, ket in RUN_TERM.findall(node.text):
+        for sign, real, isign, im, whole, unit, alone, den, ket in RUN_TERM.findall(node.text):
             if real:
                 imaginary = int(im or 1)
                 coefficient = Gaussian(int(real), imaginary if isign == "+" else -imaginary)
@@ -246,6 +246,10 @@ class Builder:
                 coefficient = Gaussian(0, int(whole)) if unit else Gaussian(int(whole), 0)
             else:
                 coefficient = numbers.I if alone else numbers.ONE
+            if den:
+                if not int(den):
+                    return None
+                coefficient = numbers.reduced(coefficient.re, coefficient.im, int(den))
             if sign == "-":
                 coefficient = numbers.negative(coefficient)
             label = ket[1:-1]

@@ -24,16 +24,18 @@ _MULTIPLY = {"*": "*", "·": "*", "/": "/", "⊗": "⊗"}
 
 
 def _term(named: bool, signed: bool) -> str:
-    """One term of a run: [sign] [coefficient] |digits>; the coefficient is n, n i, i or
-    (a + b i) with integers of at most 18 digits."""
+    """One term of a run: [sign] [coefficient [/ divisor]] |digits>; the coefficient is n,
+    n i, i or (a + b i), every integer of at most 18 digits."""
     def group(name: str, pattern: str) -> str:
         return f"(?P<{name}>{pattern})" if named else f"(?:{pattern})"
     coefficient = (r"\([ \t]*" + group("re", r"[-+]?[0-9]{1,18}") + r"[ \t]*" +
                    group("isign", "[-+]") + r"[ \t]*" + group("im", "[0-9]{1,18}") +
                    r"?[ \t]*i[ \t]*\)|" + group("int", "[0-9]{1,18}") + r"[ \t]*" +
                    group("unit", "i") + "?|" + group("alone", "i"))
+    divisor = r"(?:/[ \t]*" + group("den", "[0-9]{1,18}") + r"[ \t]*)?"
     sign = group("sign", "[-+]") + ("" if signed else "?")
-    return rf"[ \t]*{sign}[ \t]*(?:(?:{coefficient})[ \t]*)?{group('ket', r'[|][0-9]{1,64}>')}"
+    return (rf"[ \t]*{sign}[ \t]*(?:(?:{coefficient})[ \t]*{divisor})?"
+            rf"{group('ket', r'[|][0-9]{1,64}>')}")
 
 
 # where a run may end: before a sign, a closing bracket, a separator or the end

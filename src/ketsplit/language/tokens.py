@@ -3,12 +3,12 @@
 A ket ``|...>`` is one token: inside the bars the characters are labels, not
 operators, so ``|0,1,10>`` and ``|+->`` never reach the expression grammar.
 
-The whole line is split by one regular expression (:data:`TOKEN`), so that a
-state of many thousand terms costs about one pass of the regular-expression
-engine; only the rare tokens that need a closer look (non-ASCII letters, a
-``|`` that opens no ket, ``#``, a character outside the language) are
-examined one by one, in :func:`_resolve`.  The parser reads the result, a
-:class:`Scan`, by index; :func:`tokenize` gives the same tokens as objects.
+One regular expression (:data:`TOKEN`) matches every token, whitespace
+before it included; only the rare tokens that need a closer look (non-ASCII
+letters, a ``|`` that opens no ket, ``#``, a character outside the language)
+are examined further, in :func:`_resolve`.  The parser reads tokens one at a
+time from a :class:`Lexer`, so that it can pass over a long stretch of plain
+terms in one step; :func:`tokenize` gives all the tokens of a line as objects.
 """
 
 from __future__ import annotations
