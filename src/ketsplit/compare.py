@@ -20,6 +20,11 @@ Every zero, sign and order goes through the decision layer
 range arithmetic over the declared parameter ranges.  What it cannot decide
 stays undecided (``None``), with the layer's hint saying how to decide it (a
 point, more digits, a narrower range); nothing is guessed.
+
+A constant state whose spectrum has no closed form is compared in certified
+balls (python-flint): an order or a partial-sum comparison counts only when a
+ball proves it, equality of spectra is never claimed from balls, and the
+probabilities are balls whose printed digits are certain.
 """
 
 from __future__ import annotations
@@ -28,18 +33,22 @@ from dataclasses import dataclass, replace
 from functools import cmp_to_key
 
 import sympy
+from flint import arb, ctx
 
 from .arith.decide import Decided, compare as compare_values, is_nonnegative, is_zero
 from .cuts import Cut, parse_cut, reduced, side_dimension
 from .decomposition import schmidt
 from .exact.coerce import as_expr
-from .exact.eigen import eigenvalues
+from .exact.eigen import characteristic_polynomial, eigenvalues
+from .exact.errors import NoClosedForm
 from .exact.signs import box_of
 from .language.errors import InputError
 from .states import State
 
-Vector = tuple[sympy.Expr, ...]
+Value = sympy.Expr | arb       # exact, or a certified ball
+Vector = tuple[Value, ...]
 Box = dict
+MORE_DIGITS = "ask for more digits ('digits N')"
 
 
 class Undecided(InputError):
@@ -59,6 +68,8 @@ class Spectrum:
     ordered: bool = True
     why: str = ""
     points: tuple = ()          # parameter points met while trying to order the values
+    bits: int = 0               # > 0: the values are certified balls at this precision
+    reduced: sympy.Matrix | None = None   # certified: the exact reduced state they come from
 
     @property
     def ranges(self) -> Box:
@@ -68,14 +79,87 @@ class Spectrum:
 # -- spectra -------------------------------------------------------------------
 
 
-def spectrum(state: State, cut: Cut | str | None) -> Spectrum:
+def spectrum(state: State, cut: Cut | str | None, digits: int = 30) -> Spectrum:
     """The squared Schmidt coefficients of ``state`` across ``cut``, sorted where decidable.
 
     They are the nonzero eigenvalues of the smaller reduced state (no Schmidt
-    vectors are needed); a symmetric state reads them off its Dicke weights.
+    vectors are needed); a symmetric state reads them off its Dicke weights.  A
+    constant state without a closed-form spectrum gets certified balls.
     """
     box = box_of(state)
-    return ordered_spectrum(squared_coefficients(state, cut, box), box)
+    try:
+        return ordered_spectrum(squared_coefficients(state, cut, box), box)
+    except NoClosedForm as why:
+        if state.symbols:
+            names = sorted(s.name for s in state.symbols)
+            raise InputError(f"{why}; compare at a point for certified numbers, as in "
+                             f"'with {names[0]}=...'") from None
+        return certified_spectrum(state, cut, digits)
+
+
+def certified_spectrum(state: State, cut: Cut | str | None, digits: int) -> Spectrum:
+    """Certified balls of the squared coefficients (descending, as the balls prove it)."""
+    from .numeric.schmidt import certified_schmidt
+    found = certified_schmidt(state, cut, digits)
+    rho = reduced(state, smaller_side(state, cut))
+    with ctx.workprec(found.bits):
+        squares = tuple(c * c for c in found.coefficients)
+        separated = all(a > b for a, b in zip(squares, squares[1:]))
+    why = "" if found.rank is not None else \
+        f"the Schmidt rank is undecided at {found.digits_tried} digits; {MORE_DIGITS}"
+    if not why and not separated:
+        why = f"two squared coefficients are not separated at {found.digits_tried} digits; {MORE_DIGITS}"
+    return Spectrum(squares, (), not why, why, (), found.bits, rho)
+
+
+def real_and_imaginary(value: sympy.Expr) -> sympy.Expr:
+    """A constant written as a + b i with roots of unity expanded ((-1)^(1/3) = 1/2 + sqrt(3) i/2),
+    so that exact zero tests see the cancellations that a qutrit Fourier rotation leaves."""
+    return sympy.expand(sympy.expand_complex(value))
+
+
+def smaller_side(state: State, cut: Cut | str | None) -> tuple[int, ...]:
+    if not isinstance(cut, Cut):
+        cut = parse_cut(cut, state)
+    return cut.left if side_dimension(state, cut.left) <= side_dimension(state, cut.right) else cut.right
+
+
+def nonzero_part(coefficients: list[sympy.Expr]) -> Vector | None:
+    """The coefficients without the factor x^z of the zero eigenvalues (each zero proved);
+    None when a coefficient's zero test is undecided."""
+    kept = list(coefficients)
+    while len(kept) > 1:
+        zero = is_zero(kept[-1])
+        if zero.value is None:
+            return None
+        if not zero.value:
+            break
+        kept.pop()
+    return tuple(kept)
+
+
+def charpoly_of(found: Spectrum) -> Vector | None:
+    """Exact coefficients of prod (x - p_k) over the nonzero p_k, highest power first."""
+    if found.bits:  # computed only when the balls cannot tell the spectra apart
+        return nonzero_part([real_and_imaginary(c) for c in
+                             characteristic_polynomial(found.reduced).all_coeffs()])
+    x = sympy.Dummy("x")
+    return tuple(sympy.Poly(sympy.Mul(*(x - v for v in found.values)), x).all_coeffs())
+
+
+def same_charpoly(x: Spectrum, y: Spectrum) -> Decided[bool]:
+    """Equal spectra (nonzero values with multiplicity) decided exactly, without solving:
+    the monic polynomials whose roots they are must agree coefficient by coefficient."""
+    a, b = charpoly_of(x), charpoly_of(y)
+    if a is None or b is None:
+        return Decided(None, "a coefficient of a characteristic polynomial is undecided", MORE_DIGITS)
+    if len(a) != len(b):
+        return Decided(False, "the Schmidt ranks differ")
+    for p, q in zip(a, b):
+        found = is_zero(p - q)
+        if found.value is not True:
+            return Decided(found.value, f"the characteristic polynomials: {found.proof}", found.hint)
+    return Decided(True, "the characteristic polynomials of the reduced states agree exactly")
 
 
 def squared_coefficients(state: State, cut: Cut | str | None, box: Box) -> Vector:
@@ -90,9 +174,8 @@ def squared_coefficients(state: State, cut: Cut | str | None, box: Box) -> Vecto
         return tuple(schmidt(state, cut).squared)
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
-    smaller = cut.left if side_dimension(state, cut.left) <= side_dimension(state, cut.right) \
-        else cut.right
-    values = [value for value, count in eigenvalues(reduced(state, smaller)) for _ in range(count)]
+    values = [value for value, count in eigenvalues(reduced(state, smaller_side(state, cut)))
+              for _ in range(count)]
     return tuple(v for v in values if is_zero(v, box).value is not True)
 
 
@@ -278,6 +361,8 @@ class Comparison:
 
 def compare_spectra(x: Spectrum, y: Spectrum) -> Comparison:
     """The comparison of two spectra: the planner may supply them from any exact route."""
+    if x.bits or y.bits:
+        return compare_balls(x, y)
     box = {**x.ranges, **y.ranges}
     px, py = padded(x.values, y.values)
     lu = same_spectrum(x, y)
@@ -299,10 +384,117 @@ def compare_spectra(x: Spectrum, y: Spectrum) -> Comparison:
                       len(x.values) != len(y.values))
 
 
-def compare_across(source: State, cut_a: Cut | str | None, target: State, cut_b: Cut | str | None
-                   ) -> Comparison:
+# -- certified balls ---------------------------------------------------------------
+
+
+def compare_balls(x: Spectrum, y: Spectrum) -> Comparison:
+    """The comparison when a spectrum is certified: every verdict proved by balls or undecided.
+
+    Both vectors sum to 1 exactly (normalised states), so the k-th partial sum
+    of x is at most y's exactly when y's tail after k is at most x's; tails are
+    sums of balls proved positive, or exactly 0 past the rank, which keeps
+    "equal partial sums" (both 1) decidable.
+    """
+    bits = max(x.bits, y.bits)
+    with ctx.workprec(bits):
+        px, py = (tuple(ball(v, bits) for v in s.values) for s in (x, y))
+        px, py = padded(px, py)
+        tx, ty = tails(px), tails(py)
+        notes = tuple(dict.fromkeys(s.why for s in (x, y) if not s.ordered))
+        if notes:
+            unknown = (None,) * len(px)
+            return Comparison(px, py, sums_of(tx), sums_of(ty), unknown, None, None, None, None,
+                              None, notes, len(x.values) != len(y.values))
+        differ = any(is_exact_zero(a) != is_exact_zero(b) or (ball_sign(a - b) not in (0, None))
+                     for a, b in zip(px, py))
+        same = Decided(False, "the balls differ") if differ else same_charpoly(x, y)
+        if same.value:  # equal spectra: each converts to the other with certainty
+            ones = (True,) * len(px)
+            return Comparison(px, py, sums_of(tx), sums_of(ty), ones, True, True, True,
+                              sympy.Integer(1), sympy.Integer(1), (), len(x.values) != len(y.values))
+        steps = tuple(ball_at_most(b, a) for a, b in zip(tx, ty))
+        back = tuple(ball_at_most(a, b) for a, b in zip(tx, ty))
+        notes = () if None not in steps + back else (
+            f"a partial sum comparison is not settled by balls at this precision; {MORE_DIGITS}",)
+        if same.value is None:
+            notes += (f"LU-equivalence is undecided: {same.proof}; {same.hint}",)
+        return Comparison(px, py, sums_of(tx), sums_of(ty), steps, same.value, all_known(steps),
+                          all_known(back), ball_vidal(tx, ty), ball_vidal(ty, tx), notes,
+                          len(x.values) != len(y.values))
+
+
+def ball(value: Value, bits: int) -> Value:
+    """A ball for a value; an exact 0 stays exact."""
+    if isinstance(value, arb) or value == 0:
+        return value
+    from .numeric.enclose import enclose_real
+    return enclose_real(as_expr(value), bits)
+
+
+def is_exact_zero(value: Value) -> bool:
+    return not isinstance(value, arb) and value == 0
+
+
+def tails(x: Vector) -> Vector:
+    """tail[k] = sum of x[k+1:], exactly 0 past the last nonzero entry."""
+    found, total = [], sympy.Integer(0)
+    for value in reversed(x):
+        found.append(total)
+        total = value if is_exact_zero(total) else total + value
+    return tuple(reversed(found))
+
+
+def sums_of(tail: Vector) -> Vector:
+    """Partial sums 1 - tail (exactly 1 where the tail is exactly 0)."""
+    return tuple(sympy.Integer(1) if is_exact_zero(t) else 1 - t for t in tail)
+
+
+def ball_sign(value: Value) -> int | None:
+    """-1, 0, 1 when proved (0 only for an exact zero), else None."""
+    if is_exact_zero(value):
+        return 0
+    if value > 0:
+        return 1
+    return -1 if value < 0 else None
+
+
+def ball_at_most(small: Value, large: Value) -> bool | None:
+    """small <= large, proved by exact zeros or by a ball of the difference."""
+    if is_exact_zero(small) and is_exact_zero(large):
+        return True
+    found = ball_sign(large - small if not is_exact_zero(large) else -small)
+    return None if found is None else found >= 0
+
+
+def all_known(values: tuple[bool | None, ...]) -> bool | None:
+    if False in values:
+        return False
+    return True if all(v is True for v in values) else None
+
+
+def ball_vidal(source_tails: Vector, target_tails: Vector) -> Value | None:
+    """Vidal's minimum over the nonzero tails of the target: a ball, or exactly 0 or 1.
+    None when the smallest candidate is not proved."""
+    candidates: list[Value] = [sympy.Integer(1)]
+    for a, b in zip(source_tails, target_tails):
+        if is_exact_zero(b):
+            break
+        candidates.append(sympy.Integer(0) if is_exact_zero(a) else a / b)
+    best = candidates[0]
+    for value in candidates[1:]:
+        if is_exact_zero(value):
+            return value
+        order = ball_sign(value - best)
+        if order is None:
+            return None
+        best = value if order < 0 else best
+    return best
+
+
+def compare_across(source: State, cut_a: Cut | str | None, target: State, cut_b: Cut | str | None,
+                   digits: int = 30) -> Comparison:
     """The comparison with a cut of its own for each state; the local dimensions may differ."""
-    return compare_spectra(spectrum(source, cut_a), spectrum(target, cut_b))
+    return compare_spectra(spectrum(source, cut_a, digits), spectrum(target, cut_b, digits))
 
 
 def compare(source: State, target: State, cut: Cut | str | None = None) -> Comparison:

@@ -232,10 +232,11 @@ def run_compare(call: CommandCall) -> Report:
                       for t, label in ((a_text, "A"), (b_text, "B")))
     span = Span(call.line, column + 1, len(cut_text or "x"))
     cut_a, cut_b = (parse_cut(cut_text, s, span, call.source) for s in (a, b))
-    found = compare_across(a, cut_a, b, cut_b)
     digits = call.session.settings.digits
-    rows = tuple((k + 1, x, y, sx, sy, _yes(step)) for k, (x, y, sx, sy, step) in enumerate(
-        zip(found.source, found.target, found.source_sums, found.target_sums, found.steps)))
+    found = compare_across(a, cut_a, b, cut_b, digits)
+    rows = tuple((k + 1, *(_ball_cell(v, digits) for v in values), _yes(step)) for k, (*values, step)
+                 in enumerate(zip(found.source, found.target, found.source_sums, found.target_sums,
+                                  found.steps)))
     items = (
         Table(("k", f"{a_name}: p_k", f"{b_name}: p_k", f"{a_name}: sum to k", f"{b_name}: sum to k",
                f"{a_name} sum <= {b_name} sum"), rows),
@@ -254,10 +255,17 @@ def run_compare(call: CommandCall) -> Report:
     return Report(f"comparison of {a_name} and {b_name} across {cut_a.describe(a)}", items, notes)
 
 
+def _ball_cell(value, digits: int):
+    """A certified ball as its certain digits (a spectrum without closed form); else as is."""
+    return digits_cell(value, digits) if isinstance(value, arb) else value
+
+
 def _exact_and_digits(value: sympy.Expr, digits: int):
     """The exact value, with certified digits beside it when it is irrational."""
     if value is None:
         return "undecided"
+    if isinstance(value, arb):
+        return digits_cell(value, digits)
     if value.is_Rational or value.free_symbols:
         return value
     return replace(certified(value, digits), exact=value)
