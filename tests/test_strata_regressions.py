@@ -170,24 +170,39 @@ def test_an_angle_range_with_a_transcendental_end_is_decided():
     assert found[1].sample == {s: 0, t: 0}
 
 
-def test_a_locus_neither_sampled_nor_excluded_is_undecided_not_a_stratum():
-    # By hand: (e^r - 3)^2 + (s - 1/5)^4 = 0 only at r = log 3, s = 1/5.  Exponential
-    # parameters have no exact chart yet: the answer is that point, or "undecided" with a
-    # hint -- never a stratum without a point, and never "for every parameter value".
+def test_an_exponential_point_missed_by_simple_values_is_found_exactly():
+    # By hand: (e^r - 3)^2 + (s - 1/5)^4 = 0 only at r = log 3, s = 1/5; on r in [0, 1] it
+    # has no point (e^1 < 3), which must be proved, not just not found
     psi = ketsplit.ket("|00> + ((exp(r) - 3)^2 + (s - 1/5)^4)|11>", real="r s",
                        ranges={"s": (0, 1)})
     r, s = psi.parameter("r").symbol, psi.parameter("s").symbol
     found = strata(psi, "1|2")
+    assert [x.rank for x in found] == [2, 1]
+    assert found[1].sample == {r: sympy.log(3), s: sympy.Rational(1, 5)}
+    check_all(found, psi, "1|2")
+    short = ketsplit.ket("|00> + ((exp(r) - 3)^2 + (s - 1/5)^4)|11>", real="r s",
+                         ranges={"r": (0, 1), "s": (0, 1)})
+    found = strata(short, "1|2")
+    assert [x.rank for x in found] == [2] and not found.undecided
+
+
+def test_a_locus_neither_sampled_nor_excluded_is_undecided_not_a_stratum():
+    # By hand: (sqrt(x + 1) - 6/5)^2 + (y - 1/5)^4 = 0 only at x = 36/25 - 1 = 11/25, y = 1/5.
+    # Square roots of parameters have no exact chart yet: the answer is that point, or
+    # "undecided" with a hint -- never a stratum without a point, never "for every value".
+    text = "|00> + ((sqrt(x + 1) - 6/5)^2 + (y - 1/5)^4)|11>"
+    psi = ketsplit.ket(text, real="x y", ranges={"x": (0, 1), "y": (0, 1)})
+    x, y = psi.parameter("x").symbol, psi.parameter("y").symbol
+    found = strata(psi, "1|2")
     assert "for every parameter value" not in found[0].description
     if len(found) == 2:
-        assert found[1].sample == {r: sympy.log(3), s: sympy.Rational(1, 5)}
-    else:
-        assert [x.rank for x in found] == [2]
-        (locus,) = found.undecided
-        assert locus.rank == 1 and "ranges" in locus.hint
-        out = Session().run("real r; real s in [0, 1]\n"
-                            "strata |00> + ((exp(r) - 3)^2 + (s - 1/5)^4)|11>")[-1].text()
-        assert "UNDECIDED" in out and "how to decide" in out
+        assert found[1].sample == {x: sympy.Rational(11, 25), y: sympy.Rational(1, 5)}
+        return
+    assert [s.rank for s in found] == [2]
+    (locus,) = found.undecided
+    assert locus.rank == 1 and "ranges" in locus.hint
+    out = Session().run(f"real x, y in [0, 1]\nstrata {text}")[-1].text()
+    assert "UNDECIDED" in out and "how to decide" in out
 
 
 def test_a_spent_time_limit_in_the_shell_is_a_limit_error_at_the_state():

@@ -16,7 +16,9 @@ applies:
   (theta_end = 1/10) is replaced by a rational just outside it (the order
   proved by the decision layer): the chart then covers a little more than the
   range, which keeps a proof of "no point" valid; a point found there is
-  checked against the true range by the caller.
+  checked against the true range by the caller;
+- a growth e = exp(g t) > 0 keeps its variable on [0, oo), or on the interval
+  of exp(g lo), exp(g hi) (rational outer ends where these are not radicals).
 
 Any other kind of coordinate has no chart: the caller then says "undecided".
 """
@@ -82,6 +84,12 @@ def coordinate_options(c: Coordinate) -> list[Option] | None:
         return [({var: var}, {var: ends})]
     if c.kind == "angle":
         return angle_options(c)
+    if c.kind == "growth":
+        var = c.variables[0]
+        if c.parameter.range is None:
+            return [({var: var}, {var: (sympy.Integer(0), None)})]
+        lo, hi = (sympy.exp(c.scale * end) for end in c.parameter.range)
+        return [({var: var}, {var: (outer(lo, -1), outer(hi, 1))})]
     return None
 
 
@@ -105,21 +113,21 @@ def tau_pieces(c: Coordinate) -> tuple[list[Bounds], bool]:
         return [(None, None)], True
     shift = 2 * pi * sympy.floor((lo + pi) / (2 * pi))
     lo, hi = lo - shift, hi - shift            # lo in [-pi, pi)
-    lower = None if order(lo, -pi) == 0 else half_tangent(lo, -1)
+    lower = None if order(lo, -pi) == 0 else outer(sympy.tan(lo / 2), -1)
     if order(hi, pi) < 0:
-        return [(lower, half_tangent(hi, 1))], lower is None
+        return [(lower, outer(sympy.tan(hi / 2), 1))], lower is None
     if order(hi, pi) == 0:
         return [(lower, None)], True
-    return [(lower, None), (None, half_tangent(hi - 2 * pi, 1))], True
+    return [(lower, None), (None, outer(sympy.tan(hi / 2 - pi), 1))], True
 
 
-def half_tangent(theta: sympy.Expr, side: int) -> sympy.Expr:
-    """tan(theta / 2) as a radical, or a rational just below (side -1) or above (side 1) it."""
-    exact = sympy.radsimp(sympy.tan(theta / 2))
+def outer(value: sympy.Expr, side: int) -> sympy.Expr:
+    """The value as a radical, or a rational just below (side -1) or above (side 1) it."""
+    exact = sympy.radsimp(value)
     if not exact.atoms(sympy.Function):
         return exact
     for digits in (20, 40, 80):
         guess = sympy.Rational(str(sympy.N(exact, digits))) + side * sympy.Rational(1, 10 ** (digits - 5))
         if order(guess, exact) == side:  # the rounding is a choice; the side is proved
             return guess
-    raise ArithmeticError(f"could not bound tan({theta / 2}) by a rational")
+    raise ArithmeticError(f"could not bound {value} by a rational")

@@ -220,13 +220,21 @@ class Search:
             if used <= set(box) and nowhere_zero(equations, {s: box[s] for s in used}, self.budget):
                 return Located(None, True, f"range arithmetic over the ranges, bisected, keeps "
                                            f"{what} away from zero")
-        found = charts(core[0], coords) if len(core) == 1 and not self.family.form.radicals \
-            else None
-        if found is None:
-            return Located(None, False, "range arithmetic could not exclude it, and it is not one "
-                                        "polynomial equation in real parameters and angles with "
-                                        "exact range ends, which exact search handles")
-        return locate_in_charts(found, self.budget)
+        if self.family.form.radicals:
+            return Located(None, False, "range arithmetic could not exclude it, and exact search "
+                                        "does not handle square roots of the parameters")
+        for equation in core:  # one equation without a point in the ranges rules out the rest
+            found = charts(equation, coords)
+            if found is None:
+                return Located(None, False, "range arithmetic could not exclude it, and exact "
+                                            "search handles real, positive, angle and growth "
+                                            "parameters only")
+            located = locate_in_charts(found, self.budget)
+            if located.empty or len(core) == 1:
+                return located
+        return Located(None, False, "range arithmetic could not exclude it, and exact search "
+                                    "decides one equation at a time: each of its equations has "
+                                    "points in the ranges, but not all at once as far as found")
 
     def equations(self, core) -> tuple[sympy.Expr, ...]:
         return tuple(self.family.form.original(b) for b in core)
