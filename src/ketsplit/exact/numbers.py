@@ -32,6 +32,7 @@ from sympy.polys.matrices import DomainMatrix
 from sympy.polys.polyerrors import BasePolynomialError, CoercionFailed
 
 from .eigen import LAMBDA, NoClosedForm, solve_factor
+from .tidy import expanded
 
 Vector = sympy.Matrix
 Piece = tuple[sympy.Expr, Vector, Vector]
@@ -329,7 +330,7 @@ def rank_one(found: NumberBlock) -> Piece:
 
 
 def _vector(values: list[sympy.Expr]) -> Vector:
-    return Vector([v if v.is_Rational else sympy.expand(v) for v in values])
+    return Vector([expanded(v) for v in values])
 
 
 def root(value: sympy.Expr) -> sympy.Expr:

@@ -212,7 +212,7 @@ def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]
 
 def embed(vector: Vector, positions: list[int], size: int) -> Vector:
     """The block's vector placed in the whole side space (sparse when that space is large)."""
-    entries = {(p, 0): vector[k] for k, p in enumerate(positions) if vector[k] != 0}
+    entries = {(positions[k], 0): value for (k, _), value in vector.todok().items() if value != 0}
     if size > DENSE_VECTOR_SIZE:
         return sympy.SparseMatrix._new(size, 1, entries)
     full = sympy.zeros(size, 1)

@@ -13,16 +13,16 @@ residual entry is evaluated as a python-flint ball:
   form, is replaced by another).  This is an internal consistency check of our
   own output, never a verdict shown to the user.
 
-Only entries where something can be nonzero are evaluated: vectors with
+Each coefficient and vector entry is enclosed once; the residuals are formed
+in ball arithmetic, and only where something can be nonzero: vectors with
 disjoint supports (pieces from different blocks) are orthogonal by
-construction, so the cost follows the blocks, and it stays below the cost of
+construction.  So the cost follows the blocks, and it stays below the cost of
 the decomposition that built the pieces.
 """
 
 from __future__ import annotations
 
 import random
-from typing import Iterable
 
 import sympy
 from flint import acb, arb
@@ -44,55 +44,22 @@ class DecompositionError(ArithmeticError):
 
 def verify_rebuild(decomposition) -> None:
     """The residual of ``decomposition`` (state, cut, coefficients, left, right) is zero."""
-    state, cut = decomposition.state, decomposition.cut
-    expressions = residuals(decomposition) + gram_residuals(decomposition.left)
-    scale = [v for v in state.amplitudes.values()]
+    state = decomposition.state
     if not state.symbols:
-        check_at({}, expressions, scale)
+        check_at({}, decomposition)
         return
     rng = random.Random(20261202)
     checked = 0
     for _ in range(TRIES):
-        if check_at(random_point(state, rng), expressions, scale, strict=False):
+        if check_at(random_point(state, rng), decomposition, strict=False):
             checked += 1
             if checked == POINTS:
                 return
     raise DecompositionError("the rebuild check found no parameter point without a pole")
 
 
-def residuals(decomposition) -> list[sympy.Expr]:
-    """sum_k sigma_k u_k w_k^T - C, entry by entry, over the entries some piece or C touches."""
-    state, cut = decomposition.state, decomposition.cut
-    residual: dict[tuple[int, int], sympy.Expr] = {}
-    for label, amp in state.amplitudes.items():
-        residual[(side_index(label, cut.left, state.dims), side_index(label, cut.right, state.dims))] = -amp
-    for sigma, u, w in zip(decomposition.coefficients, decomposition.left, decomposition.right):
-        right = nonzero_entries(w)
-        for i, u_i in nonzero_entries(u):
-            for j, w_j in right:
-                residual[(i, j)] = residual.get((i, j), 0) + sigma * u_i * w_j
-    return list(residual.values())
-
-
-def gram_residuals(vectors: list[sympy.Matrix]) -> list[sympy.Expr]:
-    """<u_k|u_m> - delta_km for the pairs whose supports meet (others are orthogonal)."""
-    entries = [dict(nonzero_entries(v)) for v in vectors]
-    by_index: dict[int, list[int]] = {}
-    for k, found in enumerate(entries):
-        for i in found:
-            by_index.setdefault(i, []).append(k)
-    pairs = {(k, m) for ks in by_index.values() for k in ks for m in ks if m >= k}
-    out = []
-    for k, m in sorted(pairs):
-        shared = entries[k].keys() & entries[m].keys()
-        value = sympy.Add(*(sympy.conjugate(entries[k][i]) * entries[m][i] for i in shared))
-        out.append(value - (1 if k == m else 0))
-    return out
-
-
-def check_at(point: dict, expressions: list[sympy.Expr], scale: Iterable[sympy.Expr],
-             strict: bool = True) -> bool:
-    """Every expression at ``point`` is a ball holding zero, narrow relative to the entries.
+def check_at(point: dict, decomposition, strict: bool = True) -> bool:
+    """Every residual at ``point`` is a ball holding zero, narrow relative to the entries.
 
     Raises DecompositionError on a ball that excludes zero.  A ball that is not
     finite at every precision (a pole) returns False when ``strict`` is off (the
@@ -100,7 +67,7 @@ def check_at(point: dict, expressions: list[sympy.Expr], scale: Iterable[sympy.E
     """
     finite = False
     for bits in LADDER:
-        balls = _balls(point, list(expressions), list(scale), bits)
+        balls = residual_balls(point, decomposition, bits)
         if balls is None:
             continue  # a pole, or a cancellation this precision cannot resolve yet
         finite = True
@@ -116,19 +83,54 @@ def check_at(point: dict, expressions: list[sympy.Expr], scale: Iterable[sympy.E
     raise DecompositionError(f"the rebuild residual is not narrow at {LADDER[-1]} bits at {_text(point)}")
 
 
-def _balls(point: dict, expressions: list, scale: list, bits: int):
+def residual_balls(point: dict, decomposition, bits: int) -> tuple[list[acb], arb] | None:
+    """Balls of sum_k sigma_k u_k w_k^T - C (over the entries some piece or C touches) and
+    of <u_k|u_m> - delta_km (over the pairs whose supports meet), with the size of C.
+
+    Each sigma and vector entry is enclosed once and the sums are formed in ball
+    arithmetic, so the cost is one enclosure per value plus a product per entry.
+    None when some value is not finite at this precision.
+    """
+    state, cut = decomposition.state, decomposition.cut
     encloser = Encloser(bits)
     try:
         for symbol, value in point.items():
             encloser.memo[symbol] = encloser(value)
-        values = [encloser(e) for e in expressions]
-        sizes = [encloser(e) for e in scale]
+        amplitudes = {(side_index(label, cut.left, state.dims), side_index(label, cut.right, state.dims)):
+                      encloser(amp) for label, amp in state.amplitudes.items()}
+        pieces = [(encloser(sigma), [(i, encloser(v)) for i, v in nonzero_entries(u)],
+                   [(j, encloser(v)) for j, v in nonzero_entries(w)])
+                  for sigma, u, w in zip(decomposition.coefficients, decomposition.left, decomposition.right)]
     except (ZeroDivisionError, ValueError):
         return None
-    if not all(v.is_finite() for v in values + sizes):
+    residual = {key: -value for key, value in amplitudes.items()}
+    for sigma, left, right in pieces:
+        for i, u_i in left:
+            scaled_u = sigma * u_i
+            for j, w_j in right:
+                residual[(i, j)] = residual.get((i, j), acb(0)) + scaled_u * w_j
+    values = list(residual.values()) + gram_balls([left for _, left, _ in pieces])
+    if not all(v.is_finite() for v in values + list(amplitudes.values())):
         return None
-    size = max((abs(v).upper() for v in sizes), default=arb(1))
+    size = max((abs(v).upper() for v in amplitudes.values()), default=arb(1))
     return values, max(size, arb(1))
+
+
+def gram_balls(vectors: list[list[tuple[int, acb]]]) -> list[acb]:
+    """<u_k|u_m> - delta_km for the pairs whose supports meet (others are orthogonal)."""
+    entries = [dict(v) for v in vectors]
+    by_index: dict[int, list[int]] = {}
+    for k, found in enumerate(entries):
+        for i in found:
+            by_index.setdefault(i, []).append(k)
+    pairs = {(k, m) for ks in by_index.values() for k in ks for m in ks if m >= k}
+    out = []
+    for k, m in sorted(pairs):
+        total = acb(-1 if k == m else 0)
+        for i in entries[k].keys() & entries[m].keys():
+            total += entries[k][i].conjugate() * entries[m][i]
+        out.append(total)
+    return out
 
 
 def _narrow(value: acb, size: arb) -> bool:

@@ -35,13 +35,20 @@ def tidy(value: sympy.Expr) -> sympy.Expr:
 
 def neat_number(value: sympy.Expr) -> sympy.Expr:
     """A number expanded, and rationalised by radsimp when small with unnested radicals."""
-    value = sympy.expand(value)
+    value = expanded(value)
     if value.is_Rational or not _root_in_denominator(value) or _nested_root(value) \
             or sympy.count_ops(value) > MAX_RADSIMP_OPS:
         return value
     if value.has(sympy.cos, sympy.sin, sympy.exp, sympy.log, sympy.acos, sympy.CRootOf):
         return value  # radsimp would ask minimal_polynomial about transcendental-looking terms
     return sympy.expand(sympy.radsimp(value))
+
+
+def expanded(value: sympy.Expr) -> sympy.Expr:
+    """``sympy.expand``, skipped for a product or power with no sum inside (nothing to expand)."""
+    if value.is_Atom or not any(node.is_Add for node in sympy.preorder_traversal(value)):
+        return value
+    return sympy.expand(value)
 
 
 def _root_in_denominator(value: sympy.Expr) -> bool:
