@@ -20,7 +20,7 @@ any rounding and the certificate needs no rounding-error analysis.
    Y = A0 X, with d_k the Rayleigh quotients (any real numbers would do):
 
    - e >= ||G - I||_F.  If e < 1, sigma_min(X) >= sqrt(1 - e).
-   - Kahan's theorem (Parlett, The Symmetric Eigenvalue Problem, Thm 11.5.1;
+   - Kahan's theorem (Parlett, The Symmetric Eigenvalue Problem, ch. 11;
      X square): the sorted eigenvalues of A and the sorted d_k differ by at
      most f = ||A X - X D||_2 / sigma_min(X) <= (||Y - X D||_F + eta
      sqrt(1 + e)) / sqrt(1 - e).
@@ -33,8 +33,11 @@ any rounding and the certificate needs no rounding-error analysis.
      lies within ||G_K - I||_F + sqrt(2) ||sin Theta||_F of X_K, column by
      column (the Procrustes bound ||Q - U W||_F <= sqrt(2) ||sin Theta||_F).
      A cluster of one is an eigenvector, unique up to a phase: fixing the
-     phase so that entry j (the largest of x) is real positive adds
-     2 (eps + |Im x_j|) ||x|| / |x_j| to the bound.
+     phase so that entry j (the largest of x, with Re x_j > 0) is real
+     positive adds 2 (eps + |Im x_j|) ||x|| / |x_j| to the bound, since
+     |z/|z| - w/|w|| <= 2 |z - w| / |w|.
+
+(Journal references recalled from memory.)
 """
 
 from __future__ import annotations
@@ -108,9 +111,11 @@ def _floats(matrix: fmpz_mat, shift: int):
     """matrix 2^-shift in float64, each entry to about 60 bits relative to the largest."""
     import numpy
     values = _objects(matrix)
-    top = int(numpy.max(numpy.abs(values))) if values.size else 0
-    drop = max(0, top.bit_length() - 1000)  # float64 holds integers up to 2^1024
-    return numpy.ldexp((values >> drop if drop else values).astype(float), drop - shift)
+    try:
+        return numpy.ldexp(values.astype(float), -shift)
+    except OverflowError:  # float64 holds integers below 2^1024: drop low bits first
+        drop = int(numpy.max(numpy.abs(values))).bit_length() - 1000
+        return numpy.ldexp((values >> drop).astype(float), drop - shift)
 
 
 def from_floats(z, bits: int) -> IntMatrix:
@@ -184,7 +189,7 @@ def eigen(a: IntMatrix, eta: arb, bits: int, goal: int) -> Eigen:
     for _ in range(MAX_STEPS):
         y, g = a * x, x.adjoint() * x
         if p >= target:
-            found, residual = certify(a, eta, x, p, y, g)
+            found, residual = certify(a, eta, x, xf, p, y, g)
             if residual is not None and (reaches(found, goal) or (last is not None and residual > last / 16)):
                 return found
             last = residual if residual is not None else last
@@ -193,7 +198,7 @@ def eigen(a: IntMatrix, eta: arb, bits: int, goal: int) -> Eigen:
         new_p = max(p, min(target, 2 * accuracy + GUARD_BITS))
         x = x.shifted(new_p - p) + correction(new_p)
         p = new_p
-    found = found if found is not None else certify(a, eta, x, p, a * x, x.adjoint() * x)[0]
+    found = found if found is not None else certify(a, eta, x, xf, p, a * x, x.adjoint() * x)[0]
     if found is None:
         raise ArithmeticError("the eigenvector estimates are too far from orthonormal to certify")
     return found
@@ -333,9 +338,11 @@ def untilt(xf, xe, x: IntMatrix, p: int):
 
 
 # -- certification ----------------------------------------------------------------
-def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMatrix
+def certify(a: IntMatrix, eta: arb, x: IntMatrix, xf, p: int, y: IntMatrix, g: IntMatrix
             ) -> tuple[Eigen | None, float | None]:
     """The enclosures from exact Y = A0 X (scale 2^-p) and G = X^H X (scale 2^-2p).
+
+    ``xf`` is a float copy of X, used only to pick each column's pivot.
 
     Also returns the larger of ||G - I|| and the residual of A0 relative to
     ||A0|| (a float, to steer the refinement); (None, None) when X is too
@@ -347,23 +354,25 @@ def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMa
     xr, xi = x.arrays()
     yr, yi = y.arrays()
     gr, gi = g.arrays()
-    gr = gr - numpy.diag([one] * n)
+    diagonal = numpy.arange(n)
+    gr[diagonal, diagonal] -= one                                         # G - I
     e = _upper_sqrt(int((gr * gr + gi * gi).sum()), 2 * p)
     if not e < 1:
         return None, None
-    lengths = [int(v) + one for v in numpy.diagonal(gr)]
-    rayleigh = (xr * yr + xi * yi).sum(axis=0)                            # scale 2^-2p
-    d = [_round_div(int(v) << p, length) for v, length in zip(rayleigh, lengths)]  # scale 2^-p
-    dd = numpy.array(d, dtype=object)[None, :]
-    rr, ri = (yr << p) - xr * dd, (yi << p) - xi * dd                      # scale 2^-2p
-    squares = [int(v) for v in (rr * rr + ri * ri).sum(axis=0)]
+    lengths = [int(v) + one for v in gr[diagonal, diagonal]]             # ||x_k||^2, scale 2^-2p
+    rayleigh = [int(v) for v in (xr * yr + xi * yi).sum(axis=0)]         # Re x_k^H y_k, scale 2^-2p
+    d = [_round_div(v << p, length) for v, length in zip(rayleigh, lengths)]  # scale 2^-p
+    images = [int(v) for v in (yr * yr + yi * yi).sum(axis=0)]           # ||y_k||^2, scale 2^-2p
+    # ||y_k - d_k x_k||^2 2^(4p), exactly, from the three column products
+    squares = [(w << (2 * p)) - ((dk * v) << (p + 1)) + dk * dk * length
+               for w, dk, v, length in zip(images, d, rayleigh, lengths)]
     base, stretch = (1 - e).sqrt(), (1 + e).sqrt()
     exact_part = _upper_sqrt(sum(squares), 2 * p)
     f = ((exact_part + eta * stretch) / base).upper()
     order = sorted(range(n), key=lambda k: d[k])
     centers = [arb(d[k]) / arb(2) ** p for k in order]
     clusters = _clusters(centers, f)
-    pivots = [int(k) for k in numpy.argmax(xr * xr + xi * xi, axis=0)]
+    pivots = [int(k) for k in numpy.argmax(numpy.abs(xf), axis=0)]  # a largest entry (float copy)
     errors: list[arb] = [arb(0)] * n
     angles = []
     for cluster in clusters:
@@ -386,10 +395,14 @@ def certify(a: IntMatrix, eta: arb, x: IntMatrix, p: int, y: IntMatrix, g: IntMa
 
 
 def _phase_fixed(bound: arb, col: int, j: int, xr, xi, lengths: list[int], p: int) -> arb:
-    """The error bound once the phase makes entry j real positive (see the module text)."""
+    """The error bound once the phase makes entry j real positive (see the module text).
+
+    Needs Re x_j > 0 (then |x_j/|x_j| - 1| <= 2 |Im x_j| / |x_j|) and |x_j| > eps
+    (then the true entry is not zero).
+    """
     scale = arb(2) ** p
     top = (arb(int(xr[j, col])) ** 2 + arb(int(xi[j, col])) ** 2).sqrt() / scale
-    if not top > bound:
+    if not (xr[j, col] > 0 and top > bound):
         return arb("inf")
     length = (arb(lengths[col]) / scale ** 2).sqrt()
     tilt = abs(arb(int(xi[j, col]))) / scale
