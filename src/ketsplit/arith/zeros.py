@@ -14,6 +14,8 @@ points) is all the sign proof needs.  The list comes from polynomials:
   t = log(e) / g;
 - t as itself in a rational function: the real roots of the numerator.
 
+A modulus |f| is taken off: where f keeps its sign the expression is one of
+its two versions with f or -f, so the zeros of those and of f hold them all.
 Anything else goes to sympy's ``solveset`` on the interval, trusted only when
 it answers with a finite set.
 """
@@ -29,6 +31,9 @@ from .identity import parameters_of
 def candidate_zeros(expr: sympy.Expr, symbol: sympy.Symbol, lo: sympy.Expr, hi: sympy.Expr
                     ) -> list[sympy.Expr] | None:
     """Exact points holding every zero of the real ``expr`` on [lo, hi]; None when unknown."""
+    moduli = sorted(expr.atoms(sympy.Abs), key=sympy.default_sort_key)
+    if moduli:
+        return _without_modulus(expr, moduli[0], symbol, lo, hi)
     direct = _rational_roots(expr, symbol)
     if direct is not None:
         return direct
@@ -44,6 +49,20 @@ def candidate_zeros(expr: sympy.Expr, symbol: sympy.Symbol, lo: sympy.Expr, hi: 
     except NoPolynomialForm:
         found = None
     return found if found is not None else _solved(expr, symbol, lo, hi)
+
+
+def _without_modulus(expr: sympy.Expr, modulus: sympy.Abs, symbol: sympy.Symbol,
+                     lo: sympy.Expr, hi: sympy.Expr) -> list[sympy.Expr] | None:
+    """Where f keeps a sign, expr is expr with |f| -> f or -f: the zeros of both of those
+    and of f hold every zero of expr."""
+    inner = modulus.args[0]
+    found: list[sympy.Expr] = []
+    for part in (inner, expr.xreplace({modulus: inner}), expr.xreplace({modulus: -inner})):
+        zeros = candidate_zeros(part, symbol, lo, hi)
+        if zeros is None:
+            return None
+        found.extend(zeros)
+    return list(dict.fromkeys(found))
 
 
 def _rational_roots(poly: sympy.Expr, variable: sympy.Symbol) -> list[sympy.Expr] | None:
