@@ -69,7 +69,7 @@ class Spectrum:
     why: str = ""
     points: tuple = ()          # parameter points met while trying to order the values
     bits: int = 0               # > 0: the values are certified balls at this precision
-    reduced: sympy.Matrix | None = None   # certified: the exact reduced state they come from
+    origin: tuple = ()          # certified: (state, cut) they come from, for exact equality
 
     @property
     def ranges(self) -> Box:
@@ -101,7 +101,6 @@ def certified_spectrum(state: State, cut: Cut | str | None, digits: int) -> Spec
     """Certified balls of the squared coefficients (descending, as the balls prove it)."""
     from .numeric.schmidt import certified_schmidt
     found = certified_schmidt(state, cut, digits)
-    rho = reduced(state, smaller_side(state, cut))
     with ctx.workprec(found.bits):
         squares = tuple(c * c for c in found.coefficients)
         separated = all(a > b for a, b in zip(squares, squares[1:]))
@@ -109,7 +108,7 @@ def certified_spectrum(state: State, cut: Cut | str | None, digits: int) -> Spec
         f"the Schmidt rank is undecided at {found.digits_tried} digits; {MORE_DIGITS}"
     if not why and not separated:
         why = f"two squared coefficients are not separated at {found.digits_tried} digits; {MORE_DIGITS}"
-    return Spectrum(squares, (), not why, why, (), found.bits, rho)
+    return Spectrum(squares, (), not why, why, (), found.bits, (state, cut))
 
 
 def real_and_imaginary(value: sympy.Expr) -> sympy.Expr:
@@ -122,6 +121,16 @@ def smaller_side(state: State, cut: Cut | str | None) -> tuple[int, ...]:
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
     return cut.left if side_dimension(state, cut.left) <= side_dimension(state, cut.right) else cut.right
+
+
+def smaller_reduced(state: State, cut: Cut | str | None) -> sympy.Matrix:
+    """The exact reduced state on the smaller side (for a symmetric state, its Dicke block:
+    the same nonzero spectrum in m + 1 rows instead of 2^m)."""
+    from .symmetric import SymmetricState, dicke_reduced
+    if isinstance(state, SymmetricState):
+        cut = cut if isinstance(cut, Cut) else parse_cut(cut, state)
+        return dicke_reduced(state, min(len(cut.left), len(cut.right)))
+    return reduced(state, smaller_side(state, cut))
 
 
 def nonzero_part(coefficients: list[sympy.Expr]) -> Vector | None:
@@ -142,7 +151,7 @@ def charpoly_of(found: Spectrum) -> Vector | None:
     """Exact coefficients of prod (x - p_k) over the nonzero p_k, highest power first."""
     if found.bits:  # computed only when the balls cannot tell the spectra apart
         return nonzero_part([real_and_imaginary(c) for c in
-                             characteristic_polynomial(found.reduced).all_coeffs()])
+                             characteristic_polynomial(smaller_reduced(*found.origin)).all_coeffs()])
     x = sympy.Dummy("x")
     return tuple(sympy.Poly(sympy.Mul(*(x - v for v in found.values)), x).all_coeffs())
 
@@ -174,8 +183,7 @@ def squared_coefficients(state: State, cut: Cut | str | None, box: Box) -> Vecto
         return tuple(schmidt(state, cut).squared)
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
-    values = [value for value, count in eigenvalues(reduced(state, smaller_side(state, cut)))
-              for _ in range(count)]
+    values = [value for value, count in eigenvalues(smaller_reduced(state, cut)) for _ in range(count)]
     return tuple(v for v in values if is_zero(v, box).value is not True)
 
 
