@@ -213,3 +213,12 @@ def test_a_spent_time_limit_in_the_shell_is_a_limit_error_at_the_state():
     with pytest.raises(LimitError, match="ran out while .* no table is given") as err:
         session.run("real t, p\nstrata cos(t)|00> + sin(t) cos(p)|11> + sin(t) sin(p)|22>")
     assert (err.value.line, err.value.column) == (2, 8)
+
+
+def test_points_outside_the_range_are_said_to_be_outside():
+    # By hand: C = diag(1, (t^2 - 2)(t - 1/2)): rank 1 at t = 1/2 and t = +-sqrt 2; on [0, 1]
+    # only t = 1/2 is listed, and the two others are reported as lying outside the range
+    psi = ketsplit.ket("|00> + (t^2 - 2)(t - 1/2)|11>", real="t", ranges={"t": (0, 1)})
+    found = strata(psi, "1|2")
+    assert values_of(found[1], "t") == [sympy.Rational(1, 2)]
+    assert any(n.startswith("2 real points where the rank drops lie outside") for n in found.notes)

@@ -67,6 +67,7 @@ class Search:
     curves: list[tuple[Stratum, Component]] = field(default_factory=list)
     notes: list[str] = field(default_factory=list)
     undecided: list[Undecided] = field(default_factory=list)
+    outside: list[Point] = field(default_factory=list)  # exact points of lower rank off the ranges
 
     def __post_init__(self) -> None:
         form = self.family.form
@@ -136,7 +137,11 @@ class Search:
     # -- points ----------------------------------------------------------
     def add_point(self, values: Point) -> None:
         rank = self.family.rank_at(values)
-        for point in self.family.form.parameter_values(values):
+        points = self.family.form.parameter_values(values)
+        if not points and not self.family.form.radicals and \
+                not any(same_point(values, other) for other in self.outside):
+            self.outside.append(values)
+        for point in points:
             if not any(same_point(point, f.point) for f in self.points):
                 self.points.append(Found(point, values, rank))
 
@@ -339,6 +344,12 @@ class Search:
             self.notes.append("some points are roots of polynomials without a closed form: they are "
                               "kept as exact algebraic numbers, isolated by exact real-root "
                               "isolation, and their digits are certified")
+        if self.outside:
+            count = len(self.outside)
+            self.notes.append(f"{count} real point{'s' if count > 1 else ''} where the rank drops "
+                              f"{'lie' if count > 1 else 'lies'} outside the declared ranges or "
+                              "kinds (solved exactly, compared with the range ends by the "
+                              "decision layer): not listed")
         result = [self.generic_stratum(generic)]
         for rank in range(generic - 1, -1, -1):
             curves = [(s, c) for s, c in self.curves if s.rank == rank]
