@@ -59,7 +59,7 @@ def exact(make):
 def reference_svd(matrix):
     """mpmath.svd_c of C / ||C||_F at DPS digits: sigma, U columns, and W = rows of V (C = U S V)."""
     with mpmath.workdps(DPS):
-        a = mpmath.matrix([[mpmath.mpc(z.real, z.imag) for z in row] for row in matrix])
+        a = mpmath.matrix([[mpmath.mpc(z) for z in row] for row in matrix])
         norm = mpmath.sqrt(sum(abs(a[i, j]) ** 2 for i in range(a.rows) for j in range(a.cols)))
         u, s, v = mpmath.svd_c(a / norm)
         k = len(s)
@@ -247,3 +247,33 @@ def test_certified_schmidt_is_the_same_route_without_vectors():
     full = certified_decomposition(state, "1|2", 30)
     assert coefficients.texts() == full.texts()
     assert all(t.left is None for t in coefficients.terms)
+
+
+def test_irrational_amplitudes_take_the_ball_route_and_agree_with_mpmath():
+    # reference library: mpmath.svd_c at 60 digits; the amplitudes have no exact Gaussian form,
+    # so the block is enclosed in balls and rounded (the perturbation enters the certificate)
+    text = ("sqrt(2)|00> + pi|01> + |02> + exp(1)|10> + 2|11> + sqrt(3) i|12> "
+            "+ (1/3)|20> + log(2)|21> + 5|22>")
+    found = certified_decomposition(ketsplit.ket(text), "1|2", 30)
+    with mpmath.workdps(DPS + 20):
+        entries = [[mpmath.sqrt(2), mpmath.pi, 1], [mpmath.e, 2, mpmath.sqrt(3) * 1j],
+                   [mpmath.mpf(1) / 3, mpmath.log(2), 5]]
+    sigma, left, right = reference_svd(entries)
+    assert found.rank == 3 and found.complete
+    for term, s, u, w in zip(found.terms, sigma, left, right):
+        assert term.value.overlaps(real_ball(s))
+        u, w = phase_aligned(u, w, term, (3, 3))
+        assert contains_all(term.left, u, 3) and contains_all(term.right, w, 3)
+
+
+def test_vectors_at_a_parameter_point():
+    # fact of the trade: cos(t)|00> + sin(t)|11> at t = pi/7 has coefficients cos(pi/7) > sin(pi/7)
+    # with vectors |0>, |0> and |1>, |1>
+    state = ketsplit.ket("cos(t)|00> + sin(t)|11>", real="t")
+    found = certified_decomposition(state, "1|2", 30, at={"t": "pi/7"})
+    with ctx.workprec(300):
+        expected = [arb.pi() / 7, arb.pi() / 7]
+        expected = [expected[0].cos(), expected[1].sin()]
+    assert [t.value.overlaps(e) for t, e in zip(found.terms, expected)] == [True, True]
+    assert [t.left.indices for t in found.terms] == [(0,), (1,)]
+    assert all(t.left.entries()[0].contains(1) and t.right.entries()[0].contains(1) for t in found.terms)
