@@ -321,3 +321,16 @@ def test_true_identities_still_hold_exactly_in_the_shell():
                                      "real u in [0, pi/2]\ncheck abs(cos(u)) = cos(u)")
     verdicts = [r.report.items[0].value for r in results if r.kind == "check"]
     assert verdicts == ["holds for all real t (exact)", "holds for all real u in [0, pi/2] (exact)"]
+
+
+def test_no_confirmation_from_a_sample_set_too_small_for_its_degree():
+    # an integer n in [0, 3] offers 4 values: a degree-20 polynomial could vanish at all of
+    # them (Schwartz-Zippel gives no useful bound), so random points must not confirm
+    from ketsplit.checking import randomized
+    from ketsplit.states import Parameter
+    n = sympy.Symbol("n", integer=True)
+    difference = sympy.Mul(n ** 20, n - n ** 2 + n * (n - 1) + 1, evaluate=False) - n ** 20
+    with pytest.raises(randomized.NotPolynomial, match="too small"):
+        randomized.run((difference,), (Parameter("n", "integer", (0, 3)),), 1)
+    # whereas n (n - 1) = n^2 - n for integers is proved exactly
+    assert check("n (n - 1)", "n^2 - n", integer="n").line() == "holds for all integer n (exact)"

@@ -1,8 +1,10 @@
 """Checking hand derivations: identities, claimed Schmidt forms, counterexamples.
 
-``check(lhs, rhs)`` answers with a :class:`Verdict`: holds (exactly, or with a
-stated confidence from certified random points), fails (with a certified
-counterexample), or undecided within the time budget.
+``check(lhs, rhs)`` (or ``check("schmidt STATE CUT = [...]")``, any claim of the
+``check`` statement) answers with a :class:`Verdict`: holds (exactly, over the
+declared range, or with a stated Schwartz-Zippel probability bound for
+polynomial identities), fails (with a counterexample checked exactly or in
+balls), or undecided (saying how to decide).
 """
 
 from .checker import check

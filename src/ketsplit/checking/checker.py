@@ -14,8 +14,9 @@ from .verdict import Verdict
 
 
 def check(lhs, rhs=None, *, real: str | Iterable[str] = (), positive: str | Iterable[str] = (),
-          complex: str | Iterable[str] = (), ranges: Mapping[str, tuple] | None = None,
-          up_to_phase: bool = False, digits: int = 30, budget: float = BUDGET) -> Verdict:
+          complex: str | Iterable[str] = (), integer: str | Iterable[str] = (),
+          ranges: Mapping[str, tuple] | None = None, up_to_phase: bool = False,
+          digits: int = 30, budget: float = BUDGET) -> Verdict:
     """Does ``lhs = rhs`` hold for every value of the parameters (``up_to_phase``: lhs ~ rhs)?
 
     Sides are state-language text (kets, numbers, matrices ``[[a, b], [c, d]]``),
@@ -27,7 +28,8 @@ def check(lhs, rhs=None, *, real: str | Iterable[str] = (), positive: str | Iter
     ``budget`` is in seconds; past it the verdict is undecided (holds = None).
     """
     from ..api import session_for
-    session = session_for(real=real, positive=positive, complex=complex, ranges=ranges)
+    session = session_for(real=real, positive=positive, complex=complex, integer=integer,
+                          ranges=ranges)
     options = Options(digits, budget)
     if rhs is None:
         if not isinstance(lhs, str):

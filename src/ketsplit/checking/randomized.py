@@ -37,6 +37,7 @@ SAMPLES = 2 ** 32          # evenly spaced values per variable
 POINTS = 4                 # independent points for a confirmation
 UNBOUNDED = sympy.Integer(16)  # variables without a declared range are drawn from (-16, 16)
 HALF_ARC = sympy.Rational(1, 2)
+MAX_BOUND = Fraction(1, 2 ** 64)  # a confirmation must leave at most this probability
 
 
 class NotPolynomial(ValueError):
@@ -83,7 +84,7 @@ class Sampler:
     def size(self) -> int:
         if self.integer:
             return int(self.high - self.low) + 1
-        return SAMPLES - 1
+        return 1 if self.low == self.high else SAMPLES - 1
 
     def draw(self, rng: random.Random) -> sympy.Rational:
         if self.integer:
@@ -216,7 +217,11 @@ def run(exprs: tuple[sympy.Expr, ...], params: tuple[Parameter, ...], seed: int
     samplers = _samplers(form)
     weights = {v: 2 for s in samplers if s.coordinate.kind == "angle" for v in s.coordinate.variables}
     degree = max((degree_bound(e, weights)[0] for e in rewritten), default=0)
-    size = min((s.size() for s in samplers), default=SAMPLES - 1)
+    # a variable with one possible value is a constant, not a dimension of the bound
+    size = min((s.size() for s in samplers if s.size() > 1), default=SAMPLES - 1)
+    if Fraction(degree, size) ** POINTS > MAX_BOUND:
+        raise NotPolynomial(f"the sample sets are too small for a useful probability bound "
+                            f"(degree {degree}, {size} values)")
     rng = random.Random(seed)
     for _ in range(POINTS):
         draws = [(s, s.draw(rng)) for s in samplers]
