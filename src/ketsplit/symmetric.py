@@ -24,6 +24,15 @@ only on demand, and refused up front (limit ``terms``) when there are too many.
 In the language, ``dicke(n, k)`` builds a :class:`SymmetricKet`; sums and
 scalar multiples of symmetric kets stay symmetric; anything else (a tensor
 product, a sum with an ordinary ket) expands into ordinary labels.
+
+What the engine calls for a :class:`SymmetricState` (none lists 2^n labels):
+:func:`dicke_split` (the two-part state M across a cut, for any Schmidt
+route), :func:`symmetric_schmidt`, :func:`symmetric_spectrum` (squared
+coefficients), :func:`dicke_reduced` (the reduced state in the Dicke basis of
+the kept qubits), :func:`symmetric_reduced` (the same in their ordinary
+basis), :func:`symmetric_overview` (``cuts``: one row per class of cuts) and
+:func:`dicke_basis_pair` (``check``: two symmetric sides compared weight by
+weight).
 """
 
 from __future__ import annotations
