@@ -176,8 +176,7 @@ def _spectrum_difference(state: State, cut: Cut, claimed: list[sympy.Expr],
         with flint.ctx.workprec(prec):
             rho = _numeric_rho(state, cut, dict(zip((k for k, _ in amplitudes), values[:count])))
             sums = _power_sums(rho, m)
-            return [Entry(labels[j], sums[j] - values[count + j],
-                          abs(sums[j]) + abs(values[count + j])) for j in range(m)]
+            return [Entry(labels[j], sums[j] - values[count + j]) for j in range(m)]
 
     return Difference(tuple(exact), numeric, params, "", skipped, tuple(labels[:len(exact)]))
 
@@ -289,7 +288,7 @@ def _minor_difference(state: State, cut: Cut, size: int, params: tuple[Parameter
         values = values_at([a for _, a in amplitudes], point, prec)
         with flint.ctx.workprec(prec):
             rho = _numeric_rho(state, cut, dict(zip((k for k, _ in amplitudes), values)))
-            return [Entry(label, elementary(rho, size), flint.arb(1))]
+            return [Entry(label, elementary(rho, size))]
 
     return Difference(exact, numeric, params, "", skipped, names if exact else ())
 

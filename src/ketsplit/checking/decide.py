@@ -58,11 +58,10 @@ Point = Mapping[sympy.Symbol, sympy.Expr]
 
 @dataclass(frozen=True)
 class Entry:
-    """One certified difference at a point, with the size of what was compared."""
+    """One certified difference at a point."""
 
     where: str
     value: flint.acb
-    scale: flint.arb
     exact: sympy.Expr | None = None   # the difference as an expression, for exact values
 
 

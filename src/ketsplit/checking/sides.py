@@ -141,8 +141,7 @@ def paired_difference(pairs: list[tuple[str, sympy.Expr, sympy.Expr]],
         values = values_at(lhs + rhs, point, prec)
         half = len(lhs)
         with flint.ctx.workprec(prec):
-            return [Entry(pairs[k][0], values[k] - values[half + k],
-                          abs(values[k]) + abs(values[half + k]), lhs[k] - rhs[k])
+            return [Entry(pairs[k][0], values[k] - values[half + k], lhs[k] - rhs[k])
                     for k in range(half)]
 
     return Difference(tuple(a - b for a, b in zip(lhs, rhs)), numeric, params, quantity,
