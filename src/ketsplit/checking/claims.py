@@ -8,16 +8,20 @@ normalised state, as ``schmidt`` and ``reduce`` do).
 * reduced state M on the kept parts: G / N - M = 0 entry by entry;
 * Schmidt coefficients c_1..c_r (any order): tr(rho^j) = sum_k c_k^(2j) for
   j = 1..m (m the dimension of the smaller side; by Newton's identities the
-  power sums fix the multiset of eigenvalues), and c_k - |c_k| = 0 (each
-  claimed coefficient is real and nonnegative);
-* a Schmidt form sum_k c_k (u_k)(w_k): it equals the state, and the u_k are
-  pairwise orthogonal, and so are the w_k;
+  power sums fix the multiset of eigenvalues), and each c_k is real and
+  >= 0 on the whole domain: proved by the decision layer
+  (:func:`ketsplit.arith.decide.is_nonnegative`: exact zeros and balls, or
+  range arithmetic over the box of declared ranges), or refuted at a point
+  where a ball shows a negative or non-real value, else undecided;
+* a Schmidt form sum_k c_k (u_k)(w_k): it equals the state, the u_k are
+  pairwise orthogonal, and so are the w_k, and each c_k is real and >= 0
+  (as above);
 * Schmidt rank r: every (r+1)x(r+1) minor of C vanishes identically, and not
   every r x r minor does.  Numerically e_k(G), the k-th elementary symmetric
   function of the eigenvalues of G, is the sum of |k x k minors of C|^2
   (Cauchy-Binet), so one certified number per point stands for all minors.
 
-A claim made of two decisions gives each half of the time budget.
+A claim made of several decisions gives each an equal part of the time budget.
 """
 
 from __future__ import annotations
