@@ -89,6 +89,12 @@ def test_check_compares_dicke_weights():
     assert "fails" in run("check a dicke(20,10) = 3 dicke(20,10) with a=2")[0].text()
 
 
+def test_check_of_symmetric_states_of_different_sizes():
+    # states of 30 and 31 parts cannot be compared: said without listing either one's labels
+    with pytest.raises(InputError, match="30 part"):
+        run("check dicke(30,15) = dicke(31,15)")
+
+
 def test_check_of_a_dicke_state_against_ordinary_labels():
     # fact of the trade: W = (|001> + |010> + |100>)/sqrt(3) = D(3, 1)
     assert "holds" in run("check dicke(3,1) = (|001> + |010> + |100>)/sqrt(3)")[0].text()

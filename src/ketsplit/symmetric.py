@@ -445,16 +445,16 @@ def dicke_weights(value) -> tuple[int, dict[int, sympy.Expr]] | None:
 
 
 def dicke_basis_pair(lhs, rhs) -> tuple:
-    """Both sides of a check written in the Dicke basis when both are symmetric states of the
-    same n (ket values keyed by :class:`DickeLabel`), else both as they are.
+    """Both sides of a check written in the Dicke basis when both are symmetric states (ket
+    values keyed by :class:`DickeLabel`; different n then differ in their number of parts,
+    which the check reports without listing labels), else both as they are.
 
     The D(n, j) are orthonormal, so sum_j a_j D(n, j) = sum_j b_j D(n, j) exactly when
     a_j = b_j for every j (and up to a phase exactly when the outer products agree): the
     check compares n + 1 weights instead of 2^n amplitudes.
     """
     left, right = dicke_weights(lhs), dicke_weights(rhs)
-    if left is None or right is None or left[0] != right[0]:
+    if left is None or right is None:
         return lhs, rhs
-    n = left[0]
     return tuple(KetValue({DickeLabel(n, j): c for j, c in weights.items()}, n, None)
-                 for _, weights in (left, right))
+                 for n, weights in (left, right))
