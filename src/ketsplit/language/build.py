@@ -497,14 +497,18 @@ def is_zero(a: Scalar) -> bool:
 
 
 def finished(value):
-    """``value`` with every Gaussian number turned into sympy."""
+    """``value`` with every Gaussian number turned into sympy (each distinct number once:
+    a long state often repeats a few small coefficients)."""
     if type(value) is Gaussian:
         return numbers.to_sympy(value)
     if type(value) is KetValue:
-        terms = value.terms
+        terms, converted = value.terms, {}
         for label, amplitude in terms.items():
             if type(amplitude) is Gaussian:
-                terms[label] = numbers.to_sympy(amplitude)
+                number = converted.get(amplitude)
+                if number is None:
+                    number = converted[amplitude] = numbers.to_sympy(amplitude)
+                terms[label] = number
     return value
 
 

@@ -105,13 +105,21 @@ def from_decimal(text: str) -> Gaussian:
     return Gaussian(value * 10 ** shift) if shift >= 0 else reduced(value, 0, 10 ** -shift)
 
 
+# sympy.Integer's constructor without its cache: a long state's coefficients are mostly
+# distinct, and a miss in sympy's cache costs more than making the Integer
+_NEW_INTEGER = getattr(sympy.Integer.__new__, "__wrapped__", sympy.Integer.__new__)
+
+
+def _sympy_rational(numerator: int, den: int) -> sympy.Rational:
+    return _NEW_INTEGER(sympy.Integer, numerator) if den == 1 else sympy.Rational(numerator, den)
+
+
 def to_sympy(a: Gaussian) -> sympy.Expr:
     """The sympy number, built as sympy's arithmetic would canonically give it
     (re + im*I with re first, im*I a Mul of a Rational and I), without the
     re-flattening that evaluating ``re + im*I`` costs."""
-    re = sympy.Integer(a.re) if a.den == 1 else sympy.Rational(a.re, a.den)
     if not a.im:
-        return re
-    im = sympy.Integer(a.im) if a.den == 1 else sympy.Rational(a.im, a.den)
-    im = sympy.I if im == 1 else Mul._from_args((im, sympy.I), True)
-    return im if not a.re else Add._from_args((re, im), True)
+        return _sympy_rational(a.re, a.den)
+    factor = _sympy_rational(a.im, a.den)
+    im = sympy.I if factor is sympy.S.One else Mul._from_args((factor, sympy.I), True)
+    return Add._from_args((_sympy_rational(a.re, a.den), im), True) if a.re else im
