@@ -13,22 +13,25 @@ Constants (no free symbols):
 
 Expressions with parameters, on a box of exact ranges (``box`` maps symbols
 to (lo, hi); parameters outside the box range over their whole domain):
-  identically zero by exact rewriting (:mod:`.identity`, after each |f| whose
-  sign is proved is replaced by +-f, splitting the range at exact zeros of f);
-  nonzero by a point where a ball excludes zero; a sign by the exact zeros of
-  a one-parameter expression and the sign between them, or by range
-  arithmetic (:mod:`.ranges`) over the box cut into at most
-  :func:`piece_limit` pieces (a number read from the expression's size).  A
-  point where a ball has the other sign refutes a sign, and is returned in
+  identically zero by exact rewriting (:mod:`.identity`), after sqrt(h^2) is
+  written |h| (:mod:`.radicals`) and each |f| whose sign is proved becomes
+  +-f, the range split at the exact zeros of f; nonzero by a point where a
+  ball excludes zero.  A sign comes from one range evaluation over the box
+  (:mod:`.ranges`), from the exact zeros of a one-parameter expression
+  (:mod:`.zeros`) and a ball between them, from the signs of its factors and
+  terms, or from range arithmetic over the box cut into at most
+  :func:`piece_limit` pieces (a number read from the expression's size);
+  sympy's assumptions serve for parameters without a range.  A point where a
+  ball has the other sign refutes a sign, and is returned in
   :attr:`Decided.point`.
 """
 
 from __future__ import annotations
 
 from collections import deque
+from dataclasses import dataclass
 from functools import cmp_to_key, lru_cache
 from math import prod
-from dataclasses import dataclass
 from typing import Generic, Mapping, TypeVar
 
 import sympy
@@ -39,8 +42,8 @@ from ..language.errors import InputError
 from ..numeric.enclose import Encloser
 from .identity import TooLarge, constant_zero, identically_zero, parameters_of
 from .radicals import square_roots_as_moduli
-from .zeros import candidate_zeros
 from .ranges import Box, NoRange, bisect, midpoint, rational_inside, value_range
+from .zeros import candidate_zeros
 
 T = TypeVar("T")
 
@@ -110,7 +113,7 @@ def _point_text(point: Point) -> str:
 
 def _gaussian_rational(value: sympy.Expr) -> bool:
     re, im = value.as_real_imag() if not value.is_Rational else (value, 0)
-    return sympy.sympify(re).is_Rational and sympy.sympify(im).is_Rational
+    return as_expr(re).is_Rational and as_expr(im).is_Rational
 
 
 def _constant_is_zero(expr: sympy.Expr) -> Decided[bool]:
@@ -148,8 +151,8 @@ def _exact_constant(expr: sympy.Expr) -> Decided[bool] | None:
 
 
 def _is_real(expr: sympy.Expr) -> Decided[bool]:
-    if expr.is_extended_real:
-        return Decided(True, "real by sympy's assumptions")
+    """A constant is real when its ball has no imaginary part at all (only real operations
+    met real values), or when its imaginary part is proved zero."""
     ball = ball_at(expr, {}, LADDER[0])
     if ball is not None and ball.imag.is_exact() and ball.imag.is_zero():
         return Decided(True, "real: its ball has no imaginary part")
