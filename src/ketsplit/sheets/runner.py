@@ -63,7 +63,7 @@ class Difference:
     source: str
     recorded: tuple[Record, ...]
     fresh: tuple[Record, ...]
-    first: int = 0  # where the two first part, in flat(): that line is marked '≠' when shown
+    first: int | None = 0  # where the two first part, in flat(): marked '≠' when shown
     reason: str = ""  # why the comparison itself stopped, when it did
 
     def describe(self) -> str:
@@ -71,7 +71,7 @@ class Difference:
         escaped (see .visible), so that a recorded line cannot drive the terminal."""
         def block(records: tuple[Record, ...]) -> str:
             lines = [line for r in records for line in r.lines] or ["(nothing)"]
-            mark = result_line(records, self.first)
+            mark = None if self.first is None else result_line(records, self.first)
             return "\n".join(("  ≠ " if k == mark else "    ") + visible(line)
                              for k, line in enumerate(lines))
         why = f"\n  {visible(self.reason)}" if self.reason else ""
@@ -181,7 +181,7 @@ def compared(entry: SheetLine, fresh: tuple[Record, ...], equal: ValueEquality
         with time_limited(limits.current().seconds, TimeUp):
             first = first_difference(flat(entry.records), flat(fresh), equal)
     except TimeUp:
-        return Difference(entry.line, entry.source, entry.records, fresh, 0,
+        return Difference(entry.line, entry.source, entry.records, fresh, None,
                           "the recorded values could not be compared with this run's within "
                           f"{limits.how_to_change('seconds')}")
     if first is None:
