@@ -221,4 +221,4 @@ def test_points_outside_the_range_are_said_to_be_outside():
     psi = ketsplit.ket("|00> + (t^2 - 2)(t - 1/2)|11>", real="t", ranges={"t": (0, 1)})
     found = strata(psi, "1|2")
     assert values_of(found[1], "t") == [sympy.Rational(1, 2)]
-    assert any(n.startswith("2 real points where the rank drops lie outside") for n in found.notes)
+    assert any(n.startswith("2 exact real solutions where the rank drops lie outside") for n in found.notes)

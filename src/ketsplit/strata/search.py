@@ -184,10 +184,12 @@ class Search:
 
     def unsettled(self, rank: int, core, solutions: list[Point], fillers) -> None:
         """A component with finitely many real points, none of them of rank r inside the ranges."""
+        if not solutions:
+            self.note_empty(rank, core, "it has no real point (exact algebra)")
+            return
         if not any(self.family.form.parameter_values({**values, **filler})
                    for values in solutions for filler in fillers):
-            self.note_empty(rank, core, "its real points, solved exactly, lie outside the ranges"
-                            if solutions else "it has no real point (exact algebra)")
+            self.outside.extend(s for s in solutions if not self.family.form.radicals)
             return
         self.undecided.append(Undecided(
             rank, self.equations(core),
@@ -346,10 +348,10 @@ class Search:
                               "isolation, and their digits are certified")
         if self.outside:
             count = len(self.outside)
-            self.notes.append(f"{count} real point{'s' if count > 1 else ''} where the rank drops "
-                              f"{'lie' if count > 1 else 'lies'} outside the declared ranges or "
-                              "kinds (solved exactly, compared with the range ends by the "
-                              "decision layer): not listed")
+            self.notes.append(f"{count} exact real solution{'s' if count > 1 else ''} where the "
+                              f"rank drops {'lie' if count > 1 else 'lies'} outside the declared "
+                              "ranges or kinds (compared with the range ends by the decision "
+                              "layer): not listed")
         result = [self.generic_stratum(generic)]
         for rank in range(generic - 1, -1, -1):
             curves = [(s, c) for s, c in self.curves if s.rank == rank]
