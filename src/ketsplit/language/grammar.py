@@ -6,6 +6,13 @@
     power  := atom ('^' unary)?
     atom   := NUMBER | KET | NAME | NAME '(' args ')' | '(' expr ')' | '[' rows ']'
             | '√' atom | 'sum' '(' NAME '=' expr '..' expr ',' expr ')'
+
+``NAME '(' args ')'`` is a call when NAME is a function and a product when it
+names a value (``i(...)``, ``t(...)``); the builder decides, knowing the scope.
+When the builder parses (``runs``), a stretch of plain terms inside ``expr``
+is read as one :class:`KetRun` (see :data:`RUN_FIRST`).  The grammar of the
+words around expressions (with clauses, declarations, space) is in
+statements.py.
 """
 
 from __future__ import annotations
