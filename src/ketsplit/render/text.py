@@ -261,10 +261,12 @@ def note_text(text: str, width: int | None, head: str) -> str:
 
 def fitted_text(report: Report, pretty: bool, width: int | None) -> str:
     """2-D when asked for and it fits in ``width`` columns; else linear text folded to
-    the width (a 2-D picture of several lines, wrapped by the terminal, is unreadable)."""
+    the width (a 2-D picture of several lines, wrapped by the terminal, is unreadable),
+    with a note when the two forms differ."""
     if pretty:
         drawn = to_text(report, True)
         if width is None or max(len(line) for line in drawn.split("\n")) <= width:
             return drawn
-        return WIDE_NOTE + "\n" + to_text(report, False, width)
+        folded = to_text(report, False, width)
+        return folded if drawn == to_text(report) else WIDE_NOTE + "\n" + folded
     return to_text(report, False, width)

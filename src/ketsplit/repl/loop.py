@@ -213,8 +213,8 @@ def start() -> int:
     rows = shutil.get_terminal_size().lines
     shell = Shell(mode=Mode(fold=max(10, rows - 6)), keyboard=sys.stdin)
     history, warning = open_history()
-    shell.console.line(f"ketsplit {__version__}: type a state, a command, or 'help'; "
-                       "Tab completes, Ctrl-D or exit leaves")
+    shell.console.line(wrap_lines(f"ketsplit {__version__}: type a state, a command, or 'help'; "
+                                  "Tab completes, Ctrl-D or exit leaves", shell.columns))
     if warning:
         shell.console.line(warning, "class:error")
     return shell.loop(shell.prompt_session(history))
