@@ -334,3 +334,10 @@ def test_no_confirmation_from_a_sample_set_too_small_for_its_degree():
         randomized.run((difference,), (Parameter("n", "integer", (0, 3)),), 1)
     # whereas n (n - 1) = n^2 - n for integers is proved exactly
     assert check("n (n - 1)", "n^2 - n", integer="n").line() == "holds for all integer n (exact)"
+
+
+def test_log_of_exp_is_refuted_off_the_principal_strip():
+    # log(exp(z)) = z only for -pi < Im z <= pi (principal branch; fact of the trade)
+    verdict = check("log(exp(z))", "z")
+    assert_refuted(verdict, lambda z: mpmath.log(mpmath.exp(z)) - z)
+    assert abs(mp_value(verdict.counterexample["z"]).imag) > mpmath.pi

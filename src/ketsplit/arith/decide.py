@@ -186,17 +186,18 @@ def _constant_sign(expr: sympy.Expr) -> Decided[int]:
 
 
 def _sample_value(symbol: sympy.Symbol, box: Box, fraction: sympy.Rational) -> sympy.Expr:
-    """A value of the symbol's domain: inside its box range, or by its kind (reals spread
-    over several orders of magnitude, so that t * 10^-30 is not only met near 0)."""
+    """A value of the symbol's domain: inside its box range, or by its kind (spread over
+    several orders of magnitude, so that t * 10^-30 is not only met near 0, and a complex
+    z leaves the strip where log(exp(z)) = z)."""
     if symbol in box:
         return rational_inside(*box[symbol], fraction)
     k = SAMPLE_FRACTIONS.index(fraction)
     if symbol.is_integer:
         return sympy.Integer((-1) ** k * (k + 2))
+    size = fraction * UNBOUNDED_SCALES[k]
     if symbol.is_real:
-        size = fraction * UNBOUNDED_SCALES[k]
         return size if symbol.is_positive else (-1) ** k * size
-    return fraction + sympy.I * (1 - fraction) / 3
+    return (-1) ** k * size + sympy.I * (1 - fraction) * UNBOUNDED_SCALES[k] / 3
 
 
 SAMPLE_FRACTIONS = (sympy.Rational(1, 2), sympy.Rational(2, 7), sympy.Rational(9, 11),
