@@ -89,6 +89,17 @@ def test_check_compares_dicke_weights():
     assert "fails" in run("check a dicke(20,10) = 3 dicke(20,10) with a=2")[0].text()
 
 
+def test_claims_about_a_dicke_state():
+    # fact of the trade: one qubit of D(20, 10) is diag(1/2, 1/2); of D(20, 5) diag(3/4, 1/4),
+    # so across 1|2..20 the Schmidt coefficients are sqrt(3)/2, 1/2 and the rank is 2
+    rest = cut_text(1, 20)
+    assert "holds" in run("check reduce dicke(20,10) 1 = [[1/2,0],[0,1/2]]")[0].text()
+    assert "fails" in run("check reduce dicke(20,10) 1 = [[1/2,0],[0,1/3]]")[0].text()
+    assert "holds" in run(f"check schmidt dicke(20,5) {rest} = [sqrt(3)/2, 1/2]")[0].text()
+    assert "fails" in run(f"check schmidt dicke(20,5) {rest} = [1/2, 1/2]")[0].text()
+    assert "holds" in run(f"check rank dicke(20,10) {rest} = 2")[0].text()
+
+
 def test_check_of_symmetric_states_of_different_sizes():
     # states of 30 and 31 parts cannot be compared: said without listing either one's labels
     with pytest.raises(InputError, match="30 part"):

@@ -42,6 +42,7 @@ from ..arith.decide import ball_at, is_nonnegative
 from ..numeric.schmidt import certified_schmidt, start_bits
 from ..render.ketprint import text
 from ..states import Parameter, State
+from ..symmetric import SymmetricState, dicke_split, symmetric_reduced
 from .evaluation import values_at
 from .checker import compare_values
 from .decide import Difference, Entry, Options, Point, box_of_params, complex_text, decide
@@ -63,6 +64,8 @@ def smaller_side(state: State, cut: Cut) -> Cut:
 
 def gram(state: State, cut: Cut) -> tuple[sympy.Matrix, sympy.Expr]:
     """G = C C^dagger over the rows of ``cut.left``, unsimplified, and N = tr G."""
+    if isinstance(state, SymmetricState):  # from its Dicke weights, never its 2^n labels
+        return symmetric_reduced(state, cut.left), sympy.Integer(1)
     matrix = CoefficientMatrix(state, cut)
     size = matrix.shape[0]
     check_dense(size * size, "reduced density matrix")
@@ -89,6 +92,8 @@ def reduced_claim(state: State, keep: tuple[int, ...], claimed: sympy.Matrix,
 def schmidt_claim(state: State, cut: Cut, claimed: list[sympy.Expr],
                   params: tuple[Parameter, ...], options: Options) -> Verdict:
     """The claimed coefficients have the right squares (the spectrum) and are nonnegative."""
+    if isinstance(state, SymmetricState):  # the same Schmidt coefficients on its Dicke split
+        state, cut = dicke_split(state, cut)
     spectrum = decide(_spectrum_difference(state, cut, claimed, params), options.part(2))
     nonnegative = _nonnegative(claimed, params, options.part(2))
     if spectrum.holds is False:
@@ -231,6 +236,8 @@ def elementary(rho: flint.acb_mat, k: int) -> flint.acb:
 def rank_claim(state: State, cut: Cut, rank: int, params: tuple[Parameter, ...],
                options: Options) -> Verdict:
     """Schmidt rank ``rank``: minors of size rank+1 all vanish, those of size rank do not."""
+    if isinstance(state, SymmetricState):  # the same Schmidt rank on its Dicke split
+        state, cut = dicke_split(state, cut)
     cut = smaller_side(state, cut)
     m = side_dimension(state, cut.left)
     if rank < 1 or rank > m:
