@@ -35,7 +35,7 @@ import sympy
 
 from ..arith.ranges import NoRange, bisect, value_range
 from .budget import Budget
-from .proved import inside
+from .proved import inside, zero
 from .solve import common_factor, groebner, is_finite, real_points, real_roots
 
 Box = Mapping[sympy.Symbol, tuple[sympy.Expr | None, sympy.Expr | None]]  # None: unbounded side
@@ -85,7 +85,7 @@ def locate_in_charts(charts, budget: Budget) -> Located:
         undecided = undecided or not found.empty
         proofs.append(found.proof)
     if undecided:
-        return Located(None, False, "; ".join(dict.fromkeys(p for p in proofs)))
+        return Located(None, False, "; ".join(dict.fromkeys(proofs)))
     story = "; ".join(dict.fromkeys(proofs))
     return Located(None, True, story + (" (in each chart of the angles)" if len(charts) > 1 else ""))
 
@@ -104,7 +104,7 @@ def _locate(f: sympy.Expr, box: Box, budget: Budget) -> Located:
     variables = tuple(v for v in box if v in f.free_symbols)
     if not variables:
         return Located(dict(_corner(box)), False, "the equation holds identically there") \
-            if f == 0 else Located(None, True, "a nonzero constant")
+            if zero(f) else Located(None, True, "a nonzero constant")
     box = {v: box[v] for v in variables}
     if _bounded(box) and nowhere_zero([f], box, budget):
         return Located(None, True, "range arithmetic over the box excludes zero")
