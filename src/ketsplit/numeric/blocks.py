@@ -151,14 +151,14 @@ class Block:
             total += abs(ball(value)) ** 2
         return total
 
-    def spectrum(self, ball: Encloser, goal: int) -> Spectrum:
+    def spectrum(self, ball: Encloser, goal: int, vectors: bool = True) -> Spectrum:
         """Certified squared coefficients and eigenvectors on the smaller side (``goal`` bits wanted)."""
         fixed = self.fixed(ball)
         gram = fixed.ints * fixed.ints.adjoint()
         with ctx.workprec(ball.bits):
             size = frobenius(fixed.ints)
             eta = 2 * size * fixed.eta + fixed.eta ** 2
-            found = single(gram, eta) if self.side == 1 else eigen(gram, eta, ball.bits, goal)
+            found = single(gram, eta) if self.side == 1 else eigen(gram, eta, ball.bits, goal, vectors)
             squares = tuple(nonnegative(v) * fixed.scale ** 2 for v in found.values)
             weight = size ** 2 * fixed.scale ** 2 if fixed.eta == 0 else self.weight(ball)
         return Spectrum(squares, weight, found, fixed, *self.vector_rows(), ball.bits, self.flipped)

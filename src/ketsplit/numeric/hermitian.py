@@ -170,12 +170,12 @@ class Eigen:
     pivots: tuple[int, ...]
 
 
-def eigen(a: IntMatrix, eta: arb, bits: int, goal: int) -> Eigen:
+def eigen(a: IntMatrix, eta: arb, bits: int, goal: int, vectors: bool = True) -> Eigen:
     """Certified eigenpairs of the Hermitian A0 + F (||F|| <= eta) at ``bits`` bits of precision.
 
     The refinement stops once every eigenvalue that is proved nonzero has
-    ``goal`` correct bits (relative) and its vector ``goal`` bits (absolute),
-    or once it stops improving.
+    ``goal`` correct bits (relative) and, with ``vectors``, its vector
+    ``goal`` bits (absolute), or once it stops improving.
     """
     import numpy
     n = a.shape[0]
@@ -190,7 +190,8 @@ def eigen(a: IntMatrix, eta: arb, bits: int, goal: int) -> Eigen:
         y, g = a * x, x.adjoint() * x
         if p >= target:
             found, residual = certify(a, eta, x, xf, p, y, g)
-            if residual is not None and (reaches(found, goal) or (last is not None and residual > last / 16)):
+            stalled = last is not None and residual is not None and residual > last / 16
+            if residual is not None and (reaches(found, goal, vectors) or stalled):
                 return found
             last = residual if residual is not None else last
         xf, correction, accuracy, gap_bits = refine(xf, x, x.adjoint() * y, g, p, scale, shift)
@@ -204,12 +205,12 @@ def eigen(a: IntMatrix, eta: arb, bits: int, goal: int) -> Eigen:
     return found
 
 
-def reaches(found: Eigen, goal: int) -> bool:
-    """Every eigenvalue proved nonzero has ``goal`` relative bits, and its vector ``goal`` bits."""
+def reaches(found: Eigen, goal: int, vectors: bool) -> bool:
+    """Every eigenvalue proved nonzero has ``goal`` relative bits (and its vector ``goal`` bits)."""
     for value, error in zip(found.values, found.errors):
         if value.contains(0):
             continue
-        if not (value.rad() * 2 ** goal <= abs(value.mid()) and error * 2 ** goal <= 1):
+        if not value.rad() * 2 ** goal <= abs(value.mid()) or (vectors and not error * 2 ** goal <= 1):
             return False
     return True
 

@@ -120,7 +120,7 @@ def attempt(blocks: list[Block], bits: int, digits: int, shape: tuple[int, int],
     ball = Encloser(bits)
     with ctx.workprec(bits):
         goal = int(digits * BITS_PER_DIGIT) + GOAL_GUARD_BITS
-        spectra = [block.spectrum(ball, goal) for block in blocks]
+        spectra = [block.spectrum(ball, goal, vectors) for block in blocks]
         norm2 = sum((s.weight for s in spectra), arb(0))
         found: list[Found] = []
         undecided: list[arb] = []
