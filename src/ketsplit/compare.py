@@ -43,6 +43,7 @@ from .exact.eigen import characteristic_polynomial, eigenvalues
 from .exact.errors import NoClosedForm
 from .exact.signs import box_of
 from .language.errors import InputError
+from .planner import plan
 from .states import State
 
 Value = sympy.Expr | arb       # exact, or a certified ball
@@ -87,6 +88,9 @@ def spectrum(state: State, cut: Cut | str | None, digits: int = 30) -> Spectrum:
     constant state without a closed-form spectrum gets certified balls.
     """
     box = box_of(state)
+    if not state.symbols and plan(state, cut if isinstance(cut, Cut) else parse_cut(cut, state)
+                                  ).route == "certified":  # the planner's route, from the structure
+        return certified_spectrum(state, cut, digits)
     try:
         return ordered_spectrum(squared_coefficients(state, cut, box), box)
     except NoClosedForm as why:
