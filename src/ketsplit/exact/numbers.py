@@ -81,6 +81,7 @@ class NumberBlock:
 
     matrix: DomainMatrix      # B over F
     conjugate: DomainMatrix   # conj(B) over F
+    values: tuple = ()        # B's entries as given, row by row (kept for single-entry rows)
 
     @property
     def field(self):
@@ -100,7 +101,7 @@ def number_block(block: sympy.Matrix) -> NumberBlock | None:
     values = list(block)
     if all(v.is_Rational for v in values):  # the common case, without construct_domain
         elements = [sympy.QQ(int(v.p), int(v.q)) for v in values]
-        return _block(block.shape, elements + elements, sympy.QQ)
+        return _block(block.shape, elements + elements, sympy.QQ, values)
     degree = field_degree_bound(values)
     if degree is None or degree > MAX_FIELD_DEGREE:
         return None
@@ -112,10 +113,10 @@ def number_block(block: sympy.Matrix) -> NumberBlock | None:
     if not (domain.is_ZZ or domain.is_QQ or domain.is_ZZ_I or domain.is_QQ_I or domain.is_AlgebraicField):
         return None
     field = domain.get_field()
-    return _block(block.shape, [field.convert_from(e, domain) for e in elements], field)
+    return _block(block.shape, [field.convert_from(e, domain) for e in elements], field, values)
 
 
-def _block(shape: tuple[int, int], elements: list, field) -> NumberBlock:
+def _block(shape: tuple[int, int], elements: list, field, values: list) -> NumberBlock:
     """B and conj(B) from their elements over ``field`` (B's row by row, then conj(B)'s)."""
     size = shape[0] * shape[1]
 
@@ -123,7 +124,7 @@ def _block(shape: tuple[int, int], elements: list, field) -> NumberBlock:
         return DomainMatrix([items[r * shape[1]:(r + 1) * shape[1]] for r in range(shape[0])],
                             shape, field)
 
-    return NumberBlock(matrix(elements[:size]), matrix(elements[size:]))
+    return NumberBlock(matrix(elements[:size]), matrix(elements[size:]), tuple(values))
 
 
 def radical_form(value: sympy.Expr) -> sympy.Expr:
@@ -321,6 +322,11 @@ def rank_one(found: NumberBlock) -> Piece:
     weight = sum((a * b for ra, rb in zip(entries, conj) for a, b in zip(ra, rb)), field.zero)
     sigma = root(found.expr(weight))
     if rows == 1:  # keep any phase on the right vector: the left one is then |0>
+        single = [v for v in found.values if v != 0]
+        if len(single) == 1 and not sympy.Abs(single[0]).has(sympy.Abs):
+            # one amplitude a: |a| and a/|a| as typed (cos(pi/8), exp(2 pi i/3)), not rewritten
+            sigma = sympy.Abs(single[0])
+            return sigma, Vector([[1]]), _vector([v / sigma for v in found.values])
         return sigma, Vector([[1]]), _vector([found.expr(a) / sigma for a in entries[0]])
     column = next(j for j in range(cols) if any(entries[i][j] for i in range(rows)))
     norm = root(found.expr(sum((entries[i][column] * conj[i][column] for i in range(rows)), field.zero)))
