@@ -85,21 +85,20 @@ class Lexer:
     def advance(self) -> None:
         """Move to the next token."""
         found = TOKEN.match(self.text, self.after)
-        token = found.group(2) if found else "#"
+        space, token = found.groups() if found else ("", "#")
+        end = found.end() if found else len(self.text)
+        start = end - len(token) if found else end
         if token[0] not in PLAIN_START and (token[0] != "|" or len(token) == 1) or \
                 token in ("**", ".", "#") or not token.isascii():
-            start = found.start(2) if found else len(self.text)
             token = _resolve(token, start, self.text, self.line)
         if token == "#":
-            self.spaced = self.text[:found.start(2) if found else len(self.text)][-1:] in WHITESPACE
+            self.spaced = self.text[:start][-1:] in WHITESPACE
             self.token, self.start, self.width = "", len(self.text.rstrip()), 1
             self.after = len(self.text)
             return
-        self.token = token
-        self.start = found.start(2)
-        self.after = found.end()
-        self.width = self.after - self.start
-        self.spaced = self.start > found.start()
+        self.token, self.start, self.after = token, start, end
+        self.width = end - start
+        self.spaced = bool(space)
 
     def skip_to(self, position: int) -> None:
         """Pass over the text up to ``position`` (the end of a token) and read on from there."""
