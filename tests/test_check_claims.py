@@ -290,3 +290,14 @@ def test_the_python_check_takes_every_claim_kind_of_the_statement():
 
 def mp_real(value):
     return mpmath.mpmathify(sympy.N(value, 70))
+
+
+def test_coefficients_of_two_complex_amplitudes():
+    # a|00> + b|11> has Schmidt coefficients |a|, |b| over sqrt(|a|^2 + |b|^2) (fact of the
+    # trade): the signs follow from those of the factors; a itself is not real
+    norm = "sqrt(abs(a)^2 + abs(b)^2)"
+    fields = run(f"check schmidt a|00> + b|11> = [abs(a)/{norm}, abs(b)/{norm}]")
+    assert fields["verdict"] == "holds for all complex a, b (exact)"
+    fields = run(f"check schmidt a|00> + b|11> = [a/{norm}, abs(b)/{norm}]")
+    assert fields["verdict"].startswith("fails at a = ")
+    assert "not real and nonnegative" in fields["reason"]

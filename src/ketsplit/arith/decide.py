@@ -269,12 +269,16 @@ def _one_sign(expr: sympy.Expr, box: Box, want: int) -> Decided[bool]:
         assumed = expr.is_nonnegative if want > 0 else expr.is_nonpositive
         if assumed:
             return Decided(True, f"exact: {word} for every value (sympy's assumptions)")
+        parts = _sign_from_parts(expr, box)
+        if parts is not None and parts * want >= 0:
+            return Decided(True, f"exact: {word} for every value (the signs of its factors "
+                                 "and terms)")
         witness = _opposite_point(expr, box, want, _sample_points(expr, box))
         if witness is not None:
             return witness
         free = ", ".join(sorted(s.name for s in expr.free_symbols - set(box)))
-        return Decided(None, f"{free} has no declared range",
-                       f"declare a range for {free} (real {free} in [lo, hi])")
+        return Decided(None, f"its sign is not proved for every value of {free}",
+                       f"declare a range (real {free} in [lo, hi]) or check at a point")
     by_zeros = _sign_by_zeros(expr, box, want)
     if by_zeros is not None:
         return by_zeros
@@ -303,6 +307,8 @@ def _sign_from_parts(expr: sympy.Expr, box: Box) -> int | None:
         if int(expr.exp) % 2 == 0:
             return 1
         return _part_sign(expr.base, box)
+    if expr.is_Pow and expr.exp.is_Rational and _part_sign(expr.base, box) == 1:
+        return 1  # a real root of a number >= 0 (the principal one, as sympy's) is >= 0
     return None
 
 
@@ -310,7 +316,9 @@ def _part_sign(expr: sympy.Expr, box: Box) -> int | None:
     if not expr.free_symbols:
         return _constant_sign(expr).value
     if not expr.free_symbols <= set(box):
-        return 1 if expr.is_nonnegative else (-1 if expr.is_nonpositive else None)
+        if expr.is_nonnegative:
+            return 1
+        return -1 if expr.is_nonpositive else _sign_from_parts(expr, box)
     whole = _whole_box_sign(expr, box)
     if whole is not None:
         return whole.value
