@@ -117,7 +117,7 @@ def polynomial_class(exprs: tuple[sympy.Expr, ...], params: tuple[Parameter, ...
             raise NotPolynomial("the difference has a square root or modulus of a parameter "
                                 "expression (a branch), so random points prove nothing")
         return form, [form.rewrite(e) for e in exprs]
-    except NoPolynomialForm as why:
+    except (NoPolynomialForm, sympy.polys.polyerrors.PolynomialError) as why:
         raise NotPolynomial(f"the difference is not polynomial in the parameters or in cos, sin, "
                             f"exp of them ({why}), so random points prove nothing") from None
 
