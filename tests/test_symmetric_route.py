@@ -16,7 +16,7 @@ from ketsplit import InputError, Session
 from ketsplit.figures import overview
 from ketsplit.language.errors import LimitError
 from ketsplit.limits import limits_set
-from ketsplit.symmetric import dicke_reduced, symmetric_reduced, symmetric_spectrum
+from ketsplit.symmetric import dicke_reduced, symmetric_rank, symmetric_reduced, symmetric_spectrum
 
 R = sympy.Rational
 C = sympy.binomial
@@ -168,3 +168,28 @@ def test_issue_16_dicke_cases():
     with pytest.raises(InputError) as err:
         Session().run("psi = dicke(1)")
     assert "dicke(n, k)" in str(err.value) and "dicke_ket" not in str(err.value)
+
+
+def test_exact_rank_from_the_hankel_matrix():
+    # fact of the trade: D(n, j) across k|n-k has rank min(k, j, n-k, n-j) + 1, and a
+    # spin-coherent state sum_j sqrt(C(n,j)) a^(n-j) b^j D(n, j) is a product (rank 1)
+    n = 30
+    for k, j in ((15, 15), (15, 2), (4, 28), (1, 0)):
+        assert symmetric_rank(ketsplit.dicke(n, j), cut_text(k, n)) == min(k, j, n - k, n - j) + 1
+    coherent = " + ".join(f"sqrt({C(8, j)}) 2^{8 - j} 3^{j} dicke(8, {j})" for j in range(9))
+    assert symmetric_rank(ketsplit.ket(coherent), cut_text(3, 8)) == 1
+
+
+@pytest.mark.parametrize("weights", [{10: 1, 3: 2, 7: 1}, {0: 1, 1: -1, 2: 1}, {4: 1, 9: 3, 11: -2}])
+def test_exact_rank_agrees_with_numpy(weights):
+    # reference library: numpy's matrix_rank of the dense float matrix M of the Vandermonde
+    # splitting, for states whose singular values are far from zero (checked by the ratio)
+    n, k = 12, 6
+    m = numpy.zeros((k + 1, n - k + 1))
+    for j, c in weights.items():
+        for a in range(max(0, j - (n - k)), min(k, j) + 1):
+            m[a, j - a] = c * numpy.sqrt(float(C(k, a) * C(n - k, j - a) / C(n, j)))
+    values = numpy.linalg.svd(m, compute_uv=False)
+    assert all(v > 1e-8 * values[0] or v < 1e-14 * values[0] for v in values)
+    text = " + ".join(f"({c}) dicke({n}, {j})" for j, c in weights.items())
+    assert symmetric_rank(ketsplit.ket(text), cut_text(k, n)) == numpy.linalg.matrix_rank(m)

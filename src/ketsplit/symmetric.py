@@ -28,9 +28,10 @@ product, a sum with an ordinary ket) expands into ordinary labels.
 What the engine calls for a :class:`SymmetricState` (none lists 2^n labels):
 :func:`dicke_split` (the two-part state M across a cut, for any Schmidt
 route), :func:`symmetric_schmidt`, :func:`symmetric_spectrum` (squared
-coefficients), :func:`dicke_reduced` (the reduced state in the Dicke basis of
-the kept qubits), :func:`symmetric_reduced` (the same in their ordinary
-basis), :func:`symmetric_overview` (``cuts``: one row per class of cuts) and
+coefficients), :func:`symmetric_rank` (the exact rank, from a Hankel matrix),
+:func:`dicke_reduced` (the reduced state in the Dicke basis of the kept
+qubits), :func:`symmetric_reduced` (the same in their ordinary basis),
+:func:`symmetric_overview` (``cuts``: one row per class of cuts) and
 :func:`dicke_basis_pair` (``check``: two symmetric sides compared weight by
 weight).
 """
@@ -42,6 +43,8 @@ from itertools import combinations
 from typing import Iterator, Mapping
 
 import sympy
+from sympy.polys.constructor import construct_domain
+from sympy.polys.matrices import DomainMatrix
 
 from . import limits
 from .exact.coerce import as_expr
@@ -324,6 +327,29 @@ def symmetric_reduced(state: SymmetricState, keep: tuple[int, ...] | str) -> sym
     scale = [1 / sympy.sqrt(sympy.binomial(m, a)) for a in range(m + 1)]
     return sympy.Matrix(2 ** m, 2 ** m, lambda x, y: block[ones[x], ones[y]] * scale[ones[x]]
                         * scale[ones[y]])
+
+
+def symmetric_rank(state: SymmetricState, cut: Cut | str | None) -> int | None:
+    """The exact Schmidt rank across ``cut`` of a state with constant weights (None with
+    parameters: their generic rank comes from the other routes).
+
+    M[m, l] = c_{m+l} sqrt(C(k, m) C(n-k, l) / C(n, m+l)) is diag(sqrt C(k, m)) H
+    diag(sqrt C(n-k, l)) with the Hankel matrix H[m, l] = w_{m+l}, w_j = c_j / sqrt(C(n, j)).
+    The diagonal factors are invertible, so rank M = rank H, decided exactly over the small
+    field the w_j generate (one square root per weight, not one per entry).
+    """
+    if state.symbols:
+        return None
+    if not isinstance(cut, Cut):
+        cut = parse_cut(cut, state)
+    n, k = state.nparts, len(cut.left)
+    w = {j: c / sympy.sqrt(sympy.binomial(n, j)) for j, c in state.weights}
+    keys = [(m, j - m) for j in w for m in range(max(0, j - (n - k)), min(k, j) + 1)]
+    domain, elements = construct_domain([w[m + l] for m, l in keys], extension=True)
+    rows: dict[int, dict[int, object]] = {}
+    for (m, l), element in zip(keys, elements):
+        rows.setdefault(m, {})[l] = element
+    return DomainMatrix(rows, (k + 1, n - k + 1), domain).rank()
 
 
 def symmetric_spectrum(state: SymmetricState, cut: Cut | str | None) -> list[sympy.Expr]:
