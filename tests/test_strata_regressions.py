@@ -222,3 +222,13 @@ def test_points_outside_the_range_are_said_to_be_outside():
     found = strata(psi, "1|2")
     assert values_of(found[1], "t") == [sympy.Rational(1, 2)]
     assert any(n.startswith("2 exact real solutions where the rank drops lie outside") for n in found.notes)
+
+
+def test_pi_among_the_amplitudes_is_exact_algebra_not_an_error():
+    # By hand: rows (pi, pi, 0), (1, 1, 0), (0, 0, 1): the first two are proportional, so the
+    # rank is 2 (pi is transcendental, so it behaves as an indeterminate: Lindemann, fact of
+    # the trade); and s + t <= 2 < pi on the unit square, so s + t - pi never vanishes there
+    found = strata(ketsplit.ket("pi|00> + pi|01> + |10> + |11> + |22>"), "1|2")
+    assert [s.rank for s in found] == [2]
+    found = strata(unit_square("|00> + (s + t - pi)|11>"), "1|2")
+    assert [s.rank for s in found] == [2] and not found.undecided

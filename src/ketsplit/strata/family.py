@@ -159,13 +159,38 @@ def exact_rank(numbers: list[sympy.Expr], shape: tuple[int, int]) -> int:
 
 def _field_rank(numbers: list[sympy.Expr], shape: tuple[int, int]) -> int:
     domain, elements = construct_domain(numbers, extension=True)
-    if not (domain.is_ZZ or domain.is_QQ or domain.is_AlgebraicField or domain.is_GaussianRing
-            or domain.is_GaussianField):
-        # EX, or a polynomial ring whose generators (such as cos(2 atan r)) are not independent
+    if not (_algebraic(domain) or _one_transcendental(domain)):
+        # EX, or a polynomial ring whose generators (such as cos(1), sin(1)) are not independent
         raise ArithmeticError(f"the matrix entries are not in an exact algebraic field ({domain})")
     m, n = shape
     rows = [elements[k * n:(k + 1) * n] for k in range(m)]
     return DomainMatrix(rows, shape, domain).to_field().rank()
+
+
+def _algebraic(domain) -> bool:
+    return bool(domain.is_ZZ or domain.is_QQ or domain.is_AlgebraicField or domain.is_GaussianRing
+                or domain.is_GaussianField)
+
+
+def _one_transcendental(domain) -> bool:
+    """Polynomials (or fractions) in one number proved transcendental over an algebraic field:
+    then that number behaves as an indeterminate, and the rank over QQ(x) is the rank."""
+    if not (domain.is_PolynomialRing or domain.is_FractionField) or len(domain.symbols) != 1:
+        return False
+    return _algebraic(domain.domain) and transcendental(domain.symbols[0])
+
+
+def transcendental(number: sympy.Expr) -> bool:
+    """Known transcendental (Lindemann-Weierstrass): pi, e^a, cos a, sin a for a nonzero
+    rational a, and log r for a rational r > 0, r != 1 (since e^(log r) = r is algebraic)."""
+    if number in (sympy.pi, sympy.E):
+        return True
+    argument = number.args[0] if len(number.args) == 1 else None
+    if isinstance(number, (sympy.exp, sympy.cos, sympy.sin)):
+        return bool(argument.is_Rational and argument != 0)
+    if isinstance(number, sympy.log):
+        return bool(argument.is_Rational and argument > 0 and argument != 1)
+    return False
 
 
 def rank_over_root(numbers: list[sympy.Expr], shape: tuple[int, int], root: sympy.CRootOf
