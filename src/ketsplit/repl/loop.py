@@ -132,8 +132,9 @@ class Shell:
             return True
         self.warned = pending
         lines = "1 line" if pending == 1 else f"{pending} lines"
-        self.console.line(f"{lines} of work not saved: 'save FILE' keeps them; Ctrl-D (or exit) "
-                          "again leaves without saving", "class:error")
+        self.console.line(wrap_lines(f"{lines} of work not saved ('save FILE' keeps the work); "
+                                     "Ctrl-D or exit again leaves without saving", self.columns),
+                          "class:error")
         return False
 
     def compute(self, line: str):
