@@ -10,13 +10,16 @@ variable is free and every value is an exact rational.
 
 A nonzero numerator N of total degree at most D vanishes at a point drawn
 uniformly from S^n with probability at most D/|S| (Schwartz-Zippel).  Each
-variable is drawn from SAMPLES evenly spaced rationals inside an interval of
-its domain that the declared ranges allow (a polynomial that vanishes on an
-open piece of its domain vanishes identically, so a sub-interval suffices);
-POINTS independent points that all give exactly zero leave a probability of
-at most (D/|S|)^POINTS that the identity is false.  D is bounded from the
-expression's structure, never measured.  A point where the value is not zero
-refutes the claim exactly, and is mapped back to exact parameter values.
+variable is drawn from |S| = SAMPLES - 1 evenly spaced rationals inside an
+interval of its domain that the declared ranges allow (a polynomial that
+vanishes on an open piece of its domain vanishes identically, so a
+sub-interval suffices); POINTS independent points that all give exactly zero
+leave a probability of at most (D/|S|)^POINTS that the identity is false.  D
+is bounded from the expression's structure, never measured; a bound above
+MAX_BOUND gives no confirmation.  The generator is seeded from the claim, so
+a check replays with the same points (the probability is over that draw).
+A point where the value is not zero refutes the claim exactly, and is mapped
+back to exact parameter values.
 """
 
 from __future__ import annotations
