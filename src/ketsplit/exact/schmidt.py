@@ -205,9 +205,22 @@ def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]
     matrix = CoefficientMatrix(state, cut)
     pieces: list[Piece] = []
     for rows, cols in matrix.blocks():
-        for sigma, u, w in decompose_block(matrix.block_matrix(rows, cols)):
+        if len(rows) == len(cols) == 1:  # one amplitude a: sigma |a|, phase a/|a| (most sparse blocks)
+            found = single_piece(matrix.rows[rows[0]][cols[0]])
+        else:
+            found = decompose_block(matrix.block_matrix(rows, cols))
+        for sigma, u, w in found:
             pieces.append((sigma, embed(u, rows, matrix.shape[0]), embed(w, cols, matrix.shape[1])))
     return pieces, matrix.shape
+
+
+def single_piece(value: sympy.Expr) -> list[Piece]:
+    """The piece of a 1 x 1 block: |a| as sympy writes it, and the phase a/|a|."""
+    size = sympy.Abs(value)
+    if size.has(sympy.Abs):  # sympy cannot write |a| without Abs: the general route
+        return decompose_block(sympy.Matrix([[value]]))
+    phase = value / size
+    return [(size, sympy.Matrix([[1]]), sympy.Matrix([[phase if phase.is_Rational else tidy(phase)]]))]
 
 
 def embed(vector: Vector, positions: list[int], size: int) -> Vector:
