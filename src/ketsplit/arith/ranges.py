@@ -21,7 +21,7 @@ from math import floor
 from typing import Callable, Mapping
 
 import sympy
-from flint import acb, arb, ctx
+from flint import arb, ctx
 
 from ..language.errors import InputError
 from ..numeric.enclose import Encloser
@@ -205,16 +205,6 @@ def value_range(expr: sympy.Expr, box: Box, bits: int = RANGE_BITS) -> Interval:
     if not (result.lo.is_finite() and result.hi.is_finite()):
         raise NoRange("the range is unbounded on this box (a pole?)")
     return result
-
-
-def box_enclosure(expr: sympy.Expr, box: Box, bits: int = RANGE_BITS) -> acb:
-    """A complex ball holding every value of ``expr`` on the box (complex expressions too)."""
-    encloser = Encloser(bits)
-    walker = RangeWalker(box, bits)
-    with ctx.workprec(bits):
-        for symbol in box:
-            encloser.memo[symbol] = acb(walker.memo[symbol].ball())
-    return encloser(expr)
 
 
 def simplest_between(lo: Fraction, hi: Fraction) -> Fraction:
