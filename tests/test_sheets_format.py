@@ -127,7 +127,7 @@ def test_a_result_before_any_statement_is_reported():
 
 @pytest.mark.parametrize("key, value", [
     ("digits", "many"), ("digits", "999999999"), ("digits", "31"), ("digits", "4"),
-    ("digits", "３０"), ("exact budget", "inf"), ("exact budget", "nan"), ("exact budget", "-5"),
+    ("digits", "３０"), ("digits", "9" * 5000), ("exact budget", "9" * 5000), ("exact budget", "inf"), ("exact budget", "nan"), ("exact budget", "-5"),
     ("exact budget", "1e1"), ("exact budget", "20.5"), ("strata budget", "Infinity"),
     ("entropy unit", "furlongs"), ("method", "eval"),
 ])

@@ -35,6 +35,8 @@ from ketsplit.sheets.runner import ValueEquality, compared, differences, replay
 
 SHEETS = sorted((Path(__file__).resolve().parents[1] / "worksheets").glob("*.kss"))
 DECLARATIONS = {"real", "positive", "complex", "integer", "space"}
+POSIX_FIFOS = pytest.mark.skipif(not hasattr(os, "mkfifo") or sys.platform != "linux",
+                                 reason="FIFOs (and opening one for reading and writing) as on Linux")
 
 
 def saved_figures(tmp_path) -> Path:
@@ -222,6 +224,7 @@ with open(sys.argv[1], "wb") as out:
 """
 
 
+@POSIX_FIFOS
 def test_an_endless_text_stream_stops_at_the_size_limit(tmp_path, monkeypatch):
     # a FIFO reports st_size 0: the size is never trusted, the bytes are counted
     monkeypatch.setattr("ketsplit.sheets.reading.MAX_BYTES", 1 << 16)
@@ -238,12 +241,14 @@ def test_an_endless_text_stream_stops_at_the_size_limit(tmp_path, monkeypatch):
         os.close(holder)
 
 
+@POSIX_FIFOS
 def test_a_fifo_without_a_writer_does_not_wait(tmp_path):
     fifo = tmp_path / "nobody.kss"
     os.mkfifo(fifo)
     assert read_sheet(fifo).lines == ()
 
 
+@POSIX_FIFOS
 def test_a_fifo_whose_writer_never_writes_stops_at_the_time_limit(tmp_path):
     fifo = tmp_path / "silent.kss"
     os.mkfifo(fifo)
@@ -253,6 +258,20 @@ def test_a_fifo_whose_writer_never_writes_stops_at_the_time_limit(tmp_path):
             read_sheet(fifo)
     finally:
         os.close(silent_writer)
+
+
+@pytest.mark.parametrize("text", [
+    "#! ketsplit worksheet 1\n#! end: " + "9" * 5000 + " lines\n",
+    "#! ketsplit worksheet " + "9" * 5000 + "\n", "#! ketsplit worksheet ²\n",
+    "#! ketsplit worksheet 1\n#! end: ² lines\n"])
+def test_numbers_in_the_format_and_end_lines_are_short_ascii_digits(text):
+    # Python refuses int() of more than 4300 digits, and int("²") (ValueError, not ours)
+    try:
+        sheet = parse_sheet(text.encode())
+    except SheetError as err:
+        assert "format line" in err.message
+    else:
+        assert any("not a worksheet line" in p.message for p in sheet.problems)
 
 
 def test_a_file_of_too_many_lines_is_refused_unparsed(monkeypatch):
@@ -406,9 +425,10 @@ HEADERS = ["#! ketsplit worksheet 1", "#! ketsplit worksheet 2", "#! ketsplit wo
            "#! exact budget: 20.0", "#! exact budget: inf", "#! exact budget: -5",
            "#! strata budget: 1e400", "#! entropy unit: nats", "#! method: certified",
            "#! method: eval", "#! saved: 2026-12-01", "#! end: 3 lines", "#! end: 999999999999 lines",
-           "#! end: x lines", "#!", "#! unknown key: 1"]
+           "#! end: x lines", "#! end: ² lines", "#!", "#! unknown key: 1"]
 DAMAGE = [b"\x00", b"\xff\xfe", b"\x1b[2J", b"\r", b"\x0c", b"\xef\xbb\xbf", b"\xe2\x80\xae",
-          b"(", b"|", b"#>", b"#|", b"#!", b";", b"\n", b"\xd1\x95", b"9" * 50, b"^", b"sum(n=0..9,"]
+          b"(", b"|", b"#>", b"#|", b"#!", b";", b"\n", b"\xd1\x95", b"9" * 50, b"9" * 5000,
+          "²".encode(), b"^", b"sum(n=0..9,"]
 
 
 @st.composite

@@ -1,10 +1,14 @@
 """Worksheets: a session kept as plain text that replays and verifies.
 
 - :mod:`.format`   the ``.kss`` file format: reading (with damage reports) and writing
+- :mod:`.reading`  the bytes of a file, bounded in size and in time (devices and FIFOs too)
+- :mod:`.header`   the settings a header may set, never above the reader's
+- :mod:`.visible`  control characters from a file shown as escapes, never sent
 - :mod:`.runner`   replaying a worksheet through a Session, comparing with what it recorded
 - :mod:`.matching` when a result computed now agrees with a recorded one
 - :mod:`.export`   LaTeX and Markdown
-- :mod:`.atomic`   writing a file so that a crash never leaves half of it
+- :mod:`.atomic`   writing a file so that a crash never leaves half of it (through links;
+                   litter of killed saves swept)
 
 From Python::
 

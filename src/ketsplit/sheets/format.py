@@ -39,7 +39,7 @@ FORMAT = 1
 MAGIC = "#! ketsplit worksheet"
 DIRECTIVE, FIRST, MORE = "#!", "#>", "#|"
 MARKERS = (DIRECTIVE, FIRST, MORE)
-END = re.compile(r"#! end: (\d+) lines?$")
+END = re.compile(r"#! end: ([0-9]{1,12}) lines?$")
 HEADER = re.compile(r"#! ([a-z][a-z ]*): (.*)$")
 EXTENSION = ".kss"
 MAX_LINES = 200_000  # a worksheet is typed text; a file of more lines is refused unparsed
@@ -169,7 +169,7 @@ def read_format(texts: list[tuple[int, str]], name: str) -> tuple[int | None, in
     if not texts or not texts[0][1].startswith(MAGIC):
         return None, 0
     word = texts[0][1][len(MAGIC):].strip()
-    if not word.isdigit():
+    if not re.fullmatch(r"[0-9]{1,12}", word):
         raise SheetError(f"{name}, line 1: the format line should end with a format number, "
                          f"found {word!r}")
     if int(word) > FORMAT:
@@ -228,7 +228,7 @@ class BodyReader:
         end, header = END.match(text.rstrip()), HEADER.match(text.rstrip())
         if end:
             self.end = (number, int(end.group(1)))
-        elif header and not self.lines:
+        elif header and header.group(1) != "end" and not self.lines:
             self.header.append((header.group(1), header.group(2).strip()))
             self.header_lines.append(number)
         else:

@@ -22,15 +22,20 @@ INFORMATIONAL = ("ketsplit", "saved")  # header keys that describe the file and 
 CEILINGED = ("digits", "exact_budget", "strata_budget")  # settings a worksheet may not raise
 
 
+SHORT = 12  # characters of a header number (no setting needs more; int() refuses 4300+ digits)
+
+
 def whole(text: str, low: int, high: int) -> int:
-    if not (text.isascii() and text.isdigit()) or not low <= int(text) <= high:
+    if not (len(text) <= SHORT and text.isascii() and text.isdigit()
+            and low <= int(text) <= high):
         raise ValueError(f"a whole number from {low} to {high}")
     return int(text)
 
 
 def seconds(text: str, high: float) -> float:
     plain = text.replace(".", "", 1)
-    if not (plain.isascii() and plain.isdigit()) or not 0 <= float(text) <= high:
+    if not (len(text) <= SHORT and plain.isascii() and plain.isdigit()
+            and 0 <= float(text) <= high):
         raise ValueError(f"a number of seconds from 0 to {high:g}, written with digits")
     return float(text)
 

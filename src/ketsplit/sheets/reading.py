@@ -22,6 +22,8 @@ from .visible import visible
 
 MAX_BYTES = 64 << 20  # a worksheet is typed text; reading stops past this many bytes
 CHUNK = 1 << 16
+# never wait for a FIFO's writer to open, never take a terminal as the controlling one
+OPEN_FLAGS = os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_NOCTTY", 0)
 
 
 class SheetError(InputError):
@@ -40,7 +42,7 @@ def read_bounded(path: str | Path, head: int | None = None) -> bytes:
     with time_limited(seconds, lambda: SheetError(f"cannot read {shown}: "
                                                   f"{limits.over_time(seconds).message}")):
         try:
-            fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_NOCTTY", 0))
+            fd = os.open(path, OPEN_FLAGS)
         except OSError as err:
             raise SheetError(f"cannot read {shown}: {err.strerror or err}") from None
         try:

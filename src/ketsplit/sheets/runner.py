@@ -107,9 +107,10 @@ class SheetSession(Session):
             limit = ", ".join(f"{name} {getattr(self.ceiling, name.replace(' ', '_')):g}"
                               for name in over)
             raise InputError(f"a worksheet cannot raise {' or '.join(over)} above the reader's "
-                             f"settings ({limit}); to allow it, set it in the shell first and "
-                             "open the worksheet there", Span(line, indent + 1,
-                                                              len(statement.strip())), statement)
+                             f"settings ({limit}); to allow it, raise it yourself first (in the "
+                             "shell, then 'open' the worksheet there), or feed a file you trust "
+                             "in as typed statements ('ketsplit < FILE')",
+                             Span(line, indent + 1, len(statement.strip())), statement)
         return result
 
 
