@@ -35,6 +35,7 @@ from .tidy import is_zero, neat_number, tidy
 Vector = sympy.Matrix
 DENSE_VECTOR_SIZE = 256  # side spaces larger than this hold Schmidt vectors sparsely
 Piece = tuple[sympy.Expr, Vector, Vector]  # (sigma, left vector, right vector) of one block
+ONE = sympy.ImmutableMatrix([[1]])
 
 
 def decompose_block(block: sympy.Matrix) -> list[Piece]:
@@ -216,11 +217,13 @@ def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]
 
 def single_piece(value: sympy.Expr) -> list[Piece]:
     """The piece of a 1 x 1 block: |a| as sympy writes it, and the phase a/|a|."""
+    if value.is_Rational:
+        return [(abs(value), ONE, sympy.Matrix([[sympy.sign(value)]]))]
     size = sympy.Abs(value)
     if size.has(sympy.Abs):  # sympy cannot write |a| without Abs: the general route
         return decompose_block(sympy.Matrix([[value]]))
     phase = value / size
-    return [(size, sympy.Matrix([[1]]), sympy.Matrix([[phase if phase.is_Rational else tidy(phase)]]))]
+    return [(size, ONE, sympy.Matrix([[phase if phase.is_Rational else tidy(phase)]]))]
 
 
 def embed(vector: Vector, positions: list[int], size: int) -> Vector:
