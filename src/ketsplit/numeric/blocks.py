@@ -156,7 +156,7 @@ class Block:
         fixed = self.fixed(ball)
         gram = fixed.ints * fixed.ints.adjoint()
         with ctx.workprec(ball.bits):
-            size = frobenius(fixed.ints)
+            size = arb(sum(int(gram.re[k, k]) for k in range(gram.shape[0]))).sqrt()  # ||Bint||_F
             eta = 2 * size * fixed.eta + fixed.eta ** 2
             found = single(gram, eta) if self.side == 1 else eigen(gram, eta, ball.bits, goal, vectors)
             squares = tuple(nonnegative(v) * fixed.scale ** 2 for v in found.values)
@@ -308,12 +308,6 @@ def round_part(x: arb, q: int) -> tuple[int, arb]:
         value = (mantissa + (1 << (-shift - 1))) >> -shift
         rest = abs(arb(mantissa) * arb(2) ** shift - value)
     return value, rest + x.rad() * arb(2) ** q
-
-
-def frobenius(matrix: IntMatrix) -> arb:
-    """||matrix||_F, enclosed (exact integers summed exactly)."""
-    total = sum(int(v) ** 2 for v in matrix.re.entries()) + sum(int(v) ** 2 for v in matrix.im.entries())
-    return arb(total).sqrt()
 
 
 def nonnegative(value: arb) -> arb:
