@@ -4,6 +4,8 @@ import random
 
 import pytest
 import sympy
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 import ketsplit
 from ketsplit import InputError
@@ -183,15 +185,35 @@ def test_gaussian_numbers_become_sympy_in_canonical_form():
     "1/0|0> + |1>",                            # division by zero: the ordinary route's error
 ])
 def test_runs_of_plain_terms_build_the_values_of_the_tree(text):
+    assert_same_either_way(text, ketsplit.Session())
+
+
+def assert_same_either_way(text, session):
+    """The one-pass reading of runs gives the value, or the first error, of the node-by-node
+    build (the parse without runs, as checking/forms.py reads claims)."""
     from ketsplit.language.build import Builder, evaluate
-    session = ketsplit.Session()
 
     def outcome(build):
         try:
             value = build()
-            return value.terms, value.nparts
+            return (value.terms, value.nparts) if hasattr(value, "terms") else value
         except InputError as err:
             return err.message, err.column
     fast = outcome(lambda: evaluate(text, session)[0])
-    slow = outcome(lambda: Builder(session, text).build(parse_expression(text)))  # no runs
+    slow = outcome(lambda: Builder(session, text).build(parse_expression(text)))
     assert fast == slow
+
+
+PIECES = ["+ 3|01>", "- (2+3i)|10>", "+ i|00>", "(2-i)|11>", "-|01>", "+|0>", " 7i |12>",
+          "(-3 + 4 i) |21>", "+ 3/4|01>", "- (1-2i)/6 |10>", "/0|11>", "/2", "+", "-", "(",
+          ")", "*", "2", "|01>", "^2", "x", " ", "+ 12345678901234567890|11>", ",", "|01>|1>"]
+
+
+@given(st.lists(st.sampled_from(PIECES), min_size=1, max_size=9).map("".join),
+       st.sampled_from(["", "space 2 2", "space 3 3"]))
+@settings(max_examples=300, deadline=None, derandomize=True, database=None)
+def test_runs_agree_with_the_tree_on_generated_text(text, prelude):
+    # pieces of plain terms and the tokens that break them, glued at random
+    session = ketsplit.Session()
+    session.run(prelude)
+    assert_same_either_way(text, session)
