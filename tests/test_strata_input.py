@@ -7,7 +7,7 @@ import sympy
 
 import ketsplit
 from ketsplit import InputError
-from ketsplit.language.errors import LimitError
+from ketsplit.base.errors import LimitError
 from ketsplit.states import Parameter, State
 from ketsplit.strata import strata
 

@@ -14,7 +14,7 @@ import sympy
 
 import ketsplit
 from ketsplit import Session
-from ketsplit.language.errors import LimitError
+from ketsplit.base.errors import LimitError
 from ketsplit.strata import strata
 
 from strata_checks import check_all, values_of

@@ -14,7 +14,7 @@ import sympy
 import ketsplit
 from ketsplit import InputError, Session
 from ketsplit.figures import overview
-from ketsplit.language.errors import LimitError
+from ketsplit.base.errors import LimitError
 from ketsplit.limits import limits_set
 from ketsplit.symmetric import dicke_reduced, symmetric_rank, symmetric_reduced, symmetric_spectrum
 

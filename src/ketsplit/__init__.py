@@ -19,7 +19,7 @@ from .api import (check, conversion_probability, convertible, figures, ket, lu_e
 from .checking import Verdict
 from .cuts import Cut, parse_cut
 from .decomposition import Decomposition
-from .language.errors import InputError, LimitError
+from .base.errors import InputError, LimitError
 from .session import Result, Session, Settings
 from .states import Parameter, State
 from .strata import Stratum

@@ -18,7 +18,7 @@ from . import cuts, decomposition, limits
 from . import figures as _figures
 from . import strata as _strata
 from .language.build import KetValue
-from .language.errors import InputError
+from .base.errors import InputError
 from .numeric.point import at_point
 from .session import Session
 from .states import State

@@ -42,7 +42,7 @@ from .exact.coerce import as_expr
 from .exact.eigen import characteristic_polynomial, eigenvalues
 from .exact.errors import NoClosedForm
 from .exact.signs import box_of
-from .language.errors import InputError
+from .base.errors import InputError
 from .planner import plan
 from .states import State
 

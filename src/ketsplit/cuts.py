@@ -19,7 +19,7 @@ from sympy.polys.matrices import DomainMatrix
 from sympy.polys.constructor import construct_domain
 
 from . import limits
-from .language.errors import InputError, Span
+from .base.errors import InputError, Span
 from .states import State, simplify_real
 
 

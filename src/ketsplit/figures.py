@@ -21,7 +21,7 @@ from .exact.coerce import as_expr
 from .cuts import Cut, reduced, side_dimension
 from .decomposition import Decomposition, decompose
 from .exact.signs import box_of, drop_abs
-from .language.errors import InputError
+from .base.errors import InputError
 from .planner import MAX_FIELD_DEGREE, field_degree_bound
 from .states import State, simplify_real
 
@@ -304,7 +304,7 @@ def every_cut(nparts: int) -> list[Cut]:
 
 def overview(state: State, unit: str = "bits") -> Overview:
     """Schmidt rank and entropy across every cut, and which parts split off."""
-    from .language.errors import LimitError
+    from .base.errors import LimitError
     from .symmetric import SymmetricState, symmetric_overview  # one row per class of cuts
     if isinstance(state, SymmetricState):
         return symmetric_overview(state, unit)

@@ -48,7 +48,7 @@ from contextlib import contextmanager
 from dataclasses import asdict, dataclass, fields, replace
 from typing import Iterator
 
-from .language.errors import LimitError, Span
+from .base.errors import LimitError, Span
 
 ENVIRONMENT = "KETSPLIT_LIMITS"
 

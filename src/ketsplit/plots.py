@@ -19,7 +19,7 @@ import sympy
 from flint import acb, arb, fmpq
 
 from .figures import without_extrema
-from .language.errors import InputError
+from .base.errors import InputError
 from .sheets.atomic import write_atomic
 from .numeric.enclose import Encloser
 from .render.ketprint import text as expr_text

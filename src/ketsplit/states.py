@@ -15,7 +15,7 @@ from typing import Iterable, Mapping
 import sympy
 
 from .exact.coerce import as_expr
-from .language.errors import InputError
+from .base.errors import InputError
 from .render.ketprint import text as language_text
 
 KINDS = ("real", "positive", "complex", "integer")

@@ -50,7 +50,7 @@ from . import limits
 from .exact.coerce import as_expr
 from .cuts import Cut, check_dense, parse_cut, parse_parts
 from .language.build import KET_FUNCTIONS, KetValue
-from .language.errors import InputError
+from .base.errors import InputError
 from .states import Parameter, State, abs_squared, simplify_real
 
 MAX_SYMMETRIC_PARTS = 10_000

@@ -38,7 +38,7 @@ import sympy
 from flint import acb
 
 from ..exact.coerce import as_expr
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..numeric.enclose import Encloser
 from .identity import TooLarge, constant_zero, identically_zero, parameters_of
 from .radicals import square_roots_as_moduli

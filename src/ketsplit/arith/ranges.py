@@ -23,7 +23,7 @@ from typing import Callable, Mapping
 import sympy
 from flint import arb, ctx
 
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..numeric.enclose import Encloser
 
 RANGE_BITS = 128

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Iterable, Mapping
 
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..states import Parameter
 from ..symmetric import dicke_basis_pair
 from .decide import BUDGET, Options, decide

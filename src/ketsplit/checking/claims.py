@@ -37,7 +37,7 @@ import sympy
 from ..exact.coerce import as_expr
 from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
 from ..language.build import KetValue
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..arith.decide import ball_at, is_nonnegative
 from ..numeric.schmidt import certified_schmidt, start_bits
 from ..render.ketprint import text

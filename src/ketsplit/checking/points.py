@@ -16,7 +16,7 @@ from typing import Iterator
 import sympy
 
 from ..exact.coerce import as_expr
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..states import Parameter
 
 UNBOUNDED_REAL = (-3, 3)     # where real parameters without a range are sampled

@@ -20,7 +20,7 @@ import sympy
 
 from ..exact.coerce import as_expr
 from ..language.build import KetValue
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..render.ketprint import label_text
 from ..states import Parameter, State
 from ..session import kind_of_symbol

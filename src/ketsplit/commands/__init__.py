@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 from typing import TYPE_CHECKING
 
-from ..language.errors import InputError, Span
+from ..base.errors import InputError, Span
 from .registry import COMMANDS, WITH_CLAUSE, CommandCall, command
 from . import core  # noqa: F401  (registers the commands)
 from . import resources  # noqa: F401

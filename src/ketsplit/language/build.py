@@ -28,7 +28,7 @@ import sympy
 
 from .. import limits
 from . import numbers
-from .errors import InputError, Span
+from ..base.errors import InputError, Span
 from .grammar import RUN_TERM, parse_expression, run_terms
 from .numbers import Gaussian
 from .syntax import Binary, Call, KetLiteral, KetRun, MatrixLiteral, Name, Negate, Node, Number, Sum

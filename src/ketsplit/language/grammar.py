@@ -20,7 +20,7 @@ from __future__ import annotations
 import re
 
 from .. import limits
-from .errors import InputError, Span
+from ..base.errors import InputError, Span
 from .syntax import Binary, Call, KetLiteral, KetRun, MatrixLiteral, Name, Negate, Node, Number, Sum
 from .tokens import DIGITS, OPERATORS, Lexer
 

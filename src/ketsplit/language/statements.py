@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .errors import Span
+from ..base.errors import Span
 from .grammar import Parser, is_name
 from .syntax import Binary, Name, Node, Number
 from .tokens import DIGITS, Lexer

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from .errors import Span
+from ..base.errors import Span
 
 
 @dataclass(frozen=True)

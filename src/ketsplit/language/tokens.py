@@ -19,7 +19,7 @@ from dataclasses import dataclass
 from enum import Enum
 
 from .. import limits
-from .errors import InputError, Span
+from ..base.errors import InputError, Span
 
 
 class Kind(Enum):

@@ -26,7 +26,7 @@ from flint import arb, ctx, fmpq, fmpz_mat
 from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 
-from ..language.errors import LimitError
+from ..base.errors import LimitError
 from .enclose import Encloser, enclose
 from .certified import Ball, SchmidtVector
 from .hermitian import Eigen, IntMatrix, eigen, python_ints, single

@@ -19,7 +19,7 @@ import sympy
 from flint import acb, arb, ctx, fmpq
 
 from ..exact.coerce import as_expr
-from ..language.errors import InputError
+from ..base.errors import InputError
 
 
 class NotEnclosable(InputError):

@@ -13,7 +13,7 @@ from typing import Mapping
 import mpmath
 import sympy
 
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..states import State
 
 

@@ -23,7 +23,7 @@ import mpmath
 from flint import arb, ctx
 
 from ..cuts import CoefficientMatrix, Cut, parse_cut
-from ..language.errors import LimitError
+from ..base.errors import LimitError
 from ..states import State
 from ..symmetric import SymmetricState, dicke_split
 from .blocks import Block, Spectrum

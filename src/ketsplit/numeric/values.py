@@ -5,7 +5,7 @@ from __future__ import annotations
 import sympy
 from flint import arb
 
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..session import MAX_DIGITS, MIN_DIGITS
 from .digits import certain_count, digits_cell
 from .enclose import NotEnclosable, enclose

@@ -16,7 +16,7 @@ from prompt_toolkit import print_formatted_text
 from prompt_toolkit.formatted_text import FormattedText
 from prompt_toolkit.output import create_output
 
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..render.text import fitted_text
 from .lexer import shell_style
 

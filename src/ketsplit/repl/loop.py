@@ -32,7 +32,7 @@ from prompt_toolkit.lexers.pygments import SyncFromStart
 from prompt_toolkit.output import Output
 
 from ..commands import COMMANDS
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..render.text import wrap_lines
 from ..session import UNRECORDED as FILE_STATEMENTS, Session, strip_comment
 from . import helptext

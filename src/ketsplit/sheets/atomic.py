@@ -32,7 +32,7 @@ import stat
 import tempfile
 from pathlib import Path
 
-from ..language.errors import InputError
+from ..base.errors import InputError
 
 
 class WriteError(InputError, OSError):

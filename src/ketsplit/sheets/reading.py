@@ -16,7 +16,7 @@ import stat
 from pathlib import Path
 
 from .. import limits
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..timebudget import time_limited
 from .visible import visible
 

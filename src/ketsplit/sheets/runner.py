@@ -25,7 +25,7 @@ import sympy
 from .. import __version__, limits
 from ..arith import decide
 from ..language.build import KetValue
-from ..language.errors import InputError, Span
+from ..base.errors import InputError, Span
 from ..session import UNRECORDED, Entry, Result, Session, Settings, split_statements
 from ..timebudget import time_limited
 from .format import Record, Sheet, SheetLine, format_sheet

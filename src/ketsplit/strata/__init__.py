@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from ..cuts import CoefficientMatrix, Cut, parse_cut
 from ..exact.polyform import NoPolynomialForm
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..decomposition import decompose
 from ..states import State
 from .budget import Budget

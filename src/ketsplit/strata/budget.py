@@ -16,7 +16,7 @@ import time
 from dataclasses import dataclass, field
 from typing import Callable, TypeVar
 
-from ..language.errors import LimitError
+from ..base.errors import LimitError
 from ..numeric.budget import OverBudget, time_budget
 
 T = TypeVar("T")

@@ -25,7 +25,7 @@ from sympy.polys.polyerrors import NotInvertible
 from ..exact.coerce import as_expr
 from ..cuts import CoefficientMatrix, Cut
 from ..exact.polyform import PolyForm, polynomial_form, split_complex
-from ..language.errors import LimitError
+from ..base.errors import LimitError
 from ..states import State
 from .proved import zero
 
