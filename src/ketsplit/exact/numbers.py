@@ -259,23 +259,45 @@ def simple_pieces(found: NumberBlock, projector: Projector) -> list[Piece]:
     # |w| scale: sigma |P e_c| = sqrt(lambda N(lambda)), one radical of a polynomial reduced mod f
     lam = sympy.Poly(LAMBDA, LAMBDA, domain=found.field)
     scale2 = (norm2 * lam).rem(projector.factor)
-    # numerators are expanded (a + b sqrt d); Viete and CRootOf forms are left whole
-    neat = sympy.expand if projector.factor.degree() <= 2 else (lambda v: v)
     pieces = []
-    for value in solve_factor(projector.factor):
-        norm = root(neat(_at(found, norm2, value)))
-        scale = root(neat(_at(found, scale2, value)))
-        u = Vector([neat(_at(found, p, value)) / norm for p in u_polys])
-        w = Vector([neat(_at(found, p, value)) / scale for p in w_polys])
-        pieces.append((root(value), u, w))
+    for at in evaluations(found, projector.factor):
+        norm, scale = root(at(norm2)), root(at(scale2))
+        u = Vector([at(p) / norm for p in u_polys])
+        w = Vector([at(p) / scale for p in w_polys])
+        pieces.append((root(at([found.field.zero, found.field.one])), u, w))
     return pieces
 
 
-def _at(found: NumberBlock, coefficients, value: sympy.Expr) -> sympy.Expr:
-    """sum_j c_j value^j for coefficients over F (lowest first, or a Poly) at a closed-form root."""
-    if isinstance(coefficients, sympy.Poly):
-        coefficients = coefficients.rep.to_list()[::-1]
-    return sympy.Add(*(found.expr(c) * value ** j for j, c in enumerate(coefficients) if c))
+def evaluations(found: NumberBlock, factor: sympy.Poly) -> list:
+    """For each root lambda of the factor, a function taking a polynomial over F (reduced mod
+    the factor; a Poly or coefficients lowest first) to its closed-form value at lambda.
+
+    A monic quadratic x^2 + b x + c has lambda = h +- sqrt(D) with h = -b/2 and
+    D = b^2/4 - c in F, so c0 + c1 lambda = (c0 + c1 h) +- c1 sqrt(D) is formed in F and
+    written out once, with no expansion of radical expressions.  Cubics (Viete) and
+    higher (CRootOf) are substituted as they are.
+    """
+    field = found.field
+    if factor.degree() == 2:
+        _, b, c = factor.rep.to_list()
+        half = -b / 2
+        radical = root(found.expr(b * b / 4 - c))
+
+        def quadratic(sign: int):
+            def at(poly) -> sympy.Expr:
+                c0, c1 = (_low_first(poly) + [field.zero, field.zero])[:2]
+                return found.expr(c0 + c1 * half) + sign * found.expr(c1) * radical
+            return at
+        return [quadratic(1), quadratic(-1)]
+
+    def closed(value: sympy.Expr):
+        return lambda poly: sympy.Add(*(found.expr(c) * value ** j
+                                        for j, c in enumerate(_low_first(poly)) if c))
+    return [closed(value) for value in solve_factor(factor)]
+
+
+def _low_first(poly) -> list:
+    return poly.rep.to_list()[::-1] if isinstance(poly, sympy.Poly) else list(poly)
 
 
 def repeated_pieces(found: NumberBlock, rho: DomainMatrix, value) -> list[Piece]:
