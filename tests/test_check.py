@@ -241,7 +241,7 @@ def test_states_from_the_api_keep_their_ranges():
 
 def test_a_binomial_expansion_is_proved_and_a_slip_refuted_exactly():
     # (a + b)^20 against its binomial expansion, written out by sympy's expand (reference library)
-    from ketsplit.render.ketprint import text
+    from ketsplit.language.printer import text
     a, b = sympy.symbols("a b", real=True)
     expansion = sympy.expand((a + b) ** 20)
     verdict = check("(a + b)^20", text(expansion), real="a b")

@@ -47,7 +47,7 @@ def numeric_rank(matrix: sympy.Matrix, root: sympy.Expr) -> int:
 
 
 def state_text(matrix: sympy.Matrix) -> str:
-    from ketsplit.render.ketprint import text
+    from ketsplit.language.printer import text
     terms = [f"({text(matrix[i, j])})|{i}{j}>" for i in range(matrix.rows) for j in range(matrix.cols)
              if matrix[i, j] != 0]
     return " + ".join(terms)

@@ -38,7 +38,7 @@ from flint import arb, ctx
 from .arith.decide import Decided, compare as compare_values, is_nonnegative, is_zero
 from .cuts import Cut, parse_cut, reduced, side_dimension
 from .decomposition import schmidt
-from .exact.coerce import as_expr
+from .language.coerce import as_expr
 from .exact.eigen import characteristic_polynomial, eigenvalues
 from .exact.errors import NoClosedForm
 from .exact.signs import box_of

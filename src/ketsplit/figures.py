@@ -17,7 +17,7 @@ from typing import Callable, Sequence
 import sympy
 from flint import arb, ctx
 
-from .exact.coerce import as_expr
+from .language.coerce import as_expr
 from .cuts import Cut, reduced, side_dimension
 from .decomposition import Decomposition, decompose
 from .exact.signs import box_of, drop_abs

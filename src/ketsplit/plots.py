@@ -22,7 +22,7 @@ from .figures import without_extrema
 from .base.errors import InputError
 from .sheets.atomic import write_atomic
 from .numeric.enclose import Encloser
-from .render.ketprint import text as expr_text
+from .language.printer import text as expr_text
 
 GLYPHS = "●○◆◇■□+x"  # ▲ is kept for the strata markers
 COLOURS = ("#1f4e79", "#c0392b", "#27ae60", "#8e44ad", "#d68910", "#148f77", "#7b241c", "#2e4053")

@@ -14,9 +14,9 @@ from typing import Iterable, Mapping
 
 import sympy
 
-from .exact.coerce import as_expr
+from .language.coerce import as_expr
 from .base.errors import InputError
-from .render.ketprint import text as language_text
+from .language.printer import text as language_text
 
 KINDS = ("real", "positive", "complex", "integer")
 MAX_SIMPLIFY_OPS = 100
@@ -177,7 +177,7 @@ class State:
         return table
 
     def __repr__(self) -> str:
-        from .render.ketprint import ket_text
+        from .language.printer import ket_text
         return f"State({ket_text(self)}; dims={self.dims})"
 
 

@@ -47,7 +47,7 @@ from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 
 from . import limits
-from .exact.coerce import as_expr
+from .language.coerce import as_expr
 from .cuts import Cut, check_dense, parse_cut, parse_parts
 from .language.build import KET_FUNCTIONS, KetValue
 from .base.errors import InputError
@@ -156,7 +156,7 @@ class SymmetricState(State):
 
     def dicke_text(self) -> str:
         """The state in the language: a sum of dicke(n, j) terms."""
-        from .render.ketprint import terms_text
+        from .language.printer import terms_text
         return terms_text((c, f"dicke({self.nparts}, {j})") for j, c in self.weights)
 
     def ket_value(self) -> "SymmetricKet":

@@ -37,7 +37,7 @@ from typing import Generic, Mapping, TypeVar
 import sympy
 from flint import acb
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..base.errors import InputError
 from ..numeric.enclose import Encloser
 from .identity import TooLarge, constant_zero, identically_zero, parameters_of

@@ -23,7 +23,7 @@ from math import comb, lcm, prod
 
 import sympy
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..exact.polyform import NoPolynomialForm, polynomial_form
 from ..states import Parameter, make_symbol
 

@@ -34,13 +34,13 @@ from typing import Mapping
 import flint
 import sympy
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..cuts import CoefficientMatrix, Cut, check_dense, side_dimension
 from ..language.build import KetValue
 from ..base.errors import InputError
 from ..arith.decide import ball_at, is_nonnegative
 from ..numeric.schmidt import certified_schmidt, start_bits
-from ..render.ketprint import text
+from ..language.printer import text
 from ..states import Parameter, State
 from ..symmetric import SymmetricState, dicke_split, symmetric_reduced
 from .evaluation import values_at

@@ -33,7 +33,7 @@ from typing import Callable, Mapping
 import flint
 import sympy
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..states import Parameter
 from ..numeric.budget import OverBudget, time_budget
 from ..numeric.digits import certain_decimal, zero_bound_text
@@ -211,7 +211,7 @@ def _refute_at(difference: Difference, point: Point, options: Options,
 def _refuted_exactly(difference: Difference, found: "randomized.Refutation",
                      domain: str) -> Verdict:
     """A refutation at a point of the polynomial variables, with the exact difference."""
-    from ..render.ketprint import text
+    from ..language.printer import text
     where = difference.labels[found.index] if found.index < len(difference.labels) else ""
     counterexample: dict = {symbol.name: value for symbol, value in found.point.items()}
     counterexample[DIFFERENCE] = text(found.value)
@@ -256,7 +256,7 @@ def _exact_value(entry: Entry, point: Point) -> Shown | None:
     re, im = value.as_real_imag()
     if not (re.is_Rational and im.is_Rational):
         return None
-    from ..render.ketprint import text
+    from ..language.printer import text
     return Shown(text(value), 0)
 
 

@@ -15,7 +15,7 @@ from typing import Iterator
 
 import sympy
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..base.errors import InputError
 from ..states import Parameter
 

@@ -18,10 +18,10 @@ from typing import Mapping
 import flint
 import sympy
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..language.build import KetValue
 from ..base.errors import InputError
-from ..render.ketprint import label_text
+from ..language.printer import label_text
 from ..states import Parameter, State
 from ..session import kind_of_symbol
 from .evaluation import values_at

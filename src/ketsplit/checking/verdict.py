@@ -56,7 +56,7 @@ class Verdict:
 
 
 def _value_text(value) -> str:
-    from ..render.ketprint import text
+    from ..language.printer import text
     return text(value) if isinstance(value, sympy.Basic) else str(value)
 
 

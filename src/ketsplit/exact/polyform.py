@@ -41,7 +41,7 @@ from typing import Iterable, Mapping, Sequence
 
 import sympy
 
-from .coerce import as_expr
+from ..language.coerce import as_expr
 from ..numeric.enclose import enclose
 from ..states import Parameter
 

@@ -18,7 +18,7 @@ from typing import Callable
 import sympy
 from flint import acb, arb, ctx, fmpq
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..base.errors import InputError
 
 

@@ -22,7 +22,7 @@ from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 from sympy.polys.polyerrors import NotInvertible
 
-from ..exact.coerce import as_expr
+from ..language.coerce import as_expr
 from ..cuts import CoefficientMatrix, Cut
 from ..exact.polyform import PolyForm, polynomial_form, split_complex
 from ..base.errors import LimitError

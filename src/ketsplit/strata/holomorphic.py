@@ -30,7 +30,7 @@ from itertools import combinations, islice, product
 import sympy
 
 from ..cuts import CoefficientMatrix, Cut
-from ..render.ketprint import text
+from ..language.printer import text
 from ..states import State
 from .budget import Budget, BudgetExceeded
 from .family import exact_rank, nonzero_minors, strip_common_denominators

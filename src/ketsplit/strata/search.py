@@ -38,7 +38,7 @@ import sympy
 
 from ..cuts import CoefficientMatrix, Cut
 from ..exact.polyform import Coordinate, real_imag
-from ..render.ketprint import text
+from ..language.printer import text
 from ..states import State
 from . import samples
 from .budget import Budget, BudgetExceeded

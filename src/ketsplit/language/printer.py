@@ -1,0 +1,86 @@
+"""Linear text in the state language itself, so that output can be pasted back as input."""
+
+from __future__ import annotations
+
+from typing import Iterable
+
+import sympy
+from sympy.printing.str import StrPrinter
+
+from .coerce import as_expr
+
+class LanguagePrinter(StrPrinter):
+    """sympy's str printer, speaking our syntax: ``i``, ``^``, ``conj``, ``abs``."""
+
+    def _print_ImaginaryUnit(self, expr):
+        return "i"
+
+    def _print_Pow(self, expr, rational=False):
+        text = super()._print_Pow(expr, rational)
+        return text.replace("**", "^")
+
+    def _print_conjugate(self, expr):
+        return f"conj({self._print(expr.args[0])})"
+
+    def _print_Abs(self, expr):
+        return f"abs({self._print(expr.args[0])})"
+
+    def _print_Exp1(self, expr):
+        return "exp(1)"
+
+    def _print_ComplexRootOf(self, expr):
+        return f"root{expr.index + 1}({self._print(expr.expr.as_expr())})"
+
+    def _print_Mul(self, expr):
+        return super()._print_Mul(expr).replace("**", "^")
+
+
+_PRINTER = LanguagePrinter({"order": "none"})
+
+
+def text(expr) -> str:
+    """An expression in linear state-language syntax."""
+    if isinstance(expr, sympy.MatrixBase):
+        rows = [", ".join(text(expr[i, j]) for j in range(expr.cols)) for i in range(expr.rows)]
+        return "[" + ", ".join(f"[{r}]" for r in rows) + "]"
+    return _PRINTER.doprint(as_expr(expr))
+
+
+def label_text(label: Iterable[int]) -> str:
+    label = tuple(label)
+    if all(v < 10 for v in label):
+        return "|" + "".join(str(v) for v in label) + ">"
+    return "|" + ",".join(str(v) for v in label) + ">"
+
+
+def _needs_brackets(coefficient: sympy.Expr) -> bool:
+    return isinstance(coefficient, sympy.Add)
+
+
+def terms_text(terms: Iterable[tuple[sympy.Expr, str]]) -> str:
+    """``c1|l1> + c2|l2>`` from (coefficient, ket text) pairs; '0' when there are none."""
+    pieces: list[str] = []
+    for coefficient, ket in terms:
+        coefficient = as_expr(coefficient)
+        sign = "+"
+        if coefficient.could_extract_minus_sign():
+            sign, coefficient = "-", -coefficient
+        if coefficient == 1:
+            body = ket
+        elif _needs_brackets(coefficient):
+            body = f"({text(coefficient)}){ket}"
+        else:
+            body = f"{text(coefficient)} {ket}"
+        pieces.append((sign, body))
+    if not pieces:
+        return "0"
+    first_sign, first = pieces[0]
+    out = ("-" if first_sign == "-" else "") + first
+    for sign, body in pieces[1:]:
+        out += f" {sign} {body}"
+    return out
+
+
+def ket_text(state) -> str:
+    """A state as a sum of kets, in label order."""
+    return terms_text((amp, label_text(label)) for label, amp in state.terms())
