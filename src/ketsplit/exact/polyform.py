@@ -292,7 +292,12 @@ def angles_in_range(base: sympy.Expr, period: sympy.Expr, rng) -> list[sympy.Exp
 
 
 def compare(a: sympy.Expr, b: sympy.Expr) -> int:
-    """The sign of a - b for real constants: 0 only when proved equal, else proved by balls."""
+    """The sign of a - b for real constants: 0 only when proved equal, else proved by balls.
+
+    The decision layer (:mod:`ketsplit.arith`) builds on this module, so this is
+    its own small comparator: balls at rising precision for a sign; equality by
+    exact rewriting (simplify to 0) or a minimal polynomial x; never by samples.
+    """
     difference = as_expr(a - b)
     if difference == 0:
         return 0
@@ -304,8 +309,12 @@ def compare(a: sympy.Expr, b: sympy.Expr) -> int:
             return -1
         if bits == 64 and sympy.simplify(difference) == 0:
             return 0
-    if difference.equals(0):
-        return 0
+    x = sympy.Dummy("x")
+    try:
+        if sympy.minimal_polynomial(difference, x) == x:
+            return 0
+    except (NotImplementedError, sympy.polys.polyerrors.BasePolynomialError, ValueError):
+        pass
     raise ArithmeticError(f"cannot decide the sign of {difference}")
 
 
