@@ -16,6 +16,7 @@ __version__ = "0.1.0"
 
 from .api import (check, conversion_probability, convertible, figures, ket, lu_equivalent,
                   measures, rank, reduced, renyi, schmidt, strata)
+from .api import class_strata, entanglement_class, monogamy, three_tangle
 from .checking import Verdict
 from .cuts import Cut, parse_cut
 from .decomposition import Decomposition
@@ -28,4 +29,5 @@ from .symmetric import SymmetricState, dicke
 __all__ = ["ket", "schmidt", "rank", "reduced", "State", "Parameter", "Cut", "parse_cut",
            "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
            "figures", "measures", "renyi", "lu_equivalent", "convertible", "conversion_probability",
-           "check", "Verdict", "dicke", "SymmetricState", "strata", "Stratum", "__version__"]
+           "check", "Verdict", "dicke", "SymmetricState", "strata", "Stratum", "entanglement_class", "three_tangle",
+           "class_strata", "monogamy", "__version__"]

@@ -17,6 +17,7 @@ from . import compare as _compare
 from . import cuts, decomposition, limits
 from . import figures as _figures
 from . import strata as _strata
+from . import classes as _classes
 from .language.build import KetValue
 from .base.errors import InputError
 from .numeric.point import at_point
@@ -124,3 +125,7 @@ convertible = bounded(_compare.convertible)
 conversion_probability = bounded(_compare.conversion_probability)
 strata = bounded(_strata.strata)
 check = bounded(_checking.check)
+entanglement_class = bounded(_classes.entanglement_class)
+three_tangle = bounded(_classes.three_tangle)
+class_strata = bounded(_classes.class_strata)
+monogamy = bounded(_classes.monogamy)
