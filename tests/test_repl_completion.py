@@ -10,7 +10,7 @@ from ketsplit.figures import NAMES as FIGURE_NAMES
 from ketsplit.repl.completion import ShellCompleter
 from ketsplit.sheets.format import EXTENSION
 from ketsplit.repl.helptext import TOPICS
-from ketsplit.session import Session
+from ketsplit import Session
 
 
 def offered(session: Session, text: str) -> dict[str, str]:

@@ -6,7 +6,7 @@ import pytest
 
 from ketsplit.commands import COMMANDS
 from ketsplit.repl import helptext
-from ketsplit.session import Session
+from ketsplit import Session
 
 from repl_driver import new_shell
 

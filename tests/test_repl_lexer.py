@@ -6,7 +6,7 @@ import pytest
 
 from ketsplit.repl import lexer as lx
 from ketsplit.repl.lexer import KetLexer, Vocabulary, default_vocabulary
-from ketsplit.session import Session
+from ketsplit import Session
 from ketsplit.repl.lexer import session_vocabulary
 
 

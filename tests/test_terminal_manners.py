@@ -15,10 +15,10 @@ from ketsplit import __version__
 from ketsplit.cli import main
 from ketsplit.commands.topics import TOPICS
 from ketsplit.figures import NAMES as FIGURE_NAMES
-from ketsplit.render.report import Report, Table
+from ketsplit.base.document import Report, Table
 from ketsplit.render.text import breaks, fold, to_text
 from ketsplit.repl.completion import ShellCompleter
-from ketsplit.session import Session
+from ketsplit import Session
 
 from repl_driver import CTRL_D, ENTER, drive, new_shell
 

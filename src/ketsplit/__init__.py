@@ -21,7 +21,8 @@ from .checking import Verdict
 from .cuts import Cut, parse_cut
 from .decomposition import Decomposition
 from .base.errors import InputError, LimitError
-from .session import Result, Session, Settings
+from .api import Session
+from .session import Result, Settings
 from .states import Parameter, State
 from .strata import Stratum
 from .symmetric import SymmetricState, dicke

@@ -21,11 +21,20 @@ from . import classes as _classes
 from .language.build import KetValue
 from .base.errors import InputError
 from .numeric.point import at_point
-from .session import Session
+from . import session as _session
+from .render.results import ShownResult, shown
 from .states import State
 from .timebudget import time_limited
 
 Function = TypeVar("Function", bound=Callable)
+
+
+class Session(_session.Session):
+    """The Session of the shells and the Python API: its results can show themselves
+    (``.text()``, ``.latex()``, ``.to_json()``, notebook display)."""
+
+    def execute(self, statement: str, line: int = 1) -> ShownResult:
+        return shown(super().execute(statement, line))
 
 
 def bounded(function: Function) -> Function:

@@ -15,8 +15,8 @@ from pathlib import Path
 from typing import Iterable, Iterator
 
 from . import __version__
-from .language.errors import InputError, Span
-from .render.report import Field
+from .base.errors import InputError, Span
+from .base.document import Field
 from .render.text import fitted_text
 from .sheets.format import Sheet, SheetError, read_sheet
 
@@ -105,7 +105,8 @@ def run_typed(lines: Iterable[str], args, piped: bool = False) -> int:
     Ctrl-C cancels the running statement (the session as it was) and goes on, as
     the shell does; after -c it stops everything."""
     from .repl.guard import guarded
-    from .session import Session, split_statements
+    from .api import Session
+    from .session import split_statements
     session, status = Session(), OK
     for number, line in statement_lines(lines):
         for statement, _ in split_statements(line):

@@ -17,10 +17,10 @@ import sympy
 
 from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue, evaluate, kind_of
 from . import limits
-from .language.errors import InputError, LimitError, Span
+from .base.errors import InputError, LimitError, Span
 from .language.tokens import Kind, tokenize
 from .timebudget import time_limited
-from .render.report import Report
+from .base.document import Report
 from .states import KINDS, Parameter, State, make_symbol
 
 MIN_DIGITS, MAX_DIGITS = limits.Limits.min_digits, limits.Limits.max_digits  # defaults; see limits
@@ -43,35 +43,17 @@ class Space:
 
 @dataclass(frozen=True)
 class Result:
-    """One statement's outcome: the statement as typed and its report."""
+    """One statement's outcome: the statement as typed and its report.
+
+    Showing it (text, LaTeX, JSON) is the render layer's business: the
+    Session of the Python API and the shells hands out
+    :class:`ketsplit.render.results.ShownResult`, which adds those methods.
+    """
 
     statement: str
     kind: str
     report: Report
     line: int = 1
-
-    def text(self, pretty: bool = False) -> str:
-        from .render.text import to_text
-        return to_text(self.report, pretty)
-
-    def latex(self) -> str:
-        from .render.latex import to_latex
-        return to_latex(self.report)
-
-    def to_json(self) -> dict:
-        from .render.jsonout import to_data
-        return {"statement": self.statement, "kind": self.kind, "line": self.line,
-                **to_data(self.report)}
-
-    def __str__(self) -> str:
-        return self.text()
-
-    def __repr__(self) -> str:
-        return f"<{self.kind}: {self.statement}>\n{self.text()}"
-
-    def _repr_latex_(self) -> str:
-        from .render.latex import to_display_latex
-        return "$$" + to_display_latex(self.report) + "$$"
 
 
 @dataclass(frozen=True)

@@ -34,7 +34,8 @@ from prompt_toolkit.output import Output
 from ..commands import COMMANDS
 from ..base.errors import InputError
 from ..render.text import wrap_lines
-from ..session import UNRECORDED as FILE_STATEMENTS, Session, strip_comment
+from ..api import Session
+from ..session import UNRECORDED as FILE_STATEMENTS, strip_comment
 from . import helptext
 from .completion import DIRECTIVES, ShellCompleter
 from .continuation import logical_lines

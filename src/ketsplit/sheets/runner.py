@@ -26,7 +26,8 @@ from .. import __version__, limits
 from ..arith import decide
 from ..language.build import KetValue
 from ..base.errors import InputError, Span
-from ..session import UNRECORDED, Entry, Result, Session, Settings, split_statements
+from ..api import Session
+from ..session import UNRECORDED, Entry, Result, Settings, split_statements
 from ..timebudget import time_limited
 from .format import Record, Sheet, SheetLine, format_sheet
 from .header import raised
