@@ -1,0 +1,368 @@
+"""Statements on mixed states and operators: density, ptranspose, negativity, concurrence,
+mixedness, fidelity, separable, opschmidt, schmidtbasis; and ``NAME = reduce ...`` /
+``NAME = density ...``, which bind a density matrix (see :func:`bound_value`)."""
+
+from __future__ import annotations
+
+import re
+
+import sympy
+from flint import arb
+
+from .. import mixed
+from ..base.document import Field, Note, Report, Table
+from ..base.errors import InputError
+from ..cuts import CUT_PATTERN, PARTS_PATTERN, Cut, parse_cut, parse_parts, reduced
+from ..language.build import KetValue, kind_of
+from ..language.printer import text as language_text
+from ..mixed import Density, Number, Piece
+from ..numeric.digits import digits_cell
+from ..numeric.values import exact_cell
+from ..states import Parameter, State
+from .registry import WITH_CLAUSE, CommandCall, command
+
+MIXED_TOPIC = "mixed"
+
+
+# -- reading arguments -----------------------------------------------------------------
+
+
+def _dims(call: CommandCall, size: int) -> tuple[tuple[int, ...] | None, tuple[str, ...]]:
+    space = call.session.space
+    if space is not None and _product(space.dims) == size:
+        return space.dims, space.names
+    return mixed.qubit_dims(size), ()
+
+
+def _product(values) -> int:
+    total = 1
+    for v in values:
+        total *= v
+    return total
+
+
+def _params(call: CommandCall) -> tuple[Parameter, ...]:
+    return tuple(call.session.params.values())
+
+
+def operand(call: CommandCall, text: str, offset: int) -> Density | State:
+    """A bound density matrix, a state, or a matrix checked as a density matrix."""
+    name = text.strip()
+    found = call.session.bindings.get(name)
+    if isinstance(found, Density):
+        return _at_point(call, found)
+    value = call.value(text, offset)
+    if isinstance(value, KetValue):
+        return call.state(text, offset)
+    if isinstance(value, sympy.MatrixBase):
+        dims, names = _dims(call, value.rows)
+        try:
+            return _at_point(call, mixed.density(value, dims, names, _params(call)))
+        except InputError as err:
+            raise call.error(str(err.message if hasattr(err, "message") else err), offset,
+                             len(text.strip()) or 1) from None
+    raise call.error(f"{call.name}: expected a density matrix, a matrix or a state, found a "
+                     f"{kind_of(value)}", offset)
+
+
+def _at_point(call: CommandCall, rho: Density) -> Density:
+    if not call.point:
+        return rho
+    symbols = {p.name: p.symbol for p in rho.params}
+    missing = [n for n in call.point if n not in symbols]
+    if missing:
+        raise call.error(f"the density matrix has no parameter named {missing[0]!r}")
+    return mixed.density(rho.matrix.subs({symbols[n]: v for n, v in call.point.items()}),
+                         rho.dims, rho.names, rho.params)
+
+
+def density_operand(call: CommandCall, text: str, offset: int) -> Density:
+    found = operand(call, text, offset)
+    return mixed.pure_density(found) if isinstance(found, State) else found
+
+
+def _frame(rho: Density) -> State:
+    """A state with the density's parts, for reading cuts and part lists."""
+    return State(rho.dims, {}, rho.part_names())
+
+
+def density_and_cut(call: CommandCall) -> tuple[Density, Cut]:
+    text, cut_text, column = call.split_last(CUT_PATTERN)
+    rho = density_operand(call, text, call.offset)
+    span = call.error("", column, len(cut_text or "x")).span
+    return rho, parse_cut(cut_text, _frame(rho), span, call.source)
+
+
+def density_and_parts(call: CommandCall) -> tuple[Density, tuple[int, ...]]:
+    text, parts_text, column = call.split_last(PARTS_PATTERN)
+    rho = density_operand(call, text, call.offset)
+    if parts_text is None:
+        if len(rho.dims) != 2:
+            raise call.error(f"{call.name}: name the parts after the matrix, as in "
+                             f"'{call.name} rho 2'", column)
+        return rho, (1,)
+    span = call.error("", column, len(parts_text)).span
+    return rho, parse_parts(parts_text, _frame(rho), span, call.source)
+
+
+# -- cells -------------------------------------------------------------------------------
+
+
+def number_cell(value: Number, digits: int):
+    if isinstance(value, arb):
+        return digits_cell(value, digits)
+    return exact_cell(value, digits) if value.is_number else value
+
+
+def pieces_items(label: str, pieces: tuple[Piece, ...], digits: int) -> tuple:
+    if len(pieces) == 1 and pieces[0].symbol is None:
+        return (Field(label, number_cell(pieces[0].value, digits)),)
+    if len(pieces) == 1:
+        return (Field(label, pieces[0].value),)
+    symbol = pieces[0].symbol
+    rows = tuple((f"{language_text(p.lo)} <= {symbol} <= {language_text(p.hi)}", p.value)
+                 for p in pieces)
+    return (Table((f"range of {symbol}", label), rows),)
+
+
+def spectrum_cells(found: mixed.Spectrum, digits: int) -> list:
+    return [(number_cell(v, digits), m) for v, m in found.values]
+
+
+def _spectrum_items(found: mixed.Spectrum, digits: int, label: str) -> tuple:
+    rows = tuple((k, cell, m) for k, (cell, m) in enumerate(spectrum_cells(found, digits), start=1))
+    items: tuple = (Table(("k", label, "multiplicity"), rows),)
+    if found.factors:
+        items += (Field("the certified ones are the roots of",
+                        "; ".join(language_text(f) for f in found.factors)),)
+    return items
+
+
+def _digits(call: CommandCall) -> int:
+    return call.session.settings.digits
+
+
+# -- binding -----------------------------------------------------------------------------
+
+
+BINDING_WORDS = ("reduce", "density")
+FIRST = re.compile(r"\s*([A-Za-z_]+)\b")
+
+
+def bound_value(session, name: str, statement: str, start: int, line: int) -> Report | None:
+    """``NAME = reduce STATE PARTS`` or ``NAME = density EXPR``: bind a density matrix.
+    None when the right side is not one of these (an ordinary assignment)."""
+    from . import declarations
+    word = FIRST.match(statement, start)
+    if word is None or word.group(1) not in BINDING_WORDS:
+        return None
+    args_start = word.end()
+    args = statement[args_start:]
+    point = {}
+    clause = WITH_CLAUSE.search(args)
+    if clause:
+        point = declarations.parse_point(session, args[clause.end():], args_start + clause.end(),
+                                         line, statement)
+        args = args[:clause.start()]
+    call = CommandCall(session, word.group(1), args, args_start, line, statement, point)
+    rho = _reduced_density(call) if word.group(1) == "reduce" else density_operand(
+        call, call.args, call.offset)
+    session.bindings[name] = rho
+    return density_report(f"{name} =", rho)
+
+
+def _reduced_density(call: CommandCall) -> Density:
+    state, keep = call.state_and_parts()
+    matrix = sympy.ImmutableMatrix(reduced(state, keep))
+    names = tuple(state.names[k] for k in keep)
+    notes = () if state.is_normalised() else ("the state was normalised first",)
+    return Density(matrix, tuple(state.dims[k] for k in keep), names,
+                   tuple(p for p in state.params if p.symbol in matrix.free_symbols), notes)
+
+
+def density_report(title: str, rho: Density) -> Report:
+    parts = " ".join(f"{n}:{d}" for n, d in zip(rho.part_names(), rho.dims))
+    items = [Field("density matrix", rho.matrix), Field("parts", parts)]
+    if rho.params:
+        items.append(Field("parameters", ", ".join(p.describe() for p in rho.params)))
+    return Report(title, tuple(items), rho.notes)
+
+
+# -- statements ----------------------------------------------------------------------------
+
+
+@command("density", "density EXPR [with NAME=VALUE, ...]",
+         "a density matrix, checked (Hermitian, trace one, positive semidefinite); "
+         "NAME = density EXPR binds it, NAME = reduce STATE PARTS binds a reduced state",
+         "density [[1, 0, 0, 1], [0, 0, 0, 0], [0, 0, 0, 0], [1, 0, 0, 1]]/2", topic=MIXED_TOPIC)
+def run_density(call: CommandCall) -> Report:
+    rho = density_operand(call, call.args, call.offset)
+    return density_report("density matrix", rho).with_items(Field("purity", mixed.purity(rho)))
+
+
+@command("ptranspose", "ptranspose RHO [PARTS] [with NAME=VALUE, ...]",
+         "the partial transpose on the parts named (default: the second of two) and its spectrum",
+         "ptranspose [[1, 0, 0, 1], [0, 0, 0, 0], [0, 0, 0, 0], [1, 0, 0, 1]]/2 2",
+         topic=MIXED_TOPIC)
+def run_ptranspose(call: CommandCall) -> Report:
+    rho, parts = density_and_parts(call)
+    transposed = mixed.partial_transpose(rho, parts)
+    names = "".join(rho.part_names()[p] for p in parts)
+    items = (Field(f"rho^T_{names}", transposed),)
+    if not transposed.free_symbols:
+        items += _spectrum_items(mixed.spectrum(transposed, _digits(call)), _digits(call),
+                                 "eigenvalue")
+    else:
+        items += (Note("the spectrum of a family: see 'separable' and 'negativity'"),)
+    return Report(f"partial transpose on {names}", items, rho.notes)
+
+
+@command("negativity", "negativity RHO [CUT] [with NAME=VALUE, ...]",
+         "negativity and logarithmic negativity (the right side of the cut is transposed)",
+         "negativity [[1, 0, 0, 1], [0, 0, 0, 0], [0, 0, 0, 0], [1, 0, 0, 1]]/2 1|2",
+         topic=MIXED_TOPIC)
+def run_negativity(call: CommandCall) -> Report:
+    rho, cut = density_and_cut(call)
+    pieces = mixed.negativity(rho, cut.right, _digits(call))
+    logs = tuple(Piece(mixed.log_negativity(p.value), p.symbol, p.lo, p.hi) for p in pieces)
+    items = pieces_items("negativity", pieces, _digits(call)) + \
+        pieces_items("log-negativity (base 2)", logs, _digits(call))
+    return Report(f"negativity across {cut.describe(_frame(rho))}", items, rho.notes)
+
+
+@command("concurrence", "concurrence RHO [with NAME=VALUE, ...]",
+         "two-qubit concurrence of a mixed state (Wootters 1998) and the entanglement of formation",
+         "concurrence [[1, 0, 0, 1], [0, 1, 0, 0], [0, 0, 1, 0], [1, 0, 0, 1]]/4",
+         topic=MIXED_TOPIC)
+def run_concurrence(call: CommandCall) -> Report:
+    rho = density_operand(call, call.args, call.offset)
+    pieces = mixed.concurrence(rho, _digits(call))
+    formation = tuple(Piece(mixed.formation(p.value), p.symbol, p.lo, p.hi) for p in pieces)
+    items = pieces_items("concurrence", pieces, _digits(call)) + \
+        pieces_items("entanglement of formation (ebits)", formation, _digits(call))
+    return Report("concurrence (Wootters 1998)", items, rho.notes)
+
+
+@command("mixedness", "mixedness RHO [with NAME=VALUE, ...]",
+         "spectrum, purity, linear entropy and von Neumann entropy (bits) of a density matrix",
+         "mixedness [[3, 1], [1, 1]]/4", topic=MIXED_TOPIC)
+def run_mixedness(call: CommandCall) -> Report:
+    rho = density_operand(call, call.args, call.offset)
+    digits = _digits(call)
+    items: tuple = (Field("purity", number_cell(mixed.purity(rho), digits)),
+                    Field("linear entropy", number_cell(mixed.linear_entropy(rho), digits)),
+                    Field("von Neumann entropy (bits)",
+                          number_cell(mixed.von_neumann_entropy(rho, digits), digits)))
+    if not rho.symbols:
+        items = _spectrum_items(mixed.spectrum(rho.matrix, digits), digits, "eigenvalue") + items
+    return Report("mixedness", items, rho.notes)
+
+
+def _split_pair(call: CommandCall) -> tuple[tuple[str, int], tuple[str, int]]:
+    depth = 0
+    for k, ch in enumerate(call.args):
+        depth += ch in "([|" and ch != "|"
+        depth -= ch in ")]"
+        if ch == "," and depth == 0:
+            return (call.args[:k], call.offset), (call.args[k + 1:], call.offset + k + 1)
+    raise call.error("fidelity: give two states or density matrices separated by a comma, "
+                     "as in 'fidelity rho, sigma'")
+
+
+@command("fidelity", "fidelity A, B [with NAME=VALUE, ...]",
+         "fidelity (tr sqrt(sqrt(A) B sqrt(A)))^2 of two states or density matrices",
+         "fidelity (|00> + |11>)/sqrt(2), [[1, 0, 0, 0], [0, 0, 0, 0], [0, 0, 0, 0], [0, 0, 0, 1]]/2",
+         topic=MIXED_TOPIC)
+def run_fidelity(call: CommandCall) -> Report:
+    (a_text, a_at), (b_text, b_at) = _split_pair(call)
+    a, b = operand(call, a_text, a_at), operand(call, b_text, b_at)
+    value = mixed.fidelity(a, b, _digits(call))
+    return Report("fidelity", (Field("F", number_cell(value, _digits(call))),))
+
+
+def region_text(region: mixed.Region) -> str:
+    if region.symbol is None:
+        return "everywhere"
+    if region.is_point:
+        return f"{region.symbol} = {language_text(region.lo)}"
+    left = "[" if region.closed[0] else "("
+    right = "]" if region.closed[1] else ")"
+    return f"{region.symbol} in {left}{language_text(region.lo)}, {language_text(region.hi)}{right}"
+
+
+def _threshold_digits(regions: tuple[mixed.Region, ...], digits: int) -> tuple:
+    points = {r.lo for r in regions if r.symbol is not None} | {r.hi for r in regions if r.symbol}
+    shown = sorted((p for p in points if not p.is_Rational), key=sympy.default_sort_key)
+    return tuple(Field(f"  {language_text(p)}", exact_cell(p, digits)) for p in shown)
+
+
+@command("separable", "separable RHO [CUT] [with NAME=VALUE, ...]",
+         "where a density matrix (or a family of one parameter) is separable or entangled: the PPT "
+         "criterion, decisive on 2x2 and 2x3; larger sides are labelled PPT",
+         "separable [[1, 0, 0, 1], [0, 1, 0, 0], [0, 0, 1, 0], [1, 0, 0, 1]]/4 1|2",
+         topic=MIXED_TOPIC)
+def run_separable(call: CommandCall) -> Report:
+    rho, cut = density_and_cut(call)
+    found = mixed.separability(rho, cut)
+    rows = tuple((region_text(r), r.verdict) for r in found.regions)
+    items: tuple = (Table(("where", "verdict"), rows),)
+    items += _threshold_digits(found.regions, _digits(call))
+    a, b = found.sides
+    note = (f"PPT criterion (Peres 1996) on {a}x{b}: necessary and sufficient there (Horodecki, "
+            "Horodecki & Horodecki 1996)" if found.decisive else
+            f"on {a}x{b} PPT does not prove separability (PPT entangled states exist, Horodecki "
+            "1997): PPT regions are labelled PPT, not separable")
+    return Report(f"separability across {cut.describe(_frame(rho))}", items, rho.notes + (note,))
+
+
+def operator_and_cut(call: CommandCall) -> tuple[sympy.MatrixBase, tuple[int, ...], State, Cut]:
+    text, cut_text, column = call.split_last(CUT_PATTERN)
+    found = call.session.bindings.get(text.strip())
+    matrix = found.matrix if isinstance(found, Density) else call.value(text, call.offset)
+    if not isinstance(matrix, sympy.MatrixBase) or matrix.rows != matrix.cols:
+        raise call.error(f"{call.name}: expected a square matrix, found a {kind_of(matrix)}",
+                         call.offset)
+    dims, names = (found.dims, found.part_names()) if isinstance(found, Density) else \
+        _dims(call, matrix.rows)
+    if dims is None:
+        raise call.error(f"a {matrix.rows}x{matrix.rows} operator: declare its parts with 'space'",
+                         call.offset)
+    frame = State(dims, {}, names)
+    span = call.error("", column, len(cut_text or "x")).span
+    if call.point:
+        matrix = matrix.subs({sympy.Symbol(n, **_assumptions(call, n)): v
+                              for n, v in call.point.items()})
+    return matrix, dims, frame, parse_cut(cut_text, frame, span, call.source)
+
+
+def _assumptions(call: CommandCall, name: str) -> dict:
+    param = call.session.params.get(name)
+    return {} if param is None else param.symbol.assumptions0
+
+
+@command("opschmidt", "opschmidt OPERATOR [CUT] [with NAME=VALUE, ...]",
+         "operator Schmidt decomposition (Hilbert-Schmidt inner product): coefficients, rank and "
+         "the operators on each side",
+         "opschmidt [[1, 0, 0, 0], [0, 0, 1, 0], [0, 1, 0, 0], [0, 0, 0, 1]] 1|2", topic=MIXED_TOPIC)
+def run_opschmidt(call: CommandCall) -> Report:
+    matrix, dims, frame, cut = operator_and_cut(call)
+    found = mixed.operator_schmidt(matrix, dims, cut, _digits(call))
+    rows = tuple((k, number_cell(c, _digits(call)), a, b) for k, (c, a, b) in
+                 enumerate(zip(found.coefficients, found.left, found.right), start=1))
+    items = (Field("operator Schmidt rank", found.rank),
+             Table(("k", "coefficient", "left operator", "right operator"), rows))
+    return Report(f"operator Schmidt decomposition across {cut.describe(frame)}", items,
+                  ("operators orthonormal in tr(A^dagger B); O = sum_k c_k A_k (x) B_k",))
+
+
+@command("schmidtbasis", "schmidtbasis STATE [CUT] [with NAME=VALUE, ...]",
+         "local unitaries U_A, U_B with (U_A (x) U_B)|psi> = sum_k s_k |k>|k>",
+         "schmidtbasis (|00> + |01> + 2|11>)/sqrt(6) 1|2", topic=MIXED_TOPIC)
+def run_schmidtbasis(call: CommandCall) -> Report:
+    state, cut = call.state_and_cut()
+    found = mixed.to_schmidt_basis(state, cut)
+    items = (Field("coefficients", list(found.coefficients)), Field("U_A", found.left),
+             Field("U_B", found.right))
+    return Report(f"local unitaries to Schmidt form across {cut.describe(state)}", items,
+                  ("rows beyond the Schmidt rank complete the bases (Gram-Schmidt on the "
+                   "standard basis)",))
