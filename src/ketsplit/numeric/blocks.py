@@ -284,6 +284,10 @@ def gaussian_rational(value: sympy.Expr) -> tuple[Rational, Rational] | None:
     if value.is_Mul and len(value.args) == 2 and value.args[1] is sympy.I and value.args[0].is_Rational:
         return 0, _fraction(value.args[0])
     if value.is_Add and len(value.args) == 2:
+        real, imag = value.args
+        if real.is_Integer and imag.is_Mul and imag.args[-1] is sympy.I and len(imag.args) == 2 \
+                and imag.args[0].is_Integer:  # a + b i, the common case, read directly
+            return int(real.p), int(imag.args[0].p)
         first, second = (gaussian_rational(v) for v in value.args)
         if first is not None and second is not None:
             return first[0] + second[0], first[1] + second[1]

@@ -179,7 +179,8 @@ def eigen(a: IntMatrix, eta: arb, bits: int, goal: int, vectors: bool = True) ->
     """
     import numpy
     n = a.shape[0]
-    shift = max(0, max(abs(int(v)) for m in (a.re, a.im) for v in m.entries()).bit_length() - 60)
+    top = max(int(a.re[k, k]) for k in range(n))  # A0 = B B^H: |a_ij| <= max a_kk
+    shift = max(0, top.bit_length() - 60)
     af = a.floats(shift)  # A0 2^-shift: entries below 2^60, whatever the size of A0
     scale = float(numpy.max(numpy.abs(af))) or 1.0
     _, xf = numpy.linalg.eigh(af / scale)

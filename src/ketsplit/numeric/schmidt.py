@@ -90,6 +90,10 @@ CertifiedSchmidt = CertifiedDecomposition  # the name callers of certified_schmi
 
 def split_blocks(matrix: CoefficientMatrix) -> list[Block]:
     """The independent blocks, each with local row and column indices (cost: the entries)."""
+    rows, cols = matrix.shape
+    if len(matrix.entries) == rows * cols:  # every entry present: one block, nothing to search
+        return [Block({key: value for key, value in matrix.entries.items()}, rows, cols,
+                      tuple(range(rows)), tuple(range(cols)))]
     pieces = matrix.blocks()
     where: dict[int, tuple[int, int]] = {}  # row -> (block, local row)
     columns: dict[int, int] = {}            # column -> local column
