@@ -81,7 +81,7 @@ def test_decimals_are_the_same_where_both_are_certain(recorded, fresh, agree):
     assert decimals_agree(f"x  {recorded}", f"x  {fresh}") is agree
 
 
-def sessions_of(sheet) -> Session:
+def declarations_session(sheet) -> Session:
     """A session with the worksheet's declarations only (enough to read its values back)."""
     session = Session(settings=sheet.settings)
     for entry in sheet.lines:
@@ -141,7 +141,7 @@ def test_any_recorded_token_changed_in_a_demo_worksheet_is_a_difference_on_its_l
     records[r] = Record(record.lines[:n] + (edited_line,) + record.lines[n + 1:])
     edited = dataclasses.replace(entry, records=tuple(records))
     if path not in EQUALITIES:
-        EQUALITIES[path] = ValueEquality(sessions_of(sheet))
+        EQUALITIES[path] = ValueEquality(declarations_session(sheet))
     assert compared(entry, entry.records, EQUALITIES[path]) is None
     difference = compared(edited, entry.records, EQUALITIES[path])
     assert difference is not None and difference.line == entry.line, (text, edited_line)
