@@ -116,6 +116,10 @@ def assign(session: "Session", name: str, statement: str, start: int, line: int)
     if name in session.params:
         raise _error(f"{name!r} is a declared parameter; choose another name for the value", line,
                      column, len(name), statement)
+    from .mixed import bound_value  # NAME = reduce ... / NAME = density ...: a density matrix
+    made = bound_value(session, name, statement, start, line)
+    if made is not None:
+        return made
     value = session.evaluate(statement[start:], start, line)
     if isinstance(value, KetValue):
         state = session.make_state(value, Span(line, start + 1, len(statement) - start))
