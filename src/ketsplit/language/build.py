@@ -564,6 +564,8 @@ def as_value(found: object) -> Value:
         return found.ket_value()
     if isinstance(found, State):
         return KetValue(dict(found.amplitudes), found.nparts, found.dims)
+    if hasattr(found, "builder_value"):  # a density matrix (ketsplit.mixed) is its matrix here
+        return found.builder_value()
     return found  # type: ignore[return-value]
 
 
