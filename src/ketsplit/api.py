@@ -17,6 +17,7 @@ from . import compare as _compare
 from . import cuts, decomposition, limits
 from . import figures as _figures
 from . import strata as _strata
+from . import mixed as _mixed
 from . import classes as _classes
 from .language.build import KetValue
 from .base.errors import InputError
@@ -138,3 +139,77 @@ entanglement_class = bounded(_classes.entanglement_class)
 three_tangle = bounded(_classes.three_tangle)
 class_strata = bounded(_classes.class_strata)
 monogamy = bounded(_classes.monogamy)
+
+
+# -- mixed states and operators (ketsplit.mixed) ----------------------------------------------
+
+
+@bounded
+def density(text: str, *, real: str | Iterable[str] = (), positive: str | Iterable[str] = (),
+            complex: str | Iterable[str] = (), ranges: Mapping[str, tuple] | None = None,
+            dims: Iterable[int] | None = None, names: Iterable[str] = ()) -> _mixed.Density:
+    """A checked density matrix from a matrix (``"[[1, 0], [0, 1]]/2"``, mixtures with
+    parameters) or a state (its projector).  Two-level parts unless ``dims`` says otherwise;
+    ranges as for :func:`ket` (positivity is decided over them)."""
+    session = session_for(real=real, positive=positive, complex=complex, ranges=ranges)
+    value = session.evaluate(text)
+    if isinstance(value, KetValue):
+        return _mixed.pure_density(session.make_state(value))
+    if not isinstance(value, sympy.MatrixBase):
+        raise InputError("density: expected a matrix or a state")
+    return _mixed.density(value, tuple(dims) if dims else None, tuple(names),
+                          tuple(session.params.values()))
+
+
+def _frame(rho: _mixed.Density) -> State:
+    return State(rho.dims, {}, rho.part_names())
+
+
+def _density_cut(rho: _mixed.Density, cut: str | cuts.Cut | None) -> cuts.Cut:
+    return cut if isinstance(cut, cuts.Cut) else cuts.parse_cut(cut, _frame(rho))
+
+
+@bounded
+def partial_transpose(rho: _mixed.Density, parts: str | Iterable[int]) -> sympy.ImmutableMatrix:
+    """rho^{T_parts}; ``parts`` as text ("2", "BC") or 0-based indices."""
+    chosen = cuts.parse_parts(parts, _frame(rho)) if isinstance(parts, str) else tuple(parts)
+    return _mixed.partial_transpose(rho, chosen)
+
+
+@bounded
+def negativity(rho: _mixed.Density, cut: str | cuts.Cut | None = None, *,
+               digits: int = 30) -> tuple[_mixed.Piece, ...]:
+    """Negativity across ``cut`` (its right side transposed), piece by piece of a parameter range."""
+    return _mixed.negativity(rho, _density_cut(rho, cut).right, digits)
+
+
+@bounded
+def concurrence(rho: _mixed.Density, *, digits: int = 30) -> tuple[_mixed.Piece, ...]:
+    """Two-qubit concurrence (Wootters 1998), piece by piece of a parameter range."""
+    return _mixed.concurrence(rho, digits)
+
+
+@bounded
+def separability(rho: _mixed.Density, cut: str | cuts.Cut | None = None) -> _mixed.Separability:
+    """Regions of the declared range where rho is separable / entangled (2x2, 2x3) or PPT."""
+    return _mixed.separability(rho, _density_cut(rho, cut))
+
+
+@bounded
+def operator_schmidt(operator, cut: str | cuts.Cut | None = None, *, dims: Iterable[int] | None = None,
+                     digits: int = 30) -> _mixed.OperatorSchmidt:
+    """Operator Schmidt decomposition of a matrix (or its text) across ``cut``."""
+    matrix = Session().evaluate(operator) if isinstance(operator, str) else sympy.Matrix(operator)
+    shape = tuple(dims) if dims else _mixed.qubit_dims(matrix.rows)
+    if shape is None:
+        raise InputError("operator_schmidt: give dims=(...) for this size")
+    frame = State(shape, {})
+    chosen = cut if isinstance(cut, cuts.Cut) else cuts.parse_cut(cut, frame)
+    return _mixed.operator_schmidt(matrix, shape, chosen, digits)
+
+
+@bounded
+def to_schmidt_basis(state: State, cut: str | cuts.Cut | None = None) -> _mixed.SchmidtBasis:
+    """Local unitaries U_A, U_B with (U_A x U_B)|psi> = sum_k s_k |k>|k>, exactly."""
+    chosen = cut if isinstance(cut, cuts.Cut) else cuts.parse_cut(cut, state)
+    return _mixed.to_schmidt_basis(state, chosen)
