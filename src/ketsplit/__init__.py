@@ -17,6 +17,8 @@ __version__ = "0.1.0"
 from .api import (check, conversion_probability, convertible, figures, ket, lu_equivalent,
                   measures, rank, reduced, renyi, schmidt, strata)
 from .api import class_strata, entanglement_class, monogamy, three_tangle
+from .api import (concurrence, density, negativity, operator_schmidt, partial_transpose,
+                  separability, to_schmidt_basis)
 from .checking import Verdict
 from .cuts import Cut, parse_cut
 from .decomposition import Decomposition
@@ -27,7 +29,8 @@ from .states import Parameter, State
 from .strata import Stratum
 from .symmetric import SymmetricState, dicke
 
-__all__ = ["ket", "schmidt", "rank", "reduced", "State", "Parameter", "Cut", "parse_cut",
+__all__ = ["density", "partial_transpose", "negativity", "concurrence", "separability",
+           "operator_schmidt", "to_schmidt_basis", "ket", "schmidt", "rank", "reduced", "State", "Parameter", "Cut", "parse_cut",
            "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
            "figures", "measures", "renyi", "lu_equivalent", "convertible", "conversion_probability",
            "check", "Verdict", "dicke", "SymmetricState", "strata", "Stratum", "entanglement_class", "three_tangle",
