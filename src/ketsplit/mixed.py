@@ -621,8 +621,8 @@ def separability(rho: Density, cut: Cut) -> Separability:
             middle = rational_inside(end, ends[k + 1])
             count = negative_count([a.subs(symbol, middle) for a in coefficients])
             regions.append(Region(name(count), symbol, end, ends[k + 1], (False, False),
-                                  proof=_proof(count) + f"; no coefficient changes sign inside, "
-                                  f"checked at {symbol} = {middle}"))
+                                  proof=_proof(count) + f"; no eigenvalue crosses zero inside (the last "
+                                  f"nonzero coefficient has no zero there), checked at {symbol} = {middle}"))
     return Separability(_joined(regions), sides, decisive, cut.right)
 
 
@@ -637,21 +637,19 @@ def _proof(count: int) -> str:
             "exact characteristic polynomial)")
 
 
-def _cut_points(coefficients: Sequence[sympy.Expr], symbol, lo, hi) -> list[sympy.Expr]:
-    points: list[sympy.Expr] = []
-    for a in coefficients:
-        if not a.free_symbols or is_zero(a).value:
-            continue
-        zeros = exact_zeros(sympy.factor(a), symbol, lo, hi)
-        if zeros is None:
-            raise InputError(f"cannot find every zero of {a} between {lo} and {hi} exactly; give "
-                             "a point ('with ...') or a narrower range")
-        points.extend(zeros)
-    unique: list[sympy.Expr] = []
-    for z in points:
-        if not any(is_zero(z - u).value for u in unique):
-            unique.append(z)
-    return sorted(unique, key=lambda z: (float(sympy.N(z, 30))))
+def _cut_points(coefficients: Sequence[sympy.Expr], symbol, lo, hi) -> tuple[sympy.Expr, ...]:
+    """The exact zeros in (lo, hi) of the last coefficient a_m that is not identically zero:
+    p(x) = x^(n-m) q(x) with q(0) = a_m on the whole range, so an eigenvalue can cross zero
+    only where a_m vanishes."""
+    box = {symbol: (lo, hi)}
+    last = next((a for a in reversed(coefficients) if is_zero(a, box).value is not True), None)
+    if last is None or not last.free_symbols:
+        return ()
+    zeros = exact_zeros(sympy.factor(last), symbol, lo, hi)
+    if zeros is None:
+        raise InputError(f"cannot find every zero of {last} between {lo} and {hi} exactly; give "
+                         "a point ('with ...') or a narrower range")
+    return zeros
 
 
 def _joined(regions: list[Region]) -> tuple[Region, ...]:
