@@ -192,3 +192,21 @@ def test_sparse_state_of_many_qubits_is_cheap_and_right():
     d = schmidt(state, Cut(tuple(range(12)), tuple(range(12, 24))))
     assert sympy.expand(sum(c ** 2 for c in d.coefficients)) == 1
     assert d.ordered and all(sympy.N(a - b, 30) >= 0 for a, b in zip(d.coefficients, d.coefficients[1:]))
+
+
+def field_value(text: str, label: str):
+    """The value of the field ``label`` in the report of the last statement of ``text``."""
+    from ketsplit import Session
+    report = Session().run(text)[-1].report
+    return next(item.value for item in report.items if getattr(item, "label", "") == label)
+
+
+def test_the_statements_of_the_issue_answer_through_the_shell_route():
+    # the same three cases as typed in issue 11, through Session (the shell's route):
+    # sqrt(3)/2, 1/2 by hand (above); rank 1 by hand (above); rank 3 by hand (14 pi - 8 != 0)
+    assert field_value("schmidt |00> + |01> + exp(2*pi*i/3)|10> + exp(4*pi*i/3)|11>",
+                       "coefficients") == [sqrt(3) / 2, sympy.Rational(1, 2)]
+    assert field_value("real t in [0, pi/2]\nrank exp(40)*sin(t)^2|00> + exp(40)*(1-cos(t)^2)|01>"
+                       " + |10> + |11> 1|2", "rank") == 1
+    assert field_value("rank pi|00> + |01> + 2|02> + |10> + 3|11> + |12> + |20> + |21> + 5|22>",
+                       "rank") == 3
