@@ -13,6 +13,9 @@ from typing import Callable, Iterable, Mapping, TypeVar
 import sympy
 
 from . import checking as _checking
+from .checking.decide import BUDGET, Options
+from .checking.verdict import Verdict
+from .commands.check import statement_verdict
 from . import compare as _compare
 from . import cuts, decomposition, limits
 from . import figures as _figures
@@ -134,7 +137,35 @@ lu_equivalent = bounded(_compare.lu_equivalent)
 convertible = bounded(_compare.convertible)
 conversion_probability = bounded(_compare.conversion_probability)
 strata = bounded(_strata.strata)
-check = bounded(_checking.check)
+
+
+@bounded
+def check(lhs, rhs=None, *, real: str | Iterable[str] = (), positive: str | Iterable[str] = (),
+          complex: str | Iterable[str] = (), integer: str | Iterable[str] = (),
+          ranges: Mapping[str, tuple] | None = None, up_to_phase: bool = False,
+          digits: int = 30, budget: float = BUDGET) -> Verdict:
+    """Does ``lhs = rhs`` hold for every value of the parameters (``up_to_phase``: lhs ~ rhs)?
+
+    Sides are state-language text (kets, numbers, matrices ``[[a, b], [c, d]]``),
+    States, sympy matrices or expressions.  Undeclared names are complex.
+    With ``rhs`` left out, ``lhs`` is the text of a ``check`` statement, with
+    every claim kind the statement takes: ``"schmidt cos(t)|00> + sin(t)|11> 1|2 =
+    [cos(t), sin(t)]"``, ``"reduce psi 1 = [[...]]"``, ``"rank STATE CUT = 2"``,
+    ``"STATE CUT = c1 (u1)(w1) + ..."``, ``"LHS ~ RHS"``.
+    ``budget`` is in seconds; past it the verdict is undecided (holds = None).
+    """
+    session = session_for(real=real, positive=positive, complex=complex, integer=integer,
+                          ranges=ranges)
+    options = Options(digits, budget)
+    if rhs is None:
+        if not isinstance(lhs, str):
+            raise InputError("check: give two sides, or the text of a check statement")
+        return statement_verdict(session, lhs, options)
+    values = [session.evaluate(side) if isinstance(side, str) else side for side in (lhs, rhs)]
+    declared = dict(session.params)
+    for value in values:
+        declared.update({p.name: p for p in getattr(value, "params", ())})
+    return _checking.compare_values(values[0], values[1], declared, up_to_phase, options)
 entanglement_class = bounded(_classes.entanglement_class)
 three_tangle = bounded(_classes.three_tangle)
 class_strata = bounded(_classes.class_strata)

@@ -15,6 +15,7 @@ from pathlib import Path
 from typing import Iterable, Iterator
 
 from . import __version__
+from .render.results import shown
 from .base.errors import InputError, Span
 from .base.document import Field
 from .render.text import fitted_text
@@ -155,7 +156,7 @@ def run_one(session, statement: str, place: Span, line: str, args) -> int:
 def show(results, args) -> None:
     width = None if args.json else shutil.get_terminal_size().columns
     for result in results:
-        print(json.dumps(result.to_json(), ensure_ascii=False) if args.json
+        print(json.dumps(shown(result).to_json(), ensure_ascii=False) if args.json
               else fitted_text(result.report, args.pretty, width), flush=True)
 
 

@@ -20,7 +20,6 @@ from flint import acb, arb, fmpq
 
 from .figures import without_extrema
 from .base.errors import InputError
-from .sheets.atomic import write_atomic
 from .numeric.enclose import Encloser
 from .language.printer import text as expr_text
 
@@ -256,6 +255,7 @@ def write_chart(chart: Chart, path: str) -> str:
     if extension == ".png":
         _write_png(chart, path)
     else:
+        from .sheets.atomic import write_atomic  # transitional: files move to the shells
         write_atomic(path, svg_text(chart))
     return os.path.abspath(path)
 

@@ -21,7 +21,7 @@ from .base.errors import InputError, LimitError, Span
 from .language.tokens import Kind, tokenize
 from .timebudget import time_limited
 from .base.document import Report
-from .states import KINDS, Parameter, State, make_symbol
+from .states import KINDS, Parameter, State, kind_of_symbol, make_symbol
 
 MIN_DIGITS, MAX_DIGITS = limits.Limits.min_digits, limits.Limits.max_digits  # defaults; see limits
 
@@ -204,16 +204,6 @@ def replace_params(state: State, declared: dict[str, Parameter]) -> State:
         found = declared.get(symbol.name)
         params.append(found if found and found.symbol == symbol else Parameter(symbol.name, kind_of_symbol(symbol)))
     return State(state.dims, state.amplitudes, state.names, tuple(params))
-
-
-def kind_of_symbol(symbol: sympy.Symbol) -> str:
-    if symbol.is_integer:
-        return "integer"
-    if symbol.is_positive:
-        return "positive"
-    if symbol.is_real:
-        return "real"
-    return "complex"
 
 
 def relocate(err: InputError, statement: str, line: int) -> InputError:

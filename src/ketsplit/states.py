@@ -180,6 +180,10 @@ class State:
         from .language.printer import ket_text
         return f"State({ket_text(self)}; dims={self.dims})"
 
+    def _repr_latex_(self) -> str:
+        from .language.latexprint import state_display
+        return state_display(self)
+
 
 def abs_squared(value: sympy.Expr) -> sympy.Expr:
     """|value|^2 written without Abs where the assumptions allow."""
@@ -232,3 +236,13 @@ def product_state(factors: Iterable[Mapping[int, sympy.Expr]], dims: tuple[int, 
     for factor in factors:
         amps = {k + (level,): v * a for k, v in amps.items() for level, a in factor.items()}
     return State(dims, amps)
+
+
+def kind_of_symbol(symbol: sympy.Symbol) -> str:
+    if symbol.is_integer:
+        return "integer"
+    if symbol.is_positive:
+        return "positive"
+    if symbol.is_real:
+        return "real"
+    return "complex"

@@ -23,7 +23,7 @@ from ..language.build import KetValue
 from ..base.errors import InputError
 from ..language.printer import label_text
 from ..states import Parameter, State
-from ..session import kind_of_symbol
+from ..states import kind_of_symbol
 from .evaluation import values_at
 from .decide import Difference, Entry, Point
 

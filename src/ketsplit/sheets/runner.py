@@ -26,8 +26,8 @@ from .. import __version__, limits
 from ..arith import decide
 from ..language.build import KetValue
 from ..base.errors import InputError, Span
-from ..api import Session
-from ..session import UNRECORDED, Entry, Result, Settings, split_statements
+from ..render.text import to_text
+from ..session import UNRECORDED, Entry, Result, Session, Settings, split_statements
 from ..timebudget import time_limited
 from .format import Record, Sheet, SheetLine, format_sheet
 from .header import raised
@@ -81,7 +81,7 @@ class Difference:
 
 
 def record_of(result: Result) -> Record:
-    return Record(tuple(result.text().splitlines()) or ("",))
+    return Record(tuple(to_text(result.report).splitlines()) or ("",))
 
 
 def error_record(err: InputError) -> Record:
