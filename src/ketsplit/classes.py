@@ -271,8 +271,9 @@ def two_qubit_concurrence(rho: sympy.Matrix, rank_bound: int | None = None,
     trace = sympy.expand(r.trace())
     e2 = sympy.expand((trace ** 2 - (r * r).trace()) / 2)
     if rank_bound is not None and rank_bound <= 2 or small_rank(r, box):
-        value = trace - 2 * sympy.sqrt(e2)
-        return Term("C^2", sympy.radsimp(value) if not value.free_symbols else value)
+        if not e2.free_symbols:
+            return Term("C^2", sympy.radsimp(trace - 2 * sympy.sqrt(e2)))
+        return Term("C^2", sympy.factor(trace) - 2 * sympy.sqrt(sympy.factor(e2)))
     if rho.free_symbols:
         return Term("C^2", None, None, "rank of the two-qubit state above 2 for a family: "
                                        "the general concurrence of a family is not computed here")
@@ -357,8 +358,21 @@ def monogamy(state: State) -> Monogamy:
     if any(t.missing for t in terms):
         return Monogamy(terms[0], terms[1], a_bc, tau, None, None)
     gap = a_bc.value - terms[0].value - terms[1].value
-    return Monogamy(terms[0], terms[1], a_bc, tau, holds_from(sign(gap, box)),
-                    is_zero(gap - tau, box))
+    equal = guarded(is_zero, gap - tau, box)
+    if equal.value:  # tau = 4 |Det| / N^2 >= 0 by construction
+        return Monogamy(terms[0], terms[1], a_bc, tau,
+                        Decided(True, "the gap equals tau, which is 4 |Det| / norm^4 >= 0"), equal)
+    return Monogamy(terms[0], terms[1], a_bc, tau, holds_from(guarded(sign, gap, box)), equal)
+
+
+def guarded(decide, expr: sympy.Expr, box) -> Decided:
+    """The decision layer's answer; an expression its polynomial rewriting cannot take is
+    undecided (said so), never an internal error."""
+    try:
+        return decide(expr, box)
+    except sympy.polys.polyerrors.PolynomialError as err:
+        return Decided(None, f"the decision layer could not rewrite the expression ({err})",
+                       "ask at a parameter point ('with NAME=VALUE')")
 
 
 def simplify_term(value: sympy.Expr) -> sympy.Expr:
