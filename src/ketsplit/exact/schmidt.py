@@ -24,6 +24,8 @@ from __future__ import annotations
 from itertools import combinations
 
 import sympy
+from sympy.polys.domains import EXRAW
+from sympy.polys.matrices import DomainMatrix
 
 from ..cuts import CoefficientMatrix, Cut
 from ..states import State, abs_squared, simplify_masked, simplify_real
@@ -228,13 +230,11 @@ def single_piece(value: sympy.Expr) -> list[Piece]:
 
 def embed(vector: Vector, positions: list[int], size: int) -> Vector:
     """The block's vector placed in the whole side space (sparse when that space is large)."""
-    entries = {(positions[k], 0): value for (k, _), value in vector.todok().items() if value != 0}
+    entries = {positions[k]: {0: value} for (k, _), value in vector.todok().items() if value != 0}
+    matrix = DomainMatrix(entries, (size, 1), EXRAW)  # sympy expressions as they are
     if size > DENSE_VECTOR_SIZE:
-        return sympy.SparseMatrix._new(size, 1, entries)
-    full = sympy.zeros(size, 1)
-    for (p, _), value in entries.items():
-        full[p] = value
-    return full
+        return sympy.SparseMatrix._fromrep(matrix)
+    return sympy.Matrix._fromrep(matrix.to_dense())
 
 
 def nonzero_entries(vector: Vector) -> list[tuple[int, sympy.Expr]]:
