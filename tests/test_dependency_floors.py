@@ -103,3 +103,13 @@ def test_the_shell_imports_at_the_floors(floor_env):
     piped = subprocess.run([str(floor_env), "-m", "ketsplit"], input="rank |00> + |11>\n",
                            capture_output=True, text=True, timeout=120)
     assert piped.returncode == 0 and "rank: 2" in piped.stdout   # a Bell pair (fact of the trade)
+
+
+@pytest.mark.slow
+def test_strata_at_the_floors(floor_env):
+    # By hand: cos t = 1/2 only at t = pi/3 > 1, so (cos t - 1/2)^2 + s^4 has no zero for
+    # t, s in [0, 1] and the rank stays 2 (this search needs sympy's lift() over QQ<sqrt(2)>,
+    # which fails before sympy 1.14)
+    done = run(floor_env, "real t, s in [0, 1]; strata |00> + ((cos(t) - 1/2)^2 + s^4)|11>")
+    assert done.returncode == 0, done.stderr
+    assert "2     for every parameter value in the ranges" in done.stdout

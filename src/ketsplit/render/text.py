@@ -11,13 +11,14 @@ Without a width (worksheets, JSON) nothing is folded.
 
 from __future__ import annotations
 
+import bisect
 import re
 import textwrap
 from dataclasses import dataclass
 
-from . import ketprint
+from ..language import printer as ketprint
 from . import pretty as layout
-from .report import Digits, Field, Kets, Note, Plot, Report, Table
+from ..base.document import Digits, Field, Kets, Note, Plot, Report, Table
 
 INDENT = "  "
 HANGING = "    "        # continuation lines of a folded value
@@ -93,31 +94,32 @@ def breaks(text: str) -> list[Break]:
     return found
 
 
-def best_break(text: str, room: int) -> Break | None:
-    """The best break that leaves a first line of at most ``room`` columns (and not
-    absurdly short when a longer one exists): after an operator rather than at a
-    bare space (so the line reads as unfinished), then the shallowest, then the
-    most telling operator, then the latest; None when no break fits."""
-    fitting = [b for b in breaks(text) if 0 < b.cut <= room]
-    long_enough = [b for b in fitting if b.cut >= room // 3] or fitting
+def best_break(found: list[Break], cuts: list[int], start: int, room: int) -> Break | None:
+    """Of the breaks ``found`` (``cuts`` their ascending ends), the best one that leaves a line from ``start`` of at most
+    ``room`` columns (and not absurdly short when a longer one exists): after an
+    operator rather than at a bare space (so the line reads as unfinished), then the
+    shallowest, then the most telling operator, then the latest; None when none fits."""
+    first, last = bisect.bisect_right(cuts, start), bisect.bisect_right(cuts, start + room)
+    fitting = found[first:last]
+    long_enough = [b for b in fitting if b.cut - start >= room // 3] or fitting
     if not long_enough:
-        return None
+        return found[first] if first < len(found) else None  # a token longer than the line
     return min(long_enough, key=lambda b: (b.rank == SPACE, b.depth, b.rank, -b.cut))
 
 
 def fold(text: str, first: int, rest: int, hanging: str = HANGING) -> list[str]:
     """``text`` as lines: the first at most ``first`` columns, the others (after
     ``hanging``) at most ``rest``.  A single token longer than a line stays whole."""
-    lines, room, lead = [], first, ""
-    while len(text) > room:
-        found = best_break(text, room)
-        if found is None:
-            found = next((b for b in breaks(text) if b.cut > 0), None)
-            if found is None:
-                break
-        lines.append(lead + text[:found.cut].rstrip())
-        text, room, lead = text[found.resume:], rest, hanging
-    return lines + [lead + text]
+    found = breaks(text)
+    cuts = [b.cut for b in found]   # ascending, as breaks() finds them
+    lines, start, room, lead = [], 0, first, ""
+    while len(text) - start > room:
+        chosen = best_break(found, cuts, start, room)
+        if chosen is None:
+            break
+        lines.append(lead + text[start:chosen.cut].rstrip())
+        start, room, lead = chosen.resume, rest, hanging
+    return lines + [lead + text[start:]]
 
 
 def wrap_prose(text: str, width: int, indent: str = "", hanging: str = "") -> list[str]:
