@@ -251,8 +251,8 @@ ONCE_CRASHED = [
     ("real t in [0, pi]; psi = cos(t)|00> + sin(t)|11>", "schmidt psi with t=i"),  # TypeError
     ("", "save \x00"),                     # ValueError: embedded null byte, in write_atomic
     ("", "open \x00"),                     # ValueError from Path.stat, in sheets/format.py
-    ("", "open /"), ("", "save ."),         # ValueError from Path.with_suffix, in commands/sheets.py
-    ("", "save ~nosuchuser/x"),             # RuntimeError from expanduser, in commands/sheets.py
+    ("", "open /"), ("", "save ."),         # ValueError from Path.with_suffix, in sheets/statements.py
+    ("", "save ~nosuchuser/x"),             # RuntimeError from expanduser, in sheets/statements.py
     ("", "budget ²"),                       # str.isdigit() accepts '²', float() does not
     ("", "save " + "x" * 300),              # OSError from Path.is_dir: file name too long
     ("", "-((1e-0))"),                      # int('') of an exponent of zeros

@@ -27,7 +27,7 @@ from pathlib import Path
 import pytest
 
 from ketsplit import InputError, Session
-from ketsplit.sheets.atomic import WriteError, write_atomic
+from ketsplit.base.files import WriteError, write_atomic
 
 # A statement that runs for minutes: 100000 distinct powers of t summed term by term (the
 # exponents stay within the limit exponent = 1000).
@@ -155,7 +155,7 @@ def test_ctrl_c_during_ketsplit_c_ends_it_without_a_traceback():
 
 WRITER = """
 import sys
-from ketsplit.sheets.atomic import write_atomic
+from ketsplit.base.files import write_atomic
 path, size = sys.argv[1], int(sys.argv[2])
 texts = [f"version {m}\\n" + m * size + "\\nend\\n" for m in "AB"]
 print("ready", flush=True)
@@ -241,7 +241,7 @@ def test_a_full_disk_leaves_the_old_file_and_no_litter(tmp_path, monkeypatch):
 
 CAPPED = """
 import resource, signal, sys
-from ketsplit.sheets.atomic import WriteError, write_atomic
+from ketsplit.base.files import WriteError, write_atomic
 signal.signal(signal.SIGXFSZ, signal.SIG_IGN)
 resource.setrlimit(resource.RLIMIT_FSIZE, (10_000, 10_000))
 try:
@@ -277,7 +277,7 @@ def test_save_to_a_read_only_file_is_an_input_error_and_the_session_goes_on(tmp_
 
 def test_save_and_export_write_through_the_atomic_writer(tmp_path, monkeypatch):
     # the all-or-nothing test above covers write_atomic; here: 'save' and 'export -o' use it
-    import ketsplit.sheets.atomic as atomic
+    import ketsplit.base.files as atomic
     from ketsplit.cli import main
     written = []
     original = atomic.write_atomic

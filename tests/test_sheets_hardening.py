@@ -28,7 +28,7 @@ from hypothesis import strategies as st
 from ketsplit import InputError, Session
 from ketsplit.cli import main
 from ketsplit.limits import limits_set
-from ketsplit.sheets.atomic import WriteError, litter_stem, write_atomic
+from ketsplit.base.files import WriteError, litter_stem, write_atomic
 from ketsplit.sheets.format import Record, SheetError, parse_sheet, read_sheet
 from ketsplit.sheets.matching import decimals_agree
 from ketsplit.sheets.runner import ValueEquality, compared, differences, replay
@@ -382,7 +382,7 @@ def test_the_next_save_removes_our_dead_temporary_files_and_nothing_else(tmp_pat
 
 STUCK = """
 import os, sys, time
-import ketsplit.sheets.atomic as atomic
+import ketsplit.base.files as atomic
 def stuck(*args):
     print("written aside", flush=True)
     time.sleep(600)

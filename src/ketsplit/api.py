@@ -27,6 +27,7 @@ from .base.errors import InputError
 from .numeric.point import at_point
 from . import session as _session
 from .render.results import ShownResult, shown
+from .sheets import statements as _file_statements  # noqa: F401  (registers save and open)
 from .states import State
 from .timebudget import time_limited
 

@@ -18,7 +18,7 @@ from . import __version__
 from .render.results import shown
 from .base.errors import InputError, Span
 from .base.document import Field
-from .render.text import fitted_text
+from .render.text import fitted_text, wrap_lines
 from .sheets.format import Sheet, SheetError, read_sheet
 
 OK, FAILED, BAD_INPUT, INTERNAL, CANCELLED = 0, 1, 2, 3, 130
@@ -193,7 +193,10 @@ def report_error(err: InputError, source: str, as_json: bool) -> None:
         print(json.dumps({"statement": source.strip(), "kind": "error", "line": err.line,
                           "column": err.column, "message": err.message}, ensure_ascii=False))
     else:
-        print(f"error: {err}", file=sys.stderr)
+        where = f"line {err.line}, column {err.column}: " if err.span else ""
+        caret = err.caret()
+        print(wrap_lines(f"error: {where}{err.message}", shutil.get_terminal_size().columns)
+              + (f"\n{caret}" if caret else ""), file=sys.stderr)
 
 
 def report_problems(sheet: Sheet, name: str) -> None:
@@ -247,7 +250,7 @@ def verify_file(sheet: Sheet, args) -> int:
 # -- export ----------------------------------------------------------------------
 
 def export_file(sheet: Sheet, args) -> int:
-    from .sheets.atomic import write_atomic
+    from .base.files import write_atomic
     from .sheets.export import export
     from .sheets.runner import differences, replay
     report_problems(sheet, args.file)

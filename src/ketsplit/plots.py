@@ -18,6 +18,7 @@ from xml.sax.saxutils import escape
 import sympy
 from flint import acb, arb, fmpq
 
+from .base.files import write_atomic
 from .figures import without_extrema
 from .base.errors import InputError
 from .numeric.enclose import Encloser
@@ -255,7 +256,6 @@ def write_chart(chart: Chart, path: str) -> str:
     if extension == ".png":
         _write_png(chart, path)
     else:
-        from .sheets.atomic import write_atomic  # transitional: files move to the shells
         write_atomic(path, svg_text(chart))
     return os.path.abspath(path)
 

@@ -17,7 +17,6 @@ from . import resources  # noqa: F401
 from . import figures  # noqa: F401
 from . import numeric  # noqa: F401
 from . import check  # noqa: F401
-from . import sheets  # noqa: F401
 from . import strata  # noqa: F401
 from . import mixed  # noqa: F401
 from . import classes  # noqa: F401

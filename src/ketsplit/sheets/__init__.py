@@ -7,7 +7,7 @@
 - :mod:`.runner`   replaying a worksheet through a Session, comparing with what it recorded
 - :mod:`.matching` when a result computed now agrees with a recorded one
 - :mod:`.export`   LaTeX and Markdown
-- :mod:`.atomic`   writing a file so that a crash never leaves half of it (through links;
+- :mod:`ketsplit.base.files` (used here) writes a file so that a crash never leaves half of it (through links;
                    litter of killed saves swept)
 
 From Python::

@@ -1,6 +1,6 @@
 """A replayed worksheet as a LaTeX fragment (amsmath) or as Markdown with ``$$`` math.
 
-Comments become prose, each statement is kept (as a LaTeX comment, or as a
+Comments become prose, each statement is shown as typed (in typewriter type, or as a
 code block in Markdown), and each result is rendered from its report by the
 renderers in :mod:`ketsplit.render`, so exported math is the math the
 terminal shows.
@@ -11,10 +11,9 @@ from __future__ import annotations
 from typing import Callable
 
 from ..render.latex import escape as latex_escape
-from ..render.latex import to_latex
+from ..render.latex import to_latex, typewriter
 from ..render.markdown import escape as markdown_escape
 from ..render.markdown import to_markdown
-from ..render.report import Field, Report, Table
 from .runner import Outcome
 
 FORMATS = ("tex", "md")
@@ -56,18 +55,11 @@ def blocks(outcomes: list[Outcome], prose: Callable[[str], str], statement: Call
 def to_tex(outcomes: list[Outcome], name: str) -> str:
     head = [f"% ketsplit worksheet {name}, exported as a LaTeX fragment",
             "% needs \\usepackage{amsmath}"]
-    body = blocks(outcomes, prose=lambda text: latex_escape(text) + "\n",
-                  statement=lambda text: f"% > {text}", result=report_tex,
-                  failure=lambda message: f"% error: {message}")
+    body = blocks(outcomes, prose=lambda text: latex_escape(text) + "\\par\n",
+                  statement=lambda text: "\\medskip{\\raggedright\\noindent " + typewriter("> " + text) + "\\par}",
+                  result=to_latex,
+                  failure=lambda message: "\\emph{error:} " + latex_escape(message) + "\\par")
     return "\n".join(head + body) + "\n"
-
-
-def report_tex(report: Report) -> str:
-    """The report's LaTeX; a report with no value shows its title as a display."""
-    if any(isinstance(item, (Field, Table)) for item in report.items):
-        return to_latex(report)
-    return (to_latex(report) + "\n\\begin{equation*}\n\\text{" + latex_escape(report.title)
-            + "}\n\\end{equation*}")
 
 
 def to_md(outcomes: list[Outcome], name: str) -> str:

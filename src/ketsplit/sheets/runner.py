@@ -274,5 +274,5 @@ def sheet_text(sheet: Sheet) -> str:
 
 def save(sheet: Sheet, path: str | Path) -> None:
     """Write the worksheet atomically (OSError when the path cannot be written)."""
-    from .atomic import write_atomic
+    from ..base.files import write_atomic
     write_atomic(path, sheet_text(sheet))

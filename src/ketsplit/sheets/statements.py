@@ -1,18 +1,23 @@
-"""The statements ``save FILE`` and ``open FILE``: the session as a worksheet."""
+"""The statements ``save FILE`` and ``open FILE``: the session as a worksheet.
+
+They touch files, so they live with the shells, not the engine: the Session of
+the shells and the Python API (:mod:`ketsplit.api`) imports this module, which
+registers both statements in the command registry.
+"""
 
 from __future__ import annotations
 
 import dataclasses
 from pathlib import Path
 
-from ..render.report import Field, Report
+from ..base.document import Field, Report
 from ..session import Session
-from ..sheets.atomic import refuse_read_only
-from ..sheets.format import EXTENSION, MAGIC, SheetError, read_sheet
-from ..sheets.header import ceiling_for
-from ..sheets.reading import read_bounded
-from ..sheets.runner import Outcome, differences, replay, save, sheet_of_worklog
-from .registry import CommandCall, command
+from ..base.files import refuse_read_only
+from .format import EXTENSION, MAGIC, SheetError, read_sheet
+from .header import ceiling_for
+from .reading import read_bounded
+from .runner import Outcome, differences, replay, save, sheet_of_worklog
+from ..commands.registry import CommandCall, command
 
 
 def sheet_path(call: CommandCall) -> Path:
