@@ -33,6 +33,8 @@ from typing import Callable, Sequence, Union
 import flint
 import sympy
 from flint import arb
+from sympy.polys.constructor import construct_domain
+from sympy.polys.matrices import DomainMatrix
 
 from .arith.decide import Decided, compare, drop_abs, exact_zeros, is_zero, sign
 from .arith.ranges import rational_inside
@@ -161,8 +163,14 @@ def _unit_trace(matrix: sympy.MatrixBase, box) -> tuple[sympy.ImmutableMatrix, t
 
 def charpoly_coefficients(matrix: sympy.MatrixBase) -> list[sympy.Expr]:
     """[1, a_1, ..., a_n] with det(x I - M) = x^n + a_1 x^(n-1) + ... + a_n, exactly."""
-    dm = sympy.Matrix(matrix).to_DM()
-    return [sympy.expand(dm.domain.to_sympy(c)) for c in dm.charpoly()]
+    n = matrix.rows
+    values = [sympy.expand(v) for v in matrix]
+    domain, elements = construct_domain(values, extension=True)
+    if domain.is_EX:  # QQ<sqrt 2> failed: try the symbols (cos(t), sqrt(2)) as generators
+        domain, elements = construct_domain(values)
+    dm = DomainMatrix([elements[i * n:(i + 1) * n] for i in range(n)], (n, n), domain)
+    found = [domain.to_sympy(c) for c in dm.charpoly()]
+    return [sympy.expand(c) for c in found] if domain.is_EX else found
 
 
 def _check_positive(matrix: sympy.MatrixBase, box) -> tuple[str, ...]:
