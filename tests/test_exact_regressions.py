@@ -210,3 +210,17 @@ def test_the_statements_of_the_issue_answer_through_the_shell_route():
                        " + |10> + |11> 1|2", "rank") == 1
     assert field_value("rank pi|00> + |01> + 2|02> + |10> + 3|11> + |12> + |20> + |21> + 5|22>",
                        "rank") == 3
+
+
+def test_a_dense_block_of_high_degree_declines_from_its_structure():
+    # a random dense 16x16 integer block: its reduced state's characteristic polynomial has an
+    # irreducible factor of degree 16 (sympy's factor_list over QQ says so below), beyond the
+    # CRootOf limit: NoClosedForm from the degree, before any root or vector is sought
+    rng = random.Random(3)
+    rows = [[rng.randint(-5, 5) or 1 for _ in range(16)] for _ in range(16)]
+    matrix = sympy.Matrix(rows)
+    x = sympy.Symbol("x")
+    degrees = [f.as_poly(x).degree() for f, _ in sympy.factor_list((matrix * matrix.T).charpoly(x).as_expr())[1]]
+    assert max(degrees) == 16
+    with pytest.raises(NoClosedForm, match="degree 16"):
+        schmidt(state_of(rows), CUT)

@@ -22,6 +22,7 @@ from .tidy import is_zero, tidy
 LAMBDA = sympy.Dummy("lambda")
 MAX_SYMBOLIC_CUBIC_OPS = 30     # larger cubic coefficients give unreadable (and slow) Viete forms
 MAX_CHARPOLY_OPS = 3000         # larger symbolic characteristic polynomials are not factored
+MAX_ROOTOF_DEGREE = 8           # rational factors up to this degree give CRootOf numbers
 
 
 def characteristic_polynomial(rho: sympy.Matrix) -> sympy.Poly:
@@ -49,15 +50,17 @@ def eigenvalues(rho: sympy.Matrix) -> list[tuple[sympy.Expr, int]]:
 
 
 def solve_factor(factor: sympy.Poly) -> list[sympy.Expr]:
-    """Roots of one irreducible factor: degree 1 and 2 in radicals, a cubic in Viete form.
+    """Roots of one irreducible factor: degree 1 and 2 in radicals, a cubic in Viete form,
+    rational factors up to degree 8 as CRootOf; NoClosedForm otherwise (:func:`refusal`).
 
-    Numbers are only expanded (simplify adds nothing to them but time).  A
-    cubic or higher factor whose coefficients are not rational has no closed
-    form here: NoClosedForm says so at once, from the degree alone.
+    Numbers are only expanded (simplify adds nothing to them but time).
     """
     degree = factor.degree()
     if degree <= 0:
         return []
+    why = refusal(factor)
+    if why:
+        raise NoClosedForm(why)
     raw = factor.all_coeffs()
     symbolic = any(c.free_symbols for c in raw)
     coeffs = [tidy(c) for c in raw] if symbolic else [sympy.expand(c) for c in raw]
@@ -70,18 +73,30 @@ def solve_factor(factor: sympy.Poly) -> list[sympy.Expr]:
         if not symbolic and root.is_Pow and root.base.is_Add:
             root = sympy.sqrtdenest(root)
         return [neat((-b + root) / (2 * a)), neat((-b - root) / (2 * a))]
-    rational = all(c.is_Rational for c in coeffs)
-    if not symbolic and not rational:
-        raise NoClosedForm(f"an irreducible factor of degree {degree} with algebraic coefficients "
-                           "has no closed form here: its roots are exact algebraic numbers")
     if degree == 3:
-        if sum(sympy.count_ops(c) for c in coeffs) > MAX_SYMBOLIC_CUBIC_OPS:
-            raise NoClosedForm("an irreducible symbolic cubic this large has no readable closed "
-                               "form; substitute parameter values (with t=...) for certified numbers")
         return viete_roots(*coeffs)
-    if rational:
-        return list(sympy.Poly(factor.as_expr(), LAMBDA).all_roots())
-    raise NoClosedForm(f"a factor of degree {degree} with coefficients {coeffs} has no closed form here")
+    return list(sympy.Poly(factor.as_expr(), LAMBDA).all_roots())
+
+
+def refusal(factor: sympy.Poly) -> str:
+    """Why an irreducible factor has no closed form here, read from its degree and the kind
+    and size of its coefficients alone (before any root is sought); "" when it has one."""
+    degree = factor.degree()
+    if degree <= 2:
+        return ""
+    coeffs = factor.all_coeffs()
+    if any(c.free_symbols for c in coeffs):
+        if degree == 3 and sum(sympy.count_ops(c) for c in coeffs) <= MAX_SYMBOLIC_CUBIC_OPS:
+            return ""
+        return (f"an irreducible factor of degree {degree} in the parameters has no readable closed "
+                "form; substitute parameter values (with t=...) for certified numbers")
+    if not all(c.is_Rational for c in coeffs):
+        return (f"an irreducible factor of degree {degree} with algebraic coefficients has no closed "
+                "form here: its roots are exact algebraic numbers")
+    if degree > MAX_ROOTOF_DEGREE:
+        return (f"an irreducible factor of degree {degree}: its roots are exact algebraic numbers, "
+                "given as certified digits")
+    return ""
 
 
 def viete_roots(a, b, c, d) -> list[sympy.Expr]:

@@ -31,7 +31,7 @@ from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 from sympy.polys.polyerrors import BasePolynomialError, CoercionFailed
 
-from .eigen import LAMBDA, NoClosedForm, solve_factor
+from .eigen import LAMBDA, NoClosedForm, refusal, solve_factor
 from .tidy import expanded
 
 Vector = sympy.Matrix
@@ -183,6 +183,9 @@ def number_pieces(found: NumberBlock) -> list[Piece]:
     poly = sympy.Poly([field.to_sympy(c) for c in rho.charpoly()], LAMBDA, domain=field)
     _, factors = poly.factor_list()
     factors = [(f.monic(), k) for f, k in factors]
+    for f, _ in factors:  # the structure decides at once, before any eigenvector work
+        if refusal(f):
+            raise NoClosedForm(refusal(f))
     minimal = sympy.Poly(1, LAMBDA, domain=field)
     for f, _ in factors:
         minimal = minimal * f
