@@ -779,7 +779,7 @@ def _completed(rows: list[sympy.Matrix], size: int, state: State) -> sympy.Matri
         if is_zero(norm2, box).value is not False:
             continue
         rows.append((residual / sympy.sqrt(norm2)).applyfunc(sympy.radsimp))
-    return sympy.Matrix.vstack(*rows)
+    return sympy.Matrix.vstack(*rows).applyfunc(lambda e: sympy.radsimp(e) if e.is_number else e)
 
 
 __all__ = ["Density", "density", "pure_density", "partial_transpose", "spectrum", "negativity",

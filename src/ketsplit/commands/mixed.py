@@ -120,7 +120,7 @@ def pieces_items(label: str, pieces: tuple[Piece, ...], digits: int) -> tuple:
     if len(pieces) == 1:
         return (Field(label, pieces[0].value),)
     symbol = pieces[0].symbol
-    rows = tuple((f"{language_text(p.lo)} <= {symbol} <= {language_text(p.hi)}", p.value)
+    rows = tuple((f"{symbol} in [{language_text(p.lo)}, {language_text(p.hi)}]", p.value)
                  for p in pieces)
     return (Table((f"range of {symbol}", label), rows),)
 
