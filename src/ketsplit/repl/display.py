@@ -17,7 +17,7 @@ from prompt_toolkit.formatted_text import FormattedText
 from prompt_toolkit.output import create_output
 
 from ..base.errors import InputError
-from ..render.text import fitted_text
+from ..render.text import fitted_text, wrap_lines
 from .lexer import shell_style
 
 FOLD_LINES = 40
@@ -58,9 +58,10 @@ def results_text(results: Iterable, pretty: bool, width: int | None = None) -> s
     return "\n".join(fitted_text(r.report, pretty, width) for r in results)
 
 
-def error_lines(err: InputError) -> list[tuple[str, str]]:
-    """(style class, text) lines: the message, then the statement with a caret."""
-    lines = [("class:error", f"error: {err.message}")]
+def error_lines(err: InputError, width: int | None = None) -> list[tuple[str, str]]:
+    """(style class, text) lines: the message (wrapped to ``width``), then the statement
+    with a caret (never wrapped, so that the caret stays under its place)."""
+    lines = [("class:error", wrap_lines(f"error: {err.message}", width))]
     caret = err.caret()
     if caret:
         source, marks = caret.split("\n", 1)

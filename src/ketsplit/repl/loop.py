@@ -145,7 +145,7 @@ class Shell:
             with self.spinning(line), no_echo(self.keyboard):
                 return guarded(self.session, lambda: self.session.run(line))
         except InputError as err:
-            self.console.lines(error_lines(err))
+            self.console.lines(error_lines(err, self.columns))
         except KeyboardInterrupt:
             self.console.line("cancelled: the session is as it was before this line", "class:error")
         except Exception as err:  # a bug in the engine: say so, keep the session
