@@ -279,3 +279,19 @@ def test_api_functions_exist_and_agree():
     assert ketsplit.three_tangle(psi) == 1
     assert ketsplit.entanglement_class(psi).name == "GHZ class"
     assert ketsplit.class_strata(psi)[0].found.kind == "GHZ"
+
+
+def test_two_parameter_family_lists_each_curve_once_with_its_causes():
+    """cos(t)|000> + sin(t)(cos(s)|111> + sin(s)|001>), derived by hand: at t = pi/2 the state is
+    (cos(s)|11> + sin(s)|00>)|1> with qubit 3 split off (biseparable 3|12, DVC 2000); at t = 0,
+    t = pi it is |000>, and at s = pi/2 it is |00>(cos t|0> + sin t|1>): fully product."""
+    psi = ketsplit.ket("cos(t)|000> + sin(t)(cos(s)|111> + sin(s)|001>)",
+                       ranges={"s": (0, "pi"), "t": (0, "pi")})
+    found = class_strata(psi)
+    curves = {c.description: c.found.name for c in found[1:] if c.points is None}
+    assert curves == {"where t = 0, for every s": "fully product",
+                      "where t = pi, for every s": "fully product",
+                      "where s = pi/2, for every t": "fully product",
+                      "where t = pi/2, for every s": "biseparable 3|12"}
+    bisep = next(c for c in found if c.description == "where t = pi/2, for every s")
+    assert bisep.cause == "rank of rho_3 drops; tau = 0"

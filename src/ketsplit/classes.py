@@ -86,7 +86,7 @@ def three_tangle(state: State) -> sympy.Expr:
 def require_three_qubits(state: State, what: str) -> None:
     if state.dims != QUBITS:
         shape = "x".join(str(d) for d in state.dims)
-        raise InputError(f"{what} is defined here for three qubits (2x2x2); this state is {shape}"
+        raise InputError(f"{what}: asked of three qubits (2x2x2) only; this state is {shape}"
                          + ("; for more parts ask 'class' for what can be decided"
                             if state.nparts > 3 else ""))
 
@@ -441,10 +441,21 @@ class Loci:
         self.points.append((point, [cause]))
 
     def add_curve(self, cause: str, stratum: Stratum) -> None:
+        """A locus of lower rank; the same locus met by another question gains that cause."""
+        where = stratum.description.removeprefix(f"rank {stratum.rank} ")
+        for k, known in enumerate(self.curves):
+            if known.description == where:
+                causes = [*known.cause.split("; "), cause]
+                self.curves[k] = ClassStratum(known.found, "; ".join(causes), known.equations,
+                                              None, known.sample, where)
+                return
         found = class_at(self.state, stratum.sample, self.digits)
-        shown = stratum.description.split(" on ", 1)[-1]
         self.curves.append(ClassStratum(found, cause, stratum.equations, None, stratum.sample,
-                                        f"{found.name} at the sample; on {shown}"))
+                                        where))
+
+    def curve_strata(self) -> list[ClassStratum]:
+        return [ClassStratum(c.found, cause_text(c.cause.split("; ")), c.equations, None,
+                             c.sample, c.description) for c in self.curves]
 
     def point_strata(self) -> list[ClassStratum]:
         """One stratum per class and cause, the points of each listed."""
@@ -488,7 +499,7 @@ def class_strata(state: State, *, budget: float = DEFAULT_BUDGET,
     if generic.kind == "GHZ":
         loci.add("tau = 0", strata(tangle_state(state), Cut((0,), (1,)), budget=budget))
     return ClassStrata([generic_stratum(state, generic, found, digits)] + loci.point_strata()
-                       + loci.curves, tuple(loci.notes), tuple(loci.undecided))
+                       + loci.curve_strata(), tuple(loci.notes), tuple(loci.undecided))
 
 
 def generic_stratum(state: State, generic: EntanglementClass, found: list,

@@ -137,16 +137,15 @@ def classes_report(found: ClassStrata, name: str, digits: int) -> Report:
         items.append(Table(("question", "on", "why undecided", "how to decide"),
                            tuple((cause, equations_text(u.equations), u.reason, u.hint)
                                  for cause, u in found.undecided)))
-    notes = found.notes + ("each class is decided afresh at its exact points and samples",
-                           SOURCES)
+    notes = found.notes + ("each class is decided afresh at its exact points; on a curve or "
+                           "surface the class shown is the one at its sample point, and points "
+                           "of a lower class on it have rows of their own", SOURCES)
     return Report(f"class strata of {name}", tuple(items), notes)
 
 
 def where(stratum, digits: int) -> str:
     if stratum.points is not None and stratum.sample is not None and stratum.sample:
         return "; ".join(point_text(p, digits) for p in stratum.points)
-    if stratum.equations:
-        return "on " + equations_text(stratum.equations) + " (" + stratum.description + ")"
     return stratum.description
 
 
