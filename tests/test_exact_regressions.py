@@ -224,3 +224,16 @@ def test_a_dense_block_of_high_degree_declines_from_its_structure():
     assert max(degrees) == 16
     with pytest.raises(NoClosedForm, match="degree 16"):
         schmidt(state_of(rows), CUT)
+
+
+@pytest.mark.parametrize("first", [[[1, 1], [1, 0]], [[1, I], [1, 0]], [[1, sqrt(2)], [1, 0]]])
+def test_repeated_quadratic_factor_gets_closed_form_vectors(first):
+    # C = C1 (x) [[1, 1], [1, -1]]: the spectrum of C1 C1^H, each value twice (the Kronecker
+    # product's singular values are the products, fact of the trade), so an irreducible
+    # quadratic factor appears squared; the values against mpmath's SVD, and the exact route's
+    # own ball check of the rebuild and of orthonormality passes inside schmidt
+    rows = sympy.Matrix(sympy.kronecker_product(sympy.Matrix(first), sympy.Matrix([[1, 1], [1, -1]])))
+    rows = rows.tolist()
+    d = schmidt(state_of(rows), CUT)
+    assert all(not c.has(sympy.CRootOf) for c in d.coefficients)
+    assert_matches_mpmath(d, rows)

@@ -196,13 +196,11 @@ def number_pieces(found: NumberBlock) -> list[Piece]:
     for f, multiplicity in factors:
         if f.degree() == 1 and f.TC() == 0:
             continue  # the zero eigenvalue carries no Schmidt piece
+        projector = Projector.of(powers, minimal, f)
         if multiplicity == 1:
-            pieces += simple_pieces(found, Projector.of(powers, minimal, f))
-        elif f.degree() == 1:
-            pieces += repeated_pieces(found, rho, -f.TC())
+            pieces += simple_pieces(found, projector)
         else:
-            raise NoClosedForm(f"the irreducible factor {f.as_expr()} of degree {f.degree()} is "
-                               f"repeated {multiplicity} times: no closed-form eigenvectors here")
+            pieces += multiple_pieces(found, projector, multiplicity)
     return pieces
 
 
@@ -303,40 +301,83 @@ def _low_first(poly) -> list:
     return poly.rep.to_list()[::-1] if isinstance(poly, sympy.Poly) else list(poly)
 
 
-def repeated_pieces(found: NumberBlock, rho: DomainMatrix, value) -> list[Piece]:
-    """A repeated eigenvalue in F: an orthonormal basis of its eigenspace (Gram-Schmidt in F)."""
-    field = found.field
-    rows = rho.shape[0]
-    shifted = rho - DomainMatrix.eye(rows, field).to_dense().mul(value)
-    basis = [list(r) for r in shifted.nullspace().to_list()]
-    done: list[tuple[list, object]] = []   # (orthogonal vector, its squared norm)
-    for v in basis:
-        for x, n2 in done:
-            overlap = _dot(found, x, v)
-            v = [a - overlap / n2 * b for a, b in zip(v, x)]
-        done.append((v, _dot(found, v, v)))
-    sigma = root(found.expr(value))
+def multiple_pieces(found: NumberBlock, projector: Projector, multiplicity: int) -> list[Piece]:
+    """An eigenvalue of multiplicity k: k orthonormal vectors from the columns of P.
+
+    The columns of P span the eigenspace, and their Gram matrix is P(lambda) P
+    (P is Hermitian and P^2 = P(lambda) P).  Gram-Schmidt runs on coordinates
+    over the columns, in K = F[lambda]/(f), a field: every zero test there is
+    exact, and lambda enters only when the vectors are written out.
+    """
+    ring = Residues(found, projector.factor)
+    rows = found.matrix.shape[0]
+    entry = [[ring.poly(projector.entry(i, c)) for c in range(rows)] for i in range(rows)]
+    gram = [[ring.mul(projector.scale, entry[i][c]) for c in range(rows)] for i in range(rows)]
+    done: list[tuple[dict[int, sympy.Poly], sympy.Poly]] = []   # (coordinates, squared norm)
+    for c in range(rows):
+        coords = {c: ring.one}
+        for other, norm2 in done:
+            overlap = ring.inner(other, {c: ring.one}, gram)
+            factor = ring.mul(overlap, ring.inverse(norm2))
+            for m, t in other.items():
+                coords[m] = (coords.get(m, ring.zero) - ring.mul(factor, t)).rem(ring.factor)
+        norm2 = ring.inner(coords, coords, gram)
+        if not norm2.is_zero:
+            done.append((coords, norm2))
+        if len(done) == multiplicity:
+            break
+    lam = sympy.Poly(LAMBDA, LAMBDA, domain=found.field)
+    image = found.matrix.transpose()
     pieces = []
-    for v, n2 in done:
-        norm = root(found.expr(n2))
-        u = Vector([found.expr(a) for a in v]) / norm
-        conj = DomainMatrix([[_conj(found, a)] for a in v], (rows, 1), field)
-        image = found.matrix.transpose().matmul(conj).to_list()
-        w = Vector([found.expr(e[0]) for e in image]) / (norm * sigma)
-        pieces.append((sigma, u.applyfunc(_readable), w.applyfunc(_readable)))
+    for coords, norm2 in done:
+        u = [sum((ring.mul(t, entry[i][m]) for m, t in coords.items()), ring.zero) for i in range(rows)]
+        # B^T conj(u): conj(u_i) = sum_m conj(t_m) P_mi, P being Hermitian and lambda real
+        conj_u = [sum((ring.mul(ring.conj(t), entry[m][i]) for m, t in coords.items()), ring.zero)
+                  for i in range(rows)]
+        w = [sum((ring.mul(ring.constant(image[j, i].element), conj_u[i]) for i in range(rows)), ring.zero)
+             for j in range(found.matrix.shape[1])]
+        scale2 = ring.mul(norm2, lam)
+        for at in evaluations(found, projector.factor):
+            norm, scale = root(at(norm2)), root(at(scale2))
+            pieces.append((root(at(lam)), Vector([at(x) / norm for x in u]),
+                           Vector([at(x) / scale for x in w])))
     return pieces
 
 
-def _dot(found: NumberBlock, x: list, y: list):
-    """<x|y> = sum conj(x_i) y_i in F."""
-    return sum((_conj(found, a) * b for a, b in zip(x, y)), found.field.zero)
+class Residues:
+    """Arithmetic in K = F[lambda]/(f), elements as polynomials of degree < deg f."""
 
+    def __init__(self, found: NumberBlock, factor: sympy.Poly):
+        self.found, self.factor, self.field = found, factor, factor.domain
+        self.zero = sympy.Poly(0, LAMBDA, domain=self.field)
+        self.one = sympy.Poly(1, LAMBDA, domain=self.field)
 
-def _conj(found: NumberBlock, element):
-    field = found.field
-    if field.is_QQ or field.is_ZZ:
-        return element
-    return field.from_sympy(sympy.conjugate(field.to_sympy(element)))
+    def poly(self, low_first: list) -> sympy.Poly:
+        return sympy.Poly.from_list(low_first[::-1], LAMBDA, domain=self.field)
+
+    def constant(self, element) -> sympy.Poly:
+        return sympy.Poly.from_list([element], LAMBDA, domain=self.field)
+
+    def mul(self, a: sympy.Poly, b: sympy.Poly) -> sympy.Poly:
+        return (a * b).rem(self.factor)
+
+    def inverse(self, a: sympy.Poly) -> sympy.Poly:
+        return a.invert(self.factor)
+
+    def conj(self, a: sympy.Poly) -> sympy.Poly:
+        """The conjugate at a real root: conjugate coefficients (identity over real fields)."""
+        if self.field.is_QQ:
+            return a
+        to, back = self.field.to_sympy, self.field.from_sympy
+        return self.poly([back(sympy.conjugate(to(c))) for c in a.rep.to_list()[::-1]])
+
+    def inner(self, x: dict, y: dict, gram: list) -> sympy.Poly:
+        """<sum x_m col_m | sum y_n col_n> = sum conj(x_m) y_n G_mn."""
+        total = self.zero
+        for m, a in x.items():
+            for n, b in y.items():
+                total = total + self.mul(self.mul(self.conj(a), b), gram[m][n])
+        return total.rem(self.factor)
 
 
 def rank_one(found: NumberBlock) -> Piece:
@@ -379,8 +420,3 @@ def root(value: sympy.Expr) -> sympy.Expr:
     if not c.is_Rational:
         return result
     return sympy.expand(sympy.sqrt((a + c) / 2) + sympy.sign(b) * sympy.sqrt((a - c) / 2))
-
-
-def _readable(value: sympy.Expr) -> sympy.Expr:
-    """Expanded (radsimp on nested radicals costs more than the whole decomposition)."""
-    return sympy.expand(value)
