@@ -15,8 +15,11 @@ is lambda-times-a-projector there: P = P(lambda) Pi.  Its entries are
 polynomials in lambda over F (reduced modulo f), computed exactly; a column c
 with P_cc != 0 (an exact test in F[lambda]/(f), a field) is an eigenvector
 whose squared norm is P(lambda) P_cc, and its conjugate is row c of P, because
-P is Hermitian.  The closed form of lambda (radicals for degree 2, Viete for a
-rational cubic, CRootOf beyond) enters only when the result is written out.
+P is Hermitian.  A repeated eigenvalue takes k columns of P through Gram-Schmidt
+in F[lambda]/(f), whose Gram matrix is P(lambda) P.  The closed form of lambda
+(radicals for degree 2, Viete for a rational cubic, CRootOf up to degree 8)
+enters only when the result is written out; other factors raise NoClosedForm
+from their degree and coefficients before any vector is computed.
 
 Blocks whose entries are not algebraic numbers return None here (the caller
 takes the symbolic route or declines with NoClosedForm).
