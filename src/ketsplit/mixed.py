@@ -92,7 +92,7 @@ def qubit_dims(size: int) -> tuple[int, ...] | None:
 def density(matrix: sympy.MatrixBase, dims: Sequence[int] | None = None, names: Sequence[str] = (),
             params: Sequence[Parameter] = ()) -> Density:
     """A Density from a matrix, after the checks of the module docstring."""
-    matrix = sympy.ImmutableMatrix(matrix)
+    matrix = sympy.ImmutableMatrix(matrix).applyfunc(sympy.expand)
     if matrix.rows != matrix.cols:
         raise InputError(f"a density matrix is square; this one is {matrix.rows}x{matrix.cols}")
     dims = tuple(int(d) for d in dims) if dims else qubit_dims(matrix.rows)
