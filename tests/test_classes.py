@@ -295,3 +295,14 @@ def test_two_parameter_family_lists_each_curve_once_with_its_causes():
                       "where t = pi/2, for every s": "biseparable 3|12"}
     bisep = next(c for c in found if c.description == "where t = pi/2, for every s")
     assert bisep.cause == "rank of rho_3 drops; tau = 0"
+
+
+def test_an_undecided_zero_of_tau_makes_the_class_undecided_with_its_hint():
+    """The rule of the project: a tau whose zero is not proved gives no class, only how to decide
+    (the decision layer's unknown answer is passed on, here given directly)."""
+    from ketsplit.arith.decide import Decided
+    from ketsplit.classes import class_from
+    psi = ketsplit.ket(GHZ)
+    unknown = Decided(None, "a ball still holds zero", "ask for more digits")
+    found = class_from(psi, (2, 2, 2), None, None, (), unknown, False)
+    assert found.kind == "undecided" and not found.known and found.hint == "ask for more digits"

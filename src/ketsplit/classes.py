@@ -51,7 +51,7 @@ LABELS = tuple(product((0, 1), repeat=3))
 # -- the hyperdeterminant and the three-tangle -----------------------------------
 
 def hyperdeterminant(a) -> sympy.Expr:
-    """Cayley's hyperdeterminant of a 2x2x2 array ``a[(i, j, k)]`` (CKW 2000, eq. (17))."""
+    """Cayley's hyperdeterminant of a 2x2x2 array ``a[(i, j, k)]``, as written out in CKW 2000."""
     def p(*labels: str) -> sympy.Expr:
         return sympy.Mul(*(a[tuple(int(c) for c in label)] for label in labels))
     squares = p("000", "000", "111", "111") + p("001", "001", "110", "110") \
@@ -424,7 +424,8 @@ class Loci:
     undecided: list[tuple[str, Undecided]] = field(default_factory=list)
 
     def add(self, cause: str, found) -> None:
-        self.notes.extend(f"{cause}: {note}" for note in found.notes)
+        self.notes.extend(f"{cause}: {note}" for note in found.notes
+                          if f"{cause}: {note}" not in self.notes)
         self.undecided.extend((cause, u) for u in found.undecided)
         for stratum in found[1:]:
             if stratum.points is not None:
