@@ -34,8 +34,14 @@ def tidy(value: sympy.Expr) -> sympy.Expr:
 
 
 def neat_number(value: sympy.Expr) -> sympy.Expr:
-    """A number expanded, and rationalised by radsimp when small with unnested radicals."""
-    value = expanded(value)
+    """A number expanded, and rationalised by radsimp when small with unnested radicals.
+
+    Without a sum anywhere there is nothing to expand and nothing for radsimp
+    (sympy writes 1/sqrt(k) as sqrt(k)/k itself): the common case returns at once.
+    """
+    if value.is_Atom or not any(node.is_Add for node in sympy.preorder_traversal(value)):
+        return value
+    value = sympy.expand(value)
     if value.is_Rational or not _root_in_denominator(value) or _nested_root(value) \
             or sympy.count_ops(value) > MAX_RADSIMP_OPS:
         return value
