@@ -244,3 +244,74 @@ def test_reduce_binds_a_density_matrix():
     session.run("rho = reduce psi 12")
     assert isinstance(session.bindings["rho"], mixed.Density)
     assert "2/3" in session.run("concurrence rho")[-1].text()
+
+
+def test_two_by_three_family_is_decided():
+    # by hand: the partial transpose of |psi><psi|, psi = (|00> + |11>)/sqrt(2) on 2x3, has
+    # eigenvalues 1/2 (x3), -1/2 and 0 (x2), so p|psi><psi| + (1-p) I/6 has the smallest
+    # eigenvalue (1-p)/6 - p/2 of its partial transpose: entangled iff p > 1/4; PPT decides 2x3
+    # (Horodecki, Horodecki & Horodecki 1996)
+    psi = sympy.Matrix([1, 0, 0, 0, 1, 0]) / sympy.sqrt(2)
+    rho = mixed.density(p * projector(psi) + (1 - p) * sympy.eye(6) / 6, (2, 3), params=[UNIT])
+    quarter = sympy.Rational(1, 4)
+    assert regions(mixed.separability(rho, CUT)) == [("separable", 0, quarter, (True, True)),
+                                                     ("entangled", quarter, 1, (False, True))]
+
+
+def numpy_matrix(m: sympy.Matrix) -> np.ndarray:
+    return np.array(m.evalf(20).tolist(), dtype=complex)
+
+
+def numpy_sqrt(m: np.ndarray) -> np.ndarray:
+    values, vectors = np.linalg.eigh(m)
+    return vectors @ np.diag(np.sqrt(np.clip(values, 0, None))) @ vectors.conj().T
+
+
+def test_mixed_fidelity_against_numpy():
+    # reference: Uhlmann's (tr sqrt(sqrt(a) b sqrt(a)))^2 with numpy's eigh for the square roots
+    a, b = random_density(5), random_density(6)
+    ours = mixed.fidelity(mixed.density(a), mixed.density(b), 30)
+    x = numpy_sqrt(numpy_matrix(a))
+    reference = np.trace(numpy_sqrt(x @ numpy_matrix(b) @ x)).real ** 2
+    value = float(ours.mid()) if isinstance(ours, arb) else float(sympy.N(ours))
+    assert abs(value - reference) < 1e-10
+
+
+def test_certified_spectrum_of_an_algebraic_matrix_against_numpy():
+    # reference: numpy.linalg.eigvalsh; entries in QQ(sqrt 2, sqrt 3) on six levels go to balls
+    rng = random.Random(9)
+    a = sympy.Matrix(6, 6, lambda i, j: rng.randint(-3, 3) + rng.randint(-2, 2) * sympy.sqrt(2)
+                     + rng.randint(-1, 1) * sympy.sqrt(3))
+    h = a + a.T
+    found = mixed.spectrum(h, 30)
+    assert not found.exact
+    ours = sorted(float(b.mid()) for b in found.balls(30))
+    assert np.allclose(ours, np.sort(np.linalg.eigvalsh(numpy_matrix(h))), atol=1e-10)
+
+
+def test_python_api():
+    # the Werner family again (Werner 1989), through the public functions
+    import ketsplit
+    text = ("p [[0,0,0,0],[0,1,-1,0],[0,-1,1,0],[0,0,0,0]]/2 + "
+            "(1-p) [[1,0,0,0],[0,1,0,0],[0,0,1,0],[0,0,0,1]]/4")
+    rho = ketsplit.density(text, ranges={"p": (0, 1)})
+    found = ketsplit.separability(rho, "1|2")
+    assert [r.verdict for r in found.regions] == ["separable", "entangled"]
+    assert ketsplit.concurrence(rho)[1].value == 3 * p / 2 - sympy.Rational(1, 2)
+    assert ketsplit.negativity(rho)[0].value == 0
+    assert ketsplit.partial_transpose(rho, "2")[0, 3] == -p / 2
+    assert ketsplit.operator_schmidt("[[1,0,0,0],[0,1,0,0],[0,0,0,1],[0,0,1,0]]").rank == 2
+    basis = ketsplit.to_schmidt_basis(ketsplit.ket("(|00> + |11>)/sqrt(2)"))
+    assert basis.left == sympy.eye(2) and basis.right == sympy.eye(2)
+
+
+def test_statement_errors_are_input_errors_with_a_place():
+    session = Session()
+    with pytest.raises(InputError, match="not Hermitian") as caught:
+        session.run("density [[1, 2], [3, 4]]")
+    assert caught.value.span is not None and caught.value.span.column == 9
+    with pytest.raises(InputError, match="does not fit the parts"):
+        session.run("concurrence [[1,0,0],[0,1,0],[0,0,1]]/3")
+    session.run("space A:2 B:3")
+    with pytest.raises(InputError, match="two qubits"):
+        session.run("concurrence " + matrix_text(sympy.eye(6) / 6))

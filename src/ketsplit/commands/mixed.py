@@ -59,8 +59,10 @@ def operand(call: CommandCall, text: str, offset: int) -> Density | State:
         try:
             return _at_point(call, mixed.density(value, dims, names, _params(call)))
         except InputError as err:
-            raise call.error(str(err.message if hasattr(err, "message") else err), offset,
-                             len(text.strip()) or 1) from None
+            if err.span is not None:
+                raise
+            lead = len(text) - len(text.lstrip())
+            raise call.error(err.message, offset + lead, len(text.strip()) or 1) from None
     raise call.error(f"{call.name}: expected a density matrix, a matrix or a state, found a "
                      f"{kind_of(value)}", offset)
 
