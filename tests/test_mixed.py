@@ -315,3 +315,20 @@ def test_statement_errors_are_input_errors_with_a_place():
     session.run("space A:2 B:3")
     with pytest.raises(InputError, match="two qubits"):
         session.run("concurrence " + matrix_text(sympy.eye(6) / 6))
+
+
+def test_two_parameters_ppt_over_the_whole_box():
+    # by hand: p|Psi-><Psi-| + q|11><11| + (1-p-q) I/4 has partial-transpose eigenvalues
+    # >= (1-p-q)/4 - p/2 >= 0 for p, q in [0, 1/4]; with p up to 1 the Werner part entangles
+    q = sympy.Symbol("q", real=True)
+    singlet = sympy.Matrix([0, 1, -1, 0]) / sympy.sqrt(2)
+    corner = sympy.zeros(4)
+    corner[3, 3] = 1
+    matrix = p * projector(singlet) + q * corner + (1 - p - q) * sympy.eye(4) / 4
+    quarter = (sympy.Integer(0), sympy.Rational(1, 4))
+    params = [Parameter("p", "real", quarter), Parameter("q", "real", quarter)]
+    found = mixed.separability(mixed.density(matrix, params=params), CUT)
+    assert [(r.verdict, r.symbol) for r in found.regions] == [("separable", None)]
+    wide = [Parameter("p", "real", (0, sympy.Rational(1, 2))), params[1]]
+    with pytest.raises(InputError, match="fix all parameters but one"):
+        mixed.separability(mixed.density(matrix, params=wide), CUT)

@@ -615,8 +615,8 @@ def separability(rho: Density, cut: Cut) -> Separability:
         count = negative_count(coefficients)
         return Separability((Region(name(count), proof=_proof(count)),), sides, decisive, cut.right)
     if len(symbols) > 1 or next(iter(symbols)) not in rho.box:
-        raise InputError("separability of a family needs one parameter with a declared range "
-                         "(real p in [lo, hi]); for more, fix the others with 'with'")
+        return Separability((_whole_box(coefficients, symbols, rho.box, name),), sides, decisive,
+                            cut.right)
     (symbol,) = symbols
     lo, hi = rho.box[symbol]
     ends = [lo, *_cut_points(coefficients, symbol, lo, hi), hi]
@@ -632,6 +632,23 @@ def separability(rho: Density, cut: Cut) -> Separability:
                                   proof=_proof(count) + f"; no eigenvalue crosses zero inside (the last "
                                   f"nonzero coefficient has no zero there), checked at {symbol} = {middle}"))
     return Separability(_joined(regions), sides, decisive, cut.right)
+
+
+def _whole_box(coefficients: Sequence[sympy.Expr], symbols: set, box,
+               name: Callable[[int], str]) -> Region:
+    """Several parameters: PPT on the whole box when every (-1)^k a_k >= 0 there is proved
+    (no negative eigenvalue anywhere); otherwise the question is given back with a hint."""
+    if not symbols <= set(box):
+        raise InputError("separability of a family needs declared ranges for its parameters "
+                         "(real p in [lo, hi])")
+    for k, a in enumerate(coefficients):
+        found = sign((-1) ** k * a, box)
+        if found.value not in (0, 1):
+            raise InputError("with several parameters only 'PPT over the whole box' is decided, "
+                             f"and here it is not ({found.proof}); fix all parameters but one "
+                             "with 'with' for the regions")
+    return Region(name(0), proof="every coefficient of the characteristic polynomial of the "
+                  "partial transpose at -x is proved >= 0 over the whole box: no negative eigenvalue")
 
 
 def _namer(decisive: bool) -> Callable[[int], str]:

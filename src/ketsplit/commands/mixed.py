@@ -210,13 +210,16 @@ def run_ptranspose(call: CommandCall) -> Report:
     rho, parts = density_and_parts(call)
     transposed = mixed.partial_transpose(rho, parts)
     names = "".join(rho.part_names()[p] for p in parts)
-    items = (Field(f"rho^T_{names}", transposed),)
-    if not transposed.free_symbols:
-        items += _spectrum_items(mixed.spectrum(transposed, _digits(call)), _digits(call),
-                                 "eigenvalue")
-    else:
-        items += (Note("the spectrum of a family: see 'separable' and 'negativity'"),)
+    items = (Field(f"rho^T_{names}", transposed),) + _spectrum_or_note(transposed, _digits(call))
     return Report(f"partial transpose on {names}", items, rho.notes)
+
+
+def _spectrum_or_note(matrix: sympy.MatrixBase, digits: int) -> tuple:
+    """The eigenvalues as a table, or a note when a family's have no closed form here."""
+    try:
+        return _spectrum_items(mixed.spectrum(matrix, digits), digits, "eigenvalue")
+    except InputError as why:
+        return (Note(why.message),)
 
 
 @command("negativity", "negativity RHO [CUT] [with NAME=VALUE, ...]",
@@ -255,9 +258,7 @@ def run_mixedness(call: CommandCall) -> Report:
                     Field("linear entropy", number_cell(mixed.linear_entropy(rho), digits)),
                     Field("von Neumann entropy (bits)",
                           number_cell(mixed.von_neumann_entropy(rho, digits), digits)))
-    if not rho.symbols:
-        items = _spectrum_items(mixed.spectrum(rho.matrix, digits), digits, "eigenvalue") + items
-    return Report("mixedness", items, rho.notes)
+    return Report("mixedness", _spectrum_or_note(rho.matrix, digits) + items, rho.notes)
 
 
 def _split_pair(call: CommandCall) -> tuple[tuple[str, int], tuple[str, int]]:
