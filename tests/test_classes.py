@@ -306,3 +306,20 @@ def test_an_undecided_zero_of_tau_makes_the_class_undecided_with_its_hint():
     unknown = Decided(None, "a ball still holds zero", "ask for more digits")
     found = class_from(psi, (2, 2, 2), None, None, (), unknown, False)
     assert found.kind == "undecided" and not found.known and found.hint == "ask for more digits"
+
+
+def test_general_two_qubit_concurrence_against_numpy():
+    """Wootters 1998 formula evaluated in float64 by numpy (reference library) for random
+    full-rank density matrices M M^H / tr; ours is exact or a certified ball."""
+    import numpy
+    rng = random.Random(3)
+    flip = numpy.array([[0, 0, 0, -1], [0, 0, 1, 0], [0, 1, 0, 0], [-1, 0, 0, 0]])
+    for _ in range(2):
+        m = sympy.Matrix(4, 4, lambda i, j: rng.randint(-2, 2) + sympy.I * rng.randint(-2, 2))
+        rho = m * m.H / (m * m.H).trace()
+        r = numpy.array(rho.evalf(30), dtype=complex)
+        ls = numpy.sort(numpy.sqrt(numpy.abs(numpy.linalg.eigvals(r @ flip @ r.conj() @ flip))))
+        reference = max(0.0, ls[3] - ls[2] - ls[1] - ls[0]) ** 2
+        found = two_qubit_concurrence(rho)
+        ours = float(found.value) if found.value is not None else float(found.ball.mid())
+        assert abs(ours - reference) < 1e-9

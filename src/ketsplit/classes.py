@@ -287,9 +287,13 @@ def small_rank(r: sympy.Matrix, box) -> bool:
 
 
 def constant_concurrence(r: sympy.Matrix) -> Term:
-    roots = sympy.roots(r.charpoly().as_expr(), sympy.Symbol("lambda"))
-    if sum(roots.values()) == 4:
-        found = exact_concurrence([sympy.sqrt(v) for v, m in roots.items() for _ in range(m)])
+    """Exact when R's characteristic polynomial splits into factors of degree <= 2 (readable
+    roots), certified balls otherwise (Ferrari's radicals are exact but slow to order)."""
+    _, factors = r.charpoly().factor_list()
+    if all(f.degree() <= 2 for f, _ in factors):
+        roots = [v for f, m in factors for v in sympy.roots(f.as_expr(), *f.gens, multiple=True)
+                 for _ in range(m)]
+        found = exact_concurrence([sympy.sqrt(v) for v in roots]) if len(roots) == 4 else None
         if found is not None:
             return found
     return ball_concurrence(r)
