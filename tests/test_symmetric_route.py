@@ -16,7 +16,8 @@ from ketsplit import InputError, Session
 from ketsplit.figures import overview
 from ketsplit.base.errors import LimitError
 from ketsplit.limits import limits_set
-from ketsplit.symmetric import dicke_reduced, symmetric_rank, symmetric_reduced, symmetric_spectrum
+from ketsplit.decomposition import symmetric_spectrum
+from ketsplit.symmetric import dicke_reduced, symmetric_rank, symmetric_reduced
 
 R = sympy.Rational
 C = sympy.binomial

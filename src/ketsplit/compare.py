@@ -37,7 +37,8 @@ from flint import arb, ctx
 
 from .arith.decide import Decided, compare as compare_values, is_nonnegative, is_zero
 from .cuts import Cut, parse_cut, reduced, side_dimension
-from .decomposition import schmidt
+from .decomposition import schmidt, symmetric_spectrum
+from .symmetric import SymmetricState, dicke_reduced
 from .language.coerce import as_expr
 from .exact.eigen import characteristic_polynomial, eigenvalues
 from .exact.errors import NoClosedForm
@@ -130,7 +131,6 @@ def smaller_side(state: State, cut: Cut | str | None) -> tuple[int, ...]:
 def smaller_reduced(state: State, cut: Cut | str | None) -> sympy.Matrix:
     """The exact reduced state on the smaller side (for a symmetric state, its Dicke block:
     the same nonzero spectrum in m + 1 rows instead of 2^m)."""
-    from .symmetric import SymmetricState, dicke_reduced
     if isinstance(state, SymmetricState):
         cut = cut if isinstance(cut, Cut) else parse_cut(cut, state)
         return dicke_reduced(state, min(len(cut.left), len(cut.right)))
@@ -180,7 +180,6 @@ def squared_coefficients(state: State, cut: Cut | str | None, box: Box) -> Vecto
     route (it splits the state into blocks first); constant states from the eigenvalues of the
     smaller reduced state alone, since exact Schmidt vectors can cost far more than the values
     (a qutrit Fourier rotation of |00> + 2|11> + 3|22>)."""
-    from .symmetric import SymmetricState, symmetric_spectrum
     if isinstance(state, SymmetricState):
         return tuple(symmetric_spectrum(state, cut))
     if state.symbols:
@@ -369,6 +368,14 @@ class Comparison:
     @property
     def incomparable(self) -> bool:
         return self.forward is False and self.backward is False
+
+    def _repr_latex_(self) -> str:
+        from .display import comparison_latex
+        return comparison_latex(self)
+
+    def _repr_html_(self) -> str:
+        from .display import comparison_html
+        return comparison_html(self)
 
 
 def compare_spectra(x: Spectrum, y: Spectrum) -> Comparison:

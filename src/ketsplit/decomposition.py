@@ -25,13 +25,14 @@ from .exact.schmidt import nonzero_entries, schmidt_pieces
 from .exact.selfcheck import DecompositionError as DecompositionError  # re-exported
 from .exact.selfcheck import verify_rebuild
 from .exact.signs import box_of, drop_abs
-from .render.ketprint import label_text
-from .render.ketprint import text as language_text
+from .language.printer import label_text
+from .language.printer import text as language_text
 from .exact.eigen import NoClosedForm
-from .language.errors import InputError
+from .base.errors import InputError
 from .numeric.schmidt import CertifiedSchmidt, certified_decomposition as certified_pieces
 from .planner import plan
-from .states import State
+from .states import State, abs_squared
+from .symmetric import SymmetricState, dicke_split
 
 
 @dataclass(frozen=True, eq=False)
@@ -85,13 +86,15 @@ class Decomposition:
 
     def schmidt_form(self) -> str:
         """The state rewritten in Schmidt form, in state-language syntax."""
-        from .render.ketprint import terms_text
+        from .language.printer import terms_text
         pieces = []
         for sigma, u, w in zip(self.coefficients, self.left, self.right):
             left = terms_text((a, f"|{l}>") for a, l in self.vector_terms(u, "left"))
             right = terms_text((a, f"|{l}>") for a, l in self.vector_terms(w, "right"))
             pieces.append((sigma, f"({left})({right})"))
-        return terms_text(pieces)
+        from .display import decomposition_pieces
+        from .language.latexprint import Typeset, schmidt_latex
+        return Typeset(terms_text(pieces), schmidt_latex(decomposition_pieces(self)))
 
     def numeric(self, digits: int = 30, at=None) -> list[mpmath.mpf]:
         """Certified Schmidt coefficients, descending, at the point ``at`` ({"t": value}).
@@ -105,7 +108,7 @@ class Decomposition:
         return certified_values(self.state, self.cut, digits, at)
 
     def __repr__(self) -> str:
-        from .render.ketprint import text
+        from .language.printer import text
         if self.certified is not None:
             coeffs = ", ".join(self.certified.texts())
             return f"Decomposition(rank={self.certified.rank_text()}, certified=[{coeffs}])"
@@ -113,18 +116,12 @@ class Decomposition:
         return f"Decomposition(rank={self.rank}, coefficients=[{coeffs}])"
 
     def _repr_latex_(self) -> str:
-        """The Schmidt form as displayed math, for notebooks."""
-        from .render.latex import schmidt_sum_latex
-        from .render.report import Kets
-        terms = [(sigma, Kets(tuple(self.vector_terms(u, "left"))),
-                  Kets(tuple(self.vector_terms(w, "right"))))
-                 for sigma, u, w in zip(self.coefficients, self.left, self.right)]
-        return "$$" + schmidt_sum_latex(terms) + "$$"
+        from .display import decomposition_latex
+        return decomposition_latex(self)
 
 
 def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     """The exact Schmidt decomposition of the normalised ``state`` across ``cut``."""
-    from .symmetric import SymmetricState, symmetric_schmidt
     if isinstance(state, SymmetricState):
         return symmetric_schmidt(state, cut)
     if not isinstance(cut, Cut):
@@ -174,7 +171,6 @@ def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
 
 
 def _symmetric(state: State) -> bool:
-    from .symmetric import SymmetricState
     return isinstance(state, SymmetricState)
 
 
@@ -202,3 +198,53 @@ def certified_decomposition(state: State, cut: Cut | str | None, digits: int, re
     right = [t.right for t in found.terms] if vectors else []
     return Decomposition(state, cut, list(found.coefficients), left, right, False, True, notes,
                          "certified", reason, found, factors)
+
+
+# -- permutation-symmetric states: decomposed in the Dicke bases of the two sides --
+def symmetric_spectrum(state: SymmetricState, cut: Cut | str | None) -> list[sympy.Expr]:
+    """The squared Schmidt coefficients across ``cut``, descending where the order is decided;
+    for a single Dicke state (or a GHZ-like sum) read off M directly (:func:`monomial_schmidt`)."""
+    return symmetric_schmidt(state, cut).squared
+
+
+DICKE_NOTE = ("symmetric state: the vectors are in the Dicke bases of the two sides, "
+              "|m> on a side of k parts standing for D(k, m)")
+
+
+def symmetric_schmidt(state: SymmetricState, cut: Cut | str | None):
+    """The exact Schmidt decomposition of a symmetric state, computed on M (never on 2^n labels)."""
+    split, split_cut = dicke_split(state, cut)
+    decomposition = monomial_schmidt(split) or schmidt(split, split_cut)
+    return replace(decomposition, notes=decomposition.notes + (DICKE_NOTE,))
+
+
+def monomial_schmidt(split: State):
+    """The decomposition read off directly when M has at most one entry per row and column
+    and rational squared moduli (a single Dicke state, GHZ-like sums): no algebra needed.
+    None when M is not of that form."""
+    rows = {i for i, _ in split.amplitudes}
+    cols = {j for _, j in split.amplitudes}
+    if len(rows) != len(split.amplitudes) or len(cols) != len(split.amplitudes):
+        return None
+    squares = {k: abs_squared(v) for k, v in split.amplitudes.items()}
+    if not all(s.is_Rational for s in squares.values()):
+        return None
+    total = sum(squares.values())
+    order = sorted(squares, key=lambda k: -squares[k])
+    scale = 1 / sympy.sqrt(total)
+    normal = split if total == 1 else split.with_amplitudes(
+        {k: sympy.expand(v * scale) for k, v in split.amplitudes.items()})
+    left = [unit_vector(i, split.dims[0]) for i, _ in order]
+    right = [unit_vector(j, split.dims[1]) * (split.amplitudes[(i, j)] / sympy.sqrt(squares[(i, j)]))
+             for i, j in order]
+    notes = () if total == 1 else (f"the state was normalised (its squared norm was {total})",)
+    decomposition = Decomposition(normal, Cut((0,), (1,)), [sympy.sqrt(squares[k] / total) for k in order],
+                                  left, right, True, True, notes)
+    verify_rebuild(decomposition)
+    return decomposition
+
+
+def unit_vector(index: int, size: int) -> sympy.Matrix:
+    vector = sympy.zeros(size, 1)
+    vector[index] = 1
+    return vector

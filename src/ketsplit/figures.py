@@ -19,11 +19,13 @@ from flint import arb, ctx
 
 from .language.coerce import as_expr
 from .cuts import Cut, reduced, side_dimension
-from .decomposition import Decomposition, decompose
+from .decomposition import Decomposition, decompose, symmetric_schmidt
 from .exact.signs import box_of, drop_abs
 from .base.errors import InputError
 from .planner import MAX_FIELD_DEGREE, field_degree_bound
 from .states import State, simplify_real
+from .symmetric import SymmetricState, cut_classes
+from . import limits
 
 UNITS = {"bits": sympy.log(2), "nats": sympy.Integer(1)}
 
@@ -305,7 +307,6 @@ def every_cut(nparts: int) -> list[Cut]:
 def overview(state: State, unit: str = "bits") -> Overview:
     """Schmidt rank and entropy across every cut, and which parts split off."""
     from .base.errors import LimitError
-    from .symmetric import SymmetricState, symmetric_overview  # one row per class of cuts
     if isinstance(state, SymmetricState):
         return symmetric_overview(state, unit)
     if state.nparts < 2:
@@ -436,3 +437,27 @@ def _power(x: arb, a: arb) -> arb:
         return (a * x.log()).exp()
     upper = x.upper()
     return arb(0) if upper <= 0 else arb(0).union((a * upper.log()).exp())
+
+
+def symmetric_overview(state: SymmetricState, unit: str = "bits"):
+    """The ``cuts`` overview of a symmetric state: rank and entropy for each class of cuts.
+
+    The groups that split off follow from the 1|n-1 class alone: if one part
+    splits off, every part does (symmetry), so the state is fully product;
+    otherwise no group splits off either, since a product across some k|n-k
+    cut would, by symmetry, be a product across every k|n-k cut, and their
+    intersections separate every pair of parts, making the state fully product.
+    """
+    n = state.nparts
+    if n < 2:
+        raise InputError("a state of one part has no cuts")
+    limits.check(n // 2, "parts", f"an overview of {n // 2} classes of cuts (a symmetric state "
+                 f"of {n} parts)")
+    summaries = []
+    for cut in cut_classes(n):
+        spectrum = Spectrum.of(symmetric_schmidt(state, cut))
+        summaries.append(CutSummary(cut, spectrum.rank,
+                                    spectrum_figures(spectrum, unit, ("entropy",))["entropy"]))
+    product = summaries[0].rank == 1
+    groups = tuple((p,) for p in range(n)) if product else (tuple(range(n)),)
+    return Overview(tuple(summaries), groups, bool(state.symbols))

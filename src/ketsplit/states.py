@@ -14,6 +14,7 @@ from typing import Iterable, Mapping
 
 import sympy
 
+from .language.build import KetValue
 from .language.coerce import as_expr
 from .base.errors import InputError
 from .language.printer import text as language_text
@@ -42,6 +43,10 @@ class Parameter:
     def describe(self) -> str:
         where = f" in [{language_text(self.range[0])}, {language_text(self.range[1])}]" if self.range else ""
         return f"{self.kind} {self.name}{where}"
+
+    def builder_value(self) -> sympy.Symbol:
+        """What the name stands for inside an expression: its symbol."""
+        return self.symbol
 
 
 def make_symbol(name: str, kind: str = "complex") -> sympy.Symbol:
@@ -175,6 +180,10 @@ class State:
                 raise InputError(f"the state has no parameter named {name!r}")
             table[by_name[name]] = as_expr(value)  # never parses text
         return table
+
+    def builder_value(self) -> KetValue:
+        """What the name stands for inside an expression: its amplitudes as a ket value."""
+        return KetValue(dict(self.amplitudes), self.nparts, self.dims)
 
     def __repr__(self) -> str:
         from .language.printer import ket_text

@@ -162,6 +162,10 @@ class SymmetricState(State):
     def ket_value(self) -> "SymmetricKet":
         return SymmetricKet(self.nparts, dict(self.weights))
 
+    def builder_value(self) -> "SymmetricKet":
+        """What the name stands for inside an expression."""
+        return self.ket_value()
+
     def __repr__(self) -> str:
         terms = " + ".join(f"({sympy.sstr(c)}) dicke({self.nparts}, {j})" for j, c in self.weights)
         return f"SymmetricState({terms})"
@@ -182,6 +186,12 @@ class SymmetricKet(KetValue):
 
     def coefficients(self):
         return self.weights.values()
+
+    def joined(self, other: KetValue) -> "SymmetricKet | None":
+        """Two symmetric kets of the same size add in the Dicke basis."""
+        if isinstance(other, SymmetricKet) and other.nparts == self.nparts:
+            return self.plus(other)
+        return None
 
     @property
     def free_symbols(self) -> set[sympy.Symbol]:
@@ -212,13 +222,6 @@ class SymmetricKet(KetValue):
 
     def __repr__(self) -> str:
         return f"SymmetricKet(n={self.nparts}, weights={self.weights})"
-
-
-def symmetric_sum(left: KetValue, right: KetValue) -> SymmetricKet | None:
-    """left + right when both are symmetric kets of the same number of parts, else None."""
-    if isinstance(left, SymmetricKet) and isinstance(right, SymmetricKet) and left.nparts == right.nparts:
-        return left.plus(right)
-    return None
 
 
 def dicke_ket(n: int, k: int) -> SymmetricKet:
@@ -352,57 +355,6 @@ def symmetric_rank(state: SymmetricState, cut: Cut | str | None) -> int | None:
     return DomainMatrix(rows, (k + 1, n - k + 1), domain).rank()
 
 
-def symmetric_spectrum(state: SymmetricState, cut: Cut | str | None) -> list[sympy.Expr]:
-    """The squared Schmidt coefficients across ``cut``, descending where the order is decided;
-    for a single Dicke state (or a GHZ-like sum) read off M directly (:func:`monomial_schmidt`)."""
-    return symmetric_schmidt(state, cut).squared
-
-
-DICKE_NOTE = ("symmetric state: the vectors are in the Dicke bases of the two sides, "
-              "|m> on a side of k parts standing for D(k, m)")
-
-
-def symmetric_schmidt(state: SymmetricState, cut: Cut | str | None):
-    """The exact Schmidt decomposition of a symmetric state, computed on M (never on 2^n labels)."""
-    from .decomposition import schmidt
-    split, split_cut = dicke_split(state, cut)
-    decomposition = monomial_schmidt(split) or schmidt(split, split_cut)
-    return replace(decomposition, notes=decomposition.notes + (DICKE_NOTE,))
-
-
-def monomial_schmidt(split: State):
-    """The decomposition read off directly when M has at most one entry per row and column
-    and rational squared moduli (a single Dicke state, GHZ-like sums): no algebra needed.
-    None when M is not of that form."""
-    from .decomposition import Decomposition, verify_rebuild
-    rows = {i for i, _ in split.amplitudes}
-    cols = {j for _, j in split.amplitudes}
-    if len(rows) != len(split.amplitudes) or len(cols) != len(split.amplitudes):
-        return None
-    squares = {k: abs_squared(v) for k, v in split.amplitudes.items()}
-    if not all(s.is_Rational for s in squares.values()):
-        return None
-    total = sum(squares.values())
-    order = sorted(squares, key=lambda k: -squares[k])
-    scale = 1 / sympy.sqrt(total)
-    normal = split if total == 1 else split.with_amplitudes(
-        {k: sympy.expand(v * scale) for k, v in split.amplitudes.items()})
-    left = [unit_vector(i, split.dims[0]) for i, _ in order]
-    right = [unit_vector(j, split.dims[1]) * (split.amplitudes[(i, j)] / sympy.sqrt(squares[(i, j)]))
-             for i, j in order]
-    notes = () if total == 1 else (f"the state was normalised (its squared norm was {total})",)
-    decomposition = Decomposition(normal, Cut((0,), (1,)), [sympy.sqrt(squares[k] / total) for k in order],
-                                  left, right, True, True, notes)
-    verify_rebuild(decomposition)
-    return decomposition
-
-
-def unit_vector(index: int, size: int) -> sympy.Matrix:
-    vector = sympy.zeros(size, 1)
-    vector[index] = 1
-    return vector
-
-
 # -- every cut, one class of cuts per size --------------------------------------
 @dataclass(frozen=True)
 class CutClass(Cut):
@@ -421,31 +373,6 @@ def cut_classes(n: int) -> list[CutClass]:
     """One class per size k = 1 .. n//2; when k = n - k each cut is counted once."""
     return [CutClass(tuple(range(k)), tuple(range(k, n)),
                      int(sympy.binomial(n, k)) // (2 if 2 * k == n else 1)) for k in range(1, n // 2 + 1)]
-
-
-def symmetric_overview(state: SymmetricState, unit: str = "bits"):
-    """The ``cuts`` overview of a symmetric state: rank and entropy for each class of cuts.
-
-    The groups that split off follow from the 1|n-1 class alone: if one part
-    splits off, every part does (symmetry), so the state is fully product;
-    otherwise no group splits off either, since a product across some k|n-k
-    cut would, by symmetry, be a product across every k|n-k cut, and their
-    intersections separate every pair of parts, making the state fully product.
-    """
-    from .figures import CutSummary, Overview, Spectrum, spectrum_figures
-    n = state.nparts
-    if n < 2:
-        raise InputError("a state of one part has no cuts")
-    limits.check(n // 2, "parts", f"an overview of {n // 2} classes of cuts (a symmetric state "
-                 f"of {n} parts)")
-    summaries = []
-    for cut in cut_classes(n):
-        spectrum = Spectrum.of(symmetric_schmidt(state, cut))
-        summaries.append(CutSummary(cut, spectrum.rank,
-                                    spectrum_figures(spectrum, unit, ("entropy",))["entropy"]))
-    product = summaries[0].rank == 1
-    groups = tuple((p,) for p in range(n)) if product else (tuple(range(n)),)
-    return Overview(tuple(summaries), groups, bool(state.symbols))
 
 
 # -- checks: two symmetric sides compare their Dicke weights ---------------------

@@ -50,6 +50,10 @@ class KetValue:
         """The distinct kinds of coefficient (a symmetric ket gives its Dicke weights)."""
         return self.terms.values()
 
+    def joined(self, other: "KetValue") -> "KetValue | None":
+        """The sum kept in a compact form of its own (symmetric kets), or None: list the terms."""
+        return None
+
 
 Value = sympy.Expr | KetValue | sympy.MatrixBase
 Scalar = sympy.Expr | Gaussian  # while building
@@ -323,11 +327,9 @@ class Builder:
         if isinstance(left, KetValue) and isinstance(right, KetValue):
             if left.nparts != right.nparts:
                 self.fail(f"cannot add a ket of {left.nparts} part(s) to one of {right.nparts}", node)
-            if type(left) is not KetValue and type(right) is not KetValue:
-                from ..symmetric import symmetric_sum  # sums of Dicke states stay in the Dicke basis
-                joined = symmetric_sum(left, right)
-                if joined is not None:
-                    return joined
+            joined = left.joined(right)  # sums of Dicke states stay in the Dicke basis
+            if joined is not None:
+                return joined
             terms = left.terms if in_place else dict(left.terms)
             for k, v in right.terms.items():
                 if k in terms:
@@ -555,16 +557,9 @@ def merge_dims(a: tuple[int, ...] | None, b: tuple[int, ...] | None) -> tuple[in
 
 
 def as_value(found: object) -> Value:
-    """A session binding (State, scalar, matrix, Parameter) as a builder value."""
-    from ..states import Parameter, State
-    from ..symmetric import SymmetricState
-    if isinstance(found, Parameter):
-        return found.symbol
-    if isinstance(found, SymmetricState):
-        return found.ket_value()
-    if isinstance(found, State):
-        return KetValue(dict(found.amplitudes), found.nparts, found.dims)
-    if hasattr(found, "builder_value"):  # a density matrix (ketsplit.mixed) is its matrix here
+    """A session binding as a builder value: states, parameters and density matrices say
+    what they are here through ``builder_value()``; scalars and matrices are themselves."""
+    if hasattr(found, "builder_value"):
         return found.builder_value()
     return found  # type: ignore[return-value]
 

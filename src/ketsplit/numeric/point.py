@@ -13,6 +13,7 @@ from typing import Mapping
 import mpmath
 import sympy
 
+from ..language.build import evaluate
 from ..base.errors import InputError
 from ..states import State
 
@@ -35,13 +36,28 @@ def exact_number(value) -> sympy.Expr:
     elif isinstance(value, mpmath.mpc):
         number = exact_number(value.real) + sympy.I * exact_number(value.imag)
     elif isinstance(value, str):
-        from ..session import Session
-        number = Session().evaluate(value)
+        number, _ = evaluate(value, NO_NAMES)
     else:
         raise InputError(f"a parameter value must be a number, found {type(value).__name__}")
     if not isinstance(number, sympy.Expr) or not number.is_number:
         raise InputError(f"a parameter value must be a number, found {number}")
     return number
+
+
+class NoNames:
+    """The scope of a point value written as text: numbers, constants and functions only."""
+
+    def lookup(self, name: str) -> None:
+        return None
+
+    def undeclared(self, name: str) -> sympy.Symbol:
+        raise InputError(f"a parameter value must be a number; {name!r} is a name")
+
+    def space_dims(self) -> None:
+        return None
+
+
+NO_NAMES = NoNames()
 
 
 def check_range(state: State, name: str, value: sympy.Expr) -> None:

@@ -6,7 +6,7 @@ import sympy
 from flint import arb
 
 from ..base.errors import InputError
-from ..session import MAX_DIGITS, MIN_DIGITS
+from .. import limits
 from .digits import certain_count, digits_cell
 from .enclose import NotEnclosable, enclose
 
@@ -15,9 +15,11 @@ MAX_DOUBLINGS = 5
 
 
 def check_digits(digits: int) -> int:
-    if isinstance(digits, bool) or not isinstance(digits, int) or not MIN_DIGITS <= digits <= MAX_DIGITS:
-        raise InputError(f"digits must be a whole number from {MIN_DIGITS} to {MAX_DIGITS}, "
-                         f"found {digits!r}")
+    """The precision asked for, within the limits min_digits and max_digits in force."""
+    low, high = limits.current().min_digits, limits.current().max_digits
+    if isinstance(digits, bool) or not isinstance(digits, int) or not low <= digits <= high:
+        raise InputError(f"digits must be a whole number from {low} to {high} (the limits "
+                         f"min_digits and max_digits), found {digits!r}")
     return digits
 
 
