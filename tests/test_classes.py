@@ -323,3 +323,20 @@ def test_general_two_qubit_concurrence_against_numpy():
         found = two_qubit_concurrence(rho)
         ours = float(found.value) if found.value is not None else float(found.ball.mid())
         assert abs(ours - reference) < 1e-9
+
+
+@pytest.mark.slow
+def test_ghz_w_angle_family_tau_zero_at_an_algebraic_angle():
+    """cos(t)(|000> + |111>) - sin(t)(|001> + |010> + |100>), derived by hand as above:
+    Det = c^4 - 4 c s^3, zero at t = pi/2 (the state is -W) and where tan^3 t = 1/4,
+    t0 = atan(4^(-1/3)) (digits from mpmath, reference library); both points are W class."""
+    psi = ketsplit.ket("cos(t)(|000>+|111>) - sin(t)(|001>+|010>+|100>)", ranges={"t": (0, "pi")})
+    found = class_strata(psi)
+    t = next(iter(psi.symbols))
+    assert [s.found.kind for s in found] == ["GHZ", "W"]
+    points = found[1].points
+    assert any(p[t] == sympy.pi / 2 for p in points)
+    mpmath.mp.dps = 30
+    reference = mpmath.atan(mpmath.mpf(4) ** (-mpmath.mpf(1) / 3))
+    other = next(p[t] for p in points if p[t] != sympy.pi / 2)
+    assert abs(mpmath.mpf(str(sympy.N(other, 30))) - reference) < mpmath.mpf(10) ** -25
