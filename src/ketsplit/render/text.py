@@ -52,6 +52,7 @@ def kets_text(kets: Kets) -> str:
 
 KET = re.compile(r"\|[^|<>⟨⟩\s]*[>⟩]")
 PATH = re.compile(r"(?<!\S)[~./]\S*|\S+\.[A-Za-z]\w*(?!\S)")  # a file name is one token
+DIGIT_RUN = re.compile(r"[0-9.]+")
 OPENING, CLOSING = "([{", ")]}"
 SPACED = ("+", "-", "=", "≈", "~", "⊗", "·")  # operators written with a space each side
 
@@ -89,7 +90,7 @@ def breaks(text: str) -> list[Break]:
             found.append(Break(k + 1, k + 2, depth, 1))
         elif ch in "*/" and not spaced and text[k + 1] not in "*/":
             found.append(Break(k + 1, k + 1, depth, 2))
-        elif ch == " " and text[k - 1:k] not in ("", " ") and text[k + 1] not in SPACED:
+        elif ch == " " and text[k - 1:k] not in ("", " ", ",", *SPACED) and text[k + 1] not in SPACED:
             found.append(Break(k, k + 1, depth, SPACE))
     return found
 
@@ -109,11 +110,18 @@ def best_break(found: list[Break], cuts: list[int], start: int, room: int) -> Br
 
 def fold(text: str, first: int, rest: int, hanging: str = HANGING) -> list[str]:
     """``text`` as lines: the first at most ``first`` columns, the others (after
-    ``hanging``) at most ``rest``.  A single token longer than a line stays whole."""
+    ``hanging``) at most ``rest``.  A number longer than a line is cut with a
+    backslash at the end of each piece (as bc prints long numbers); any other
+    token longer than a line stays whole."""
     found = breaks(text)
     cuts = [b.cut for b in found]   # ascending, as breaks() finds them
     lines, start, room, lead = [], 0, first, ""
     while len(text) - start > room:
+        digits = DIGIT_RUN.match(text, start)
+        if digits and digits.end() - start > room > 1:   # a number longer than a line
+            lines.append(lead + text[start:start + room - 1] + "\\")
+            start, room, lead = start + room - 1, rest, hanging
+            continue
         chosen = best_break(found, cuts, start, room)
         if chosen is None:
             break

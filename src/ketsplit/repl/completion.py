@@ -36,6 +36,8 @@ FIRST = re.compile(r"^\s*([A-Za-z_]\w*)(\s+)?")
 WORD = re.compile(r"[A-Za-z_]\w*$")
 CHOICES = re.compile(r"^\[?([a-z]+(?:\|[a-z]+)+)\]?$")   # bits|nats, auto|exact|certified
 PARAMETER_SLOT = re.compile(r"\b(?:with|over)\s+(?:[^=\s]+\s*=\s*[^,\s]*\s*,\s*)*[A-Za-z_]*$")
+NOT_EXPRESSIONS = frozenset({"N", "SECONDS", "NAME", "NAME=VALUE", "FILE", "COMMAND"})
+USAGE_PUNCTUATION = re.compile(r"[\[\],]|\.\.\.")
 WITH = re.compile(r"\swith\s")
 FUNCTION, WORD_END = "(", " "
 
@@ -47,11 +49,10 @@ def current_statement(text: str) -> str:
 
 def usage_words(usage: str) -> list[str]:
     """The words of a usage line after the command's name, its first form only,
-    brackets and ellipses dropped: 'figures STATE [CUT] [FIGURE ...]' gives
-    ['STATE', 'CUT', 'FIGURE']."""
+    brackets, commas and ellipses dropped: 'figures STATE [CUT] [FIGURE ...]' gives
+    ['STATE', 'CUT', 'FIGURE'], 'plot FIGURE[,FIGURE...] STATE' ['FIGURE', 'FIGURE', 'STATE']."""
     first_form = usage.split(" | ")[0] if " | " in usage and "[" not in usage else usage
-    words = [w.strip("[],") for w in first_form.split()[1:]]
-    return [w for w in words if w and w != "..."]
+    return USAGE_PUNCTUATION.sub(" ", first_form).split()[1:]
 
 
 class ShellCompleter(Completer):
@@ -111,9 +112,9 @@ class ShellCompleter(Completer):
             return [(choice, "choice") for choice in choices.group(1).split("|")]
         if slot == "FIGURE":
             return self.figures()
-        if slot in ("STATE", "LHS"):
-            return self.state_words()
-        return []
+        if slot in NOT_EXPRESSIONS or not slot.isupper():
+            return []
+        return self.state_words()   # STATE, LHS, EXPR, A, ...
 
     @staticmethod
     def _matching(statement: str, candidates: Iterable[tuple[str, str]]) -> Iterator[Completion]:
