@@ -1,16 +1,19 @@
-"""Terminal and SVG plots across a declared parameter range."""
+"""Terminal plots, matplotlib files (svg, pdf, png), CSV samples and maps across declared ranges."""
 
 from __future__ import annotations
 
+import csv
 import importlib.util
 import math
+import sys
 import xml.etree.ElementTree as ElementTree
 
+import numpy
 import pytest
 import sympy
 
 import ketsplit
-from ketsplit.plots import Marker, make_chart, nice, svg_text, terminal_lines
+from ketsplit.plots import Marker, make_chart, nice, pi_ticks, terminal_lines
 
 FAMILY = "real t in [0, pi]\npsi = cos(t)|00> + sin(t)|11>"
 
@@ -50,22 +53,98 @@ def test_strata_points_are_marked_when_strata_are_available(session):
         assert "rank 1 at t = pi/2" in text and "rank 1 at t = 0" in text
 
 
-def test_svg_file(tmp_path, session):
+def test_svg_file_from_matplotlib(tmp_path, session):
     target = tmp_path / "entropy.svg"
     session.run(f"plot coefficients psi 1|2 over t --to {target}")
     root = ElementTree.parse(target).getroot()
     assert root.tag.endswith("svg")
-    lines = [e for e in root.iter() if e.tag.endswith("polyline")]
-    assert len(lines) >= 2  # both Schmidt coefficients
+    paths = [e for e in root.iter() if e.tag.endswith("path")]
+    assert len(paths) > 10   # axes, ticks, both coefficient curves
+    text = target.read_text()
+    assert "sigma_1" in text and "sigma_2" in text   # the legend names both curves
 
 
-def test_png_needs_matplotlib(tmp_path, session):
-    if importlib.util.find_spec("matplotlib") is not None:
-        session.run(f"plot entropy psi over t --to {tmp_path / 'e.png'}")
-        assert (tmp_path / "e.png").stat().st_size > 0
-    else:
-        with pytest.raises(ketsplit.InputError, match="matplotlib"):
-            session.run(f"plot entropy psi over t --to {tmp_path / 'e.png'}")
+@pytest.mark.parametrize("suffix,magic", [(".pdf", b"%PDF"), (".png", b"\x89PNG"), (".svg", b"<?xml")])
+def test_every_file_format(tmp_path, session, suffix, magic):
+    target = tmp_path / f"entropy{suffix}"
+    session.run(f"plot entropy psi over t --to {target}")
+    assert target.read_bytes().startswith(magic)   # file signatures (fact of the trade)
+
+
+def test_the_users_matplotlib_backend_is_left_alone(tmp_path, session):
+    import matplotlib
+    raw = dict.__getitem__(matplotlib.rcParams, "backend")  # read without resolving it
+    had_pyplot = "matplotlib.pyplot" in sys.modules
+    session.run(f"plot entropy psi over t --to {tmp_path / 'e.png'}")
+    assert dict.__getitem__(matplotlib.rcParams, "backend") == raw
+    assert had_pyplot or "matplotlib.pyplot" not in sys.modules   # drawn through the object API
+
+
+def test_data_file_holds_the_samples_and_the_curve_reaches_the_marks(tmp_path, session):
+    target = tmp_path / "e.csv"
+    session.run(f"plot entropy,concurrence psi over t --data {target}")
+    rows = list(csv.reader(target.open()))
+    assert rows[0] == ["t", "entropy (bits)", "concurrence"]
+    xs = [float(r[0]) for r in rows[1:]]
+    assert xs[0] == 0.0 and xs[-1] == float(sympy.pi)   # the ends of the range are drawn
+    assert float(sympy.pi / 2) in xs                    # and the rank drop at pi/2
+    for x, entropy, concurrence in rows[1:]:
+        # concurrence of cos t|00> + sin t|11> is |sin 2t| (Hill & Wootters, PRL 78, 5022 (1997));
+        # entropy -c^2 log2 c^2 - s^2 log2 s^2 (definition), with 0 log 0 = 0
+        x = float(x)
+        assert abs(float(concurrence) - abs(math.sin(2 * x))) < 1e-9
+        p = [math.cos(x) ** 2, math.sin(x) ** 2]
+        assert abs(float(entropy) + sum(q * math.log2(q) for q in p if q > 0)) < 1e-9
+
+
+def test_several_states_on_one_plot(session):
+    session.run("chi = cos(t)|00> + sin(t)|11>/2 + |22>/3")
+    text = session.run("plot entropy psi, chi over t")[0].text()
+    assert "psi: entropy (bits)" in text and "chi: entropy (bits)" in text
+
+
+def test_pi_ticks():
+    # multiples of pi/4 on [0, pi], of pi/8 on [0, pi/2]; none on [0, 1]
+    assert [label for _, label in pi_ticks(sympy.Integer(0), sympy.pi)] == \
+        ["$0$", "$\\pi/4$", "$\\pi/2$", "$3\\pi/4$", "$\\pi$"]
+    assert len(pi_ticks(sympy.Integer(0), sympy.pi / 2)) == 5
+    assert pi_ticks(sympy.Integer(0), sympy.Integer(1)) is None
+
+
+def test_chart_shows_itself_in_a_notebook():
+    t = sympy.Symbol("t", real=True)
+    chart = make_chart("sin", {"sin^2": sympy.sin(t) ** 2}, t, (0, sympy.pi), [Marker(sympy.pi / 2, "top")])
+    assert chart._repr_png_().startswith(b"\x89PNG")
+    assert "<svg" in chart._repr_svg_()
+
+
+def test_map_statement(tmp_path):
+    s = ketsplit.Session()
+    s.run("real t in [0, pi/2]\nreal phi in [0, pi]\n"
+          "psi = cos(t)|00> + sin(t)(cos(phi)|11> + sin(phi)|01>)")
+    data, picture = tmp_path / "m.csv", tmp_path / "m.png"
+    result = s.run(f"map entropy psi 1|2 over t, phi --to {picture} --data {data}")[0]
+    assert picture.read_bytes().startswith(b"\x89PNG")
+    rows = list(csv.reader(data.open()))[1:]
+    assert len(rows) == 81 * 81
+    for t, phi, value in rows[::97]:
+        # reduced state of the first qubit: diag(c^2, s^2) + off-diagonal c s sin(phi) (by hand);
+        # its eigenvalues give the entropy, checked against numpy
+        t, phi = float(t), float(phi)
+        c, s_ = math.cos(t), math.sin(t)
+        rho = numpy.array([[c * c, c * s_ * math.sin(phi)], [c * s_ * math.sin(phi), s_ * s_]])
+        p = numpy.linalg.eigvalsh(rho)
+        assert abs(float(value) + sum(q * math.log2(q) for q in p if q > 1e-300)) < 1e-9
+    assert "phi from 0 (bottom) to pi (top)" in result.text()
+
+
+def test_bad_map_requests():
+    s = ketsplit.Session()
+    s.run("real t in [0, pi]\nreal u\npsi = cos(t)|00> + sin(t) exp(i u)|11>")
+    with pytest.raises(ketsplit.InputError, match="no declared range"):
+        s.run("map entropy psi over t, u")
+    with pytest.raises(ketsplit.InputError, match="over NAME, NAME"):
+        s.run("map entropy psi over t")
 
 
 @pytest.mark.parametrize("statement,message", [
@@ -73,6 +152,8 @@ def test_png_needs_matplotlib(tmp_path, session):
     ("plot entrop psi over t", "entropy"),
     ("plot entropy psi 1|2", "over NAME"),
     ("plot entropy psi over t --to out.txt", ".svg"),
+    ("plot entropy psi over t --data out.txt", ".csv"),
+    ("plot entropy psi over t --colour red", "unknown option"),
 ])
 def test_bad_plot_requests(session, statement, message):
     with pytest.raises(ketsplit.InputError, match=message):
@@ -93,7 +174,6 @@ def test_chart_drawing_is_deterministic():
     chart = make_chart("sin", {"sin^2": sympy.sin(t) ** 2}, t, (0, sympy.pi),
                        [Marker(sympy.pi / 2, "top")])
     assert terminal_lines(chart) == terminal_lines(chart)
-    assert "stroke-dasharray" in svg_text(chart)
     assert nice(0.998, 1) == 1.0 and nice(-0.013, -1) == -0.013 and nice(0.0, 1) == 0.0
 
 

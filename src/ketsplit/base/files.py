@@ -50,9 +50,9 @@ SUFFIX = ".part"
 NAME_KEPT = 100  # characters of the target's name kept in a temporary file's name
 
 
-def write_atomic(path: str | Path, text: str) -> None:
-    """Write ``text`` (UTF-8) to ``path`` atomically; WriteError when it cannot be written.
-    A symbolic link is written through (the file it points to is replaced)."""
+def write_atomic(path: str | Path, text: str | bytes) -> None:
+    """Write ``text`` (UTF-8; or bytes as they are) to ``path`` atomically; WriteError when it
+    cannot be written. A symbolic link is written through (the file it points to is replaced)."""
     target = through_links(Path(path))
     refuse_read_only(target)
     sweep(target)
@@ -62,7 +62,8 @@ def write_atomic(path: str | Path, text: str) -> None:
     except OSError as err:
         raise WriteError(target, reason(err, target), err.errno) from None
     try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="\n") as out:
+        with (os.fdopen(handle, "wb") if isinstance(text, bytes)
+              else os.fdopen(handle, "w", encoding="utf-8", newline="\n")) as out:
             out.write(text)
             out.flush()
             os.fsync(out.fileno())

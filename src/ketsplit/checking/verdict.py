@@ -54,6 +54,10 @@ class Verdict:
     def __str__(self) -> str:
         return self.line()
 
+    def _repr_latex_(self) -> str:
+        from ..display import verdict_latex
+        return verdict_latex(self)
+
 
 def _value_text(value) -> str:
     from ..language.printer import text

@@ -15,15 +15,14 @@ from ..numeric.digits import digits_cell
 from ..numeric.values import certified_real
 from ..figures import (certified_figures, LOGARITHMIC, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
                        unknown_figure, verdict, without_extrema)
-from ..language.errors import InputError, Span
-from ..plots import Marker, make_chart, terminal_lines, write_chart
-from ..render.report import Digits, Field, Note, Plot, Report, Table
+from ..base.errors import InputError, Span
+from ..plots import COEFFICIENTS, Family, family_chart, figure_label, terminal_lines, write_chart, write_data
+from ..base.document import Digits, Field, Note, Plot, Report, Table
 from ..states import State
 from .registry import CommandCall, command
 
 UNIT_WORDS = ("bits", "nats")
 RENYI = re.compile(r"^renyi\((.+)\)$")
-COEFFICIENTS = "coefficients"
 
 
 # -- options after the state: units and figure names ---------------------------
@@ -272,82 +271,110 @@ def _exact_and_digits(value: sympy.Expr, digits: int):
 
 
 # -- plot ---------------------------------------------------------------------
-PLOT = re.compile(r"^(\s*)(\S+)(\s+)(.*?)\s+over\s+([A-Za-z_][A-Za-z0-9_]*)(?:\s+--to\s+(\S+))?\s*$")
+PLOT = re.compile(r"^(\s*)(\S+)(\s+)(.*?)\s+over\s+([A-Za-z_][A-Za-z0-9_]*)((?:\s+--\S+\s+\S+)*)\s*$")
+FILE_OPTIONS = re.compile(r"--(\S+)\s+(\S+)")
+PLOT_USAGE = ("plot FIGURE[,FIGURE...] STATE[, STATE...] [CUT] over NAME [--to FILE.svg|.pdf|.png] "
+              "[--data FILE.csv] [with NAME=VALUE, ...]")
 
 
-def plot_curves(spectrum: Spectrum, figure: str | sympy.Expr, unit: str) -> dict[str, sympy.Expr]:
-    if figure == COEFFICIENTS:
-        return {f"sigma_{k + 1}": c for k, c in enumerate(spectrum.coefficients)}
-    return _figure_values(spectrum, [figure], unit)
-
-
-def plotted_parameter(call: CommandCall, state: State, name: str, column: int):
-    """The real, ranged parameter ``name`` of the state, and a check that it is the only one."""
+def plotted_parameter(call: CommandCall, state: State, name: str, column: int, others_ok: int = 0):
+    """The real, ranged parameter ``name`` of the state, and a check that it is the only one
+    (or one of two, for a map: ``others_ok`` other parameters allowed)."""
     symbols = {s.name: s for s in state.symbols}
     if name not in symbols:
         has = ", ".join(sorted(symbols)) or "no parameters"
-        raise call.error(f"plot: the state has no parameter {name!r} (it has {has})", column, len(name))
+        raise call.error(f"{call.name}: the state has no parameter {name!r} (it has {has})",
+                         column, len(name))
     param = state.parameter(name)
     if param is None or not param.is_real:
-        raise call.error(f"plot: {name} is complex; only a real parameter can be plotted "
+        raise call.error(f"{call.name}: {name} is complex; only a real parameter can be plotted "
                          f"(declare it: real {name} in [lo, hi])", column, len(name))
     if param.range is None:
-        raise call.error(f"plot: {name} has no declared range; declare one, as in "
+        raise call.error(f"{call.name}: {name} has no declared range; declare one, as in "
                          f"'real {name} in [0, pi]'", column, len(name))
     if not bool(param.range[1] > param.range[0]):
-        raise call.error(f"plot: the range of {name} is a single point; nothing to plot across",
+        raise call.error(f"{call.name}: the range of {name} is a single point; nothing to plot across",
                          column, len(name))
     others = sorted(set(symbols) - {name})
-    if others:
-        raise call.error(f"plot: the state also depends on {', '.join(others)}; fix "
+    if len(others) > others_ok:
+        raise call.error(f"{call.name}: the state also depends on {', '.join(others)}; fix "
                          f"{'them' if len(others) > 1 else 'it'} with 'with {others[0]}=...'",
                          column, len(name))
     return symbols[name], param.range
 
 
-def strata_markers(call: CommandCall, state: State, cut: Cut, symbol: sympy.Symbol
-                   ) -> tuple[list[Marker], str | None]:
-    """Where the Schmidt rank drops, from ketsplit.strata when it is there."""
-    try:
-        from ..strata import strata
-    except ImportError:
-        return [], "rank strata are not marked (ketsplit.strata is not available)"
-    try:
-        found = strata(state, cut, budget=call.session.settings.strata_budget)
-    except (InputError, ArithmeticError, NotImplementedError) as err:
-        return [], f"rank strata are not marked: {err}"
-    markers = []
-    for stratum in found[1:]:
-        for point in stratum.points or ():
-            value = next((v for k, v in point.items() if getattr(k, "name", k) == symbol.name), None)
-            if value is not None:
-                markers.append(Marker(value, f"rank {stratum.rank} at {symbol.name} = {sympy.sstr(value)}"))
-    return markers, None
+def file_options(call: CommandCall, text: str, start: int) -> dict[str, str]:
+    """``--to FILE`` and ``--data FILE`` after the parameter names."""
+    found = {}
+    for match in FILE_OPTIONS.finditer(text):
+        if match.group(1) not in ("to", "data"):
+            raise call.error(f"{call.name}: unknown option --{match.group(1)}; the options are "
+                             "--to FILE (.svg, .pdf, .png) and --data FILE.csv",
+                             start + match.start(), len(match.group(1)) + 2)
+        found[match.group(1)] = match.group(2)
+    return found
 
 
-@command("plot", "plot FIGURE STATE [CUT] over NAME [--to FILE.svg] [with NAME=VALUE, ...]",
-         "a figure (or 'coefficients') across the declared range of one real parameter",
-         "real t in [0, pi]; plot entropy cos(t)|00> + sin(t)|11> 1|2 over t")
+def plot_families(call: CommandCall, text: str, offset: int) -> list[Family]:
+    """The states of ``STATE[, STATE...] [CUT]``, each at the ``with`` point and with its cut."""
+    inner = replace(call, args=text, offset=offset)
+    body, cut_text, column = inner.split_last(CUT_PATTERN)
+    pieces, start = [], 0
+    while (comma := top_level_comma(body[start:])) is not None:
+        pieces.append((body[start:start + comma], start))
+        start += comma + 1
+    pieces.append((body[start:], start))
+    families = []
+    for piece, at in pieces:
+        bare = replace(call, point={})
+        state = bare.state(piece, offset + at)
+        names = {s.name for s in state.symbols}
+        state = replace(call, point={k: v for k, v in call.point.items() if k in names}).at_point(state)
+        span = Span(call.line, column + 1, len(cut_text or "x"))
+        families.append(Family(piece.strip(), state, parse_cut(cut_text, state, span, call.source)))
+    return families
+
+
+def plot_figures(call: CommandCall, words: str, column: int) -> list:
+    figures, at = [], column
+    for word in words.split(","):
+        figures.append(_plot_figure(call, word, at))
+        at += len(word) + 1
+    return figures
+
+
+def written(chart, options: dict[str, str]) -> tuple:
+    """Fields naming the files written for ``--to`` and ``--data``."""
+    items = ()
+    if "to" in options:
+        items += (Field("written", write_chart(chart, options["to"])),)
+    if "data" in options:
+        items += (Field("data written", write_data(chart, options["data"])),)
+    return items
+
+
+@command("plot", PLOT_USAGE,
+         "figures (or 'coefficients') of one or more states across the declared range of one "
+         "real parameter, rank drops marked; --to writes svg, pdf or png, --data the samples as CSV",
+         "real t in [0, pi]; plot entropy,concurrence cos(t)|00> + sin(t)|11> 1|2 over t")
 def run_plot(call: CommandCall) -> Report:
     match = PLOT.match(call.args)
     if match is None:
-        raise call.error("plot: expected 'plot FIGURE STATE [CUT] over NAME [--to FILE.svg]'",
-                         call.offset, len(call.args.rstrip()) or 1)
-    figure_word, figure_at = match.group(2), call.offset + match.start(2)
+        raise call.error(f"plot: expected '{PLOT_USAGE}'", call.offset, len(call.args.rstrip()) or 1)
     unit = call.session.settings.entropy_unit
-    figure = _plot_figure(call, figure_word, figure_at)
-    inner = replace(call, args=match.group(4), offset=call.offset + match.start(4))
-    state, cut = inner.state_and_cut()
-    symbol, bounds = plotted_parameter(call, state, match.group(5), call.offset + match.start(5))
-    d = decompose(state, cut, method="exact")
-    markers, note = strata_markers(call, state, cut, symbol)
-    title = f"{_figure_label(figure, unit) if figure != COEFFICIENTS else 'Schmidt coefficients'} of " \
-            f"{inner.subject()} across {cut.describe(state)}"
-    chart = make_chart(title, plot_curves(Spectrum.of(d), figure, unit), symbol, bounds, markers)
-    items: tuple = (Plot(terminal_lines(chart)),)
-    if match.group(6):
-        items += (Field("written", write_chart(chart, match.group(6))),)
-    return Report(title, items, tuple(n for n in (note,) + d.notes if n))
+    figures = plot_figures(call, match.group(2), call.offset + match.start(2))
+    options = file_options(call, match.group(6), call.offset + match.start(6))
+    families = plot_families(call, match.group(4), call.offset + match.start(4))
+    name, name_at = match.group(5), call.offset + match.start(5)
+    symbol, bounds = plotted_parameter(call, families[0].state, name, name_at)
+    for family in families[1:]:
+        plotted_parameter(call, family.state, name, name_at)
+    what = ", ".join(figure_label(f, unit) for f in figures)
+    subjects = ", ".join(f.subject for f in families)
+    title = f"{what} of {subjects} across {families[0].cut.describe(families[0].state)}"
+    chart, notes = family_chart(title, figures, families, symbol, bounds, unit,
+                                call.session.settings.strata_budget)
+    return Report(title, (Plot(terminal_lines(chart)),) + written(chart, options), notes)
 
 
 def _plot_figure(call: CommandCall, word: str, column: int) -> str | sympy.Expr:

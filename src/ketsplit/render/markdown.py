@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 
 from .latex import cell_latex, table_latex
-from .report import Field, Note, Plot, Report, Table
+from ..base.document import Field, Note, Plot, Report, Table
 
 SPECIAL = re.compile(r"([\\`*_{}\[\]<>#|$~])")
 

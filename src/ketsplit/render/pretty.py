@@ -12,8 +12,8 @@ import sympy
 from sympy.printing.pretty.pretty import PrettyPrinter
 from sympy.printing.pretty.stringpict import prettyForm, stringPict
 
-from ..exact.coerce import as_expr
-from .report import Digits, Kets, Table
+from ..language.coerce import as_expr
+from ..base.document import Digits, Kets, Table
 
 _PRINTER = PrettyPrinter({"use_unicode": True, "wrap_line": False})
 

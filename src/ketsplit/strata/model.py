@@ -61,6 +61,14 @@ class Strata(list):
         self.notes = tuple(notes)
         self.undecided = tuple(undecided)
 
+    def _repr_latex_(self) -> str:
+        from ..display import strata_latex
+        return strata_latex(self)
+
+    def _repr_html_(self) -> str:
+        from ..display import strata_html
+        return strata_html(self)
+
 
 class StrataError(ArithmeticError):
     """A computed point failed its own exact rank check: a bug, never an output."""

@@ -1,0 +1,146 @@
+"""LaTeX of expressions, kets, states and Schmidt forms (amsmath; also read by MathJax).
+
+This is the one place that turns values into LaTeX.  It sits in the language
+layer so that values (a State, a Decomposition) can show themselves in a
+notebook without importing any renderer; the LaTeX and Markdown exports use
+the same functions, so a paper and a notebook show the same math.
+
+Sums are written so that TeX may break them across lines when they stand in
+running text: the top level is a plain sum, and brackets around a ket sum are
+``\\bigl( \\bigr)`` (fixed-size delimiters, not a ``\\left``/``\\right`` group,
+which TeX can never break).
+"""
+
+from __future__ import annotations
+
+import html
+import re
+from typing import Iterable, Sequence
+
+import sympy
+
+from .coerce import as_expr
+
+KET = re.compile(r"\|([0-9A-Za-z,+\-]+)>")
+TEXT_SPECIAL = re.compile(r"[\\_{}#$%&^~<>|]")
+MATH_FOR_TEXT = {"\\": r"\backslash", "_": r"\_", "{": r"\{", "}": r"\}", "#": r"\#",
+                 "$": r"\$", "%": r"\%", "&": r"\&", "^": r"\hat{}", "~": r"\sim",
+                 "<": "<", ">": ">", "|": r"\vert"}
+
+
+class Typeset(str):
+    """Text in the state language that also knows its LaTeX (``.latex``).
+
+    It is the plain string everywhere else (terminal, worksheets, JSON), so a
+    result can carry typeset math without changing its recorded text.
+    """
+
+    latex: str
+
+    def __new__(cls, text: str, latex: str) -> "Typeset":
+        made = super().__new__(cls, text)
+        made.latex = latex
+        return made
+
+    def __reduce__(self):
+        return (Typeset, (str(self), self.latex))
+
+
+def expr_latex(value) -> str:
+    """An expression or matrix in LaTeX."""
+    if isinstance(value, sympy.MatrixBase):
+        return matrix_latex(value)
+    return sympy.latex(as_expr(value))
+
+
+def matrix_latex(matrix: sympy.MatrixBase) -> str:
+    rows = [" & ".join(expr_latex(matrix[i, j]) for j in range(matrix.cols))
+            for i in range(matrix.rows)]
+    return r"\begin{pmatrix}" + r" \\ ".join(rows) + r"\end{pmatrix}"
+
+
+def ket_latex(label: str) -> str:
+    """``|01>`` as ``\\lvert 01\\rangle`` (the label as typed: '01', '0,10', '+')."""
+    return rf"\lvert {label}\rangle"
+
+
+def _coefficient(value: sympy.Expr) -> str:
+    body = expr_latex(value)
+    return rf"\left({body}\right)" if isinstance(value, sympy.Add) else body
+
+
+def kets_latex(terms: Iterable[tuple[object, str]]) -> str:
+    """``c_1 |l_1> + c_2 |l_2> ...`` from (coefficient, label) pairs; '0' when empty."""
+    out = ""
+    for k, (coefficient, label) in enumerate(terms):
+        coefficient = as_expr(coefficient)
+        negative = coefficient.could_extract_minus_sign()
+        magnitude = -coefficient if negative else coefficient
+        body = ("" if magnitude == 1 else _coefficient(magnitude) + " ") + ket_latex(label)
+        out += ("-" if negative else "") + body if k == 0 else (" - " if negative else " + ") + body
+    return out or "0"
+
+
+def state_latex(state) -> str:
+    """A state as its sum of kets, in label order."""
+    from .printer import label_text
+    return kets_latex((amp, label_text(label)[1:-1]) for label, amp in state.terms())
+
+
+def _bracketed(terms: Sequence[tuple[object, str]]) -> str:
+    if len(terms) == 1 and as_expr(terms[0][0]) == 1:
+        return ket_latex(terms[0][1])
+    return r"\bigl(" + kets_latex(terms) + r"\bigr)"
+
+
+def schmidt_latex(pieces: Iterable[tuple[object, Sequence, Sequence]]) -> str:
+    """``sigma_1 (u_1) (x) (w_1) + ...`` from (coefficient, left terms, right terms)."""
+    out = []
+    for sigma, left, right in pieces:
+        sigma = as_expr(sigma)
+        factor = "" if sigma == 1 else _coefficient(sigma) + r"\,"
+        out.append(factor + _bracketed(left) + r" \otimes " + _bracketed(right))
+    return " + ".join(out) or "0"
+
+
+def text_latex(text: str) -> str:
+    """Plain words as math-mode LaTeX that pdflatex and MathJax read alike: words in
+    ``\\text{}``, kets as kets and special characters in math (MathJax shows a ``\\_``
+    inside ``\\text`` literally)."""
+    out = []
+    for k, piece in enumerate(KET.split(text)):
+        if k % 2:
+            out.append(ket_latex(piece))
+            continue
+        for j, chunk in enumerate(TEXT_SPECIAL.split(piece)):
+            if j:
+                out.append(MATH_FOR_TEXT[TEXT_SPECIAL.findall(piece)[j - 1]])
+            if chunk:
+                out.append(r"\text{" + chunk + "}")
+    return "".join(out)
+
+
+def aligned(rows: Sequence[str]) -> str:
+    """Rows of math, left-aligned, as one displayed formula (for ``_repr_latex_``)."""
+    return "$$\\begin{aligned}\n" + " \\\\\n".join("&" + r for r in rows) + "\n\\end{aligned}$$"
+
+
+def labelled(label: str, latex: str) -> str:
+    return text_latex(label) + r":\ " + latex
+
+
+def html_table(headers: Sequence[str], rows: Sequence[Sequence[str]]) -> str:
+    """An HTML table whose cells are LaTeX (shown as ``$...$``, typeset by the notebook)."""
+    head = "".join(f"<th>{html.escape(h)}</th>" for h in headers)
+    body = "".join("<tr>" + "".join(f"<td>${html.escape(c)}$</td>" for c in row) + "</tr>"
+                   for row in rows)
+    return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
+
+
+def state_display(state) -> str:
+    """A state as displayed math, with its parts and parameters (a notebook's view)."""
+    parts = ",\\ ".join(f"{name}{{:}}{d}" for name, d in zip(state.names, state.dims))
+    rows = [r"\psi = " + state_latex(state), text_latex("parts ") + parts]
+    if state.params:
+        rows.append(text_latex("parameters: " + ", ".join(p.describe() for p in state.params)))
+    return aligned(rows)
