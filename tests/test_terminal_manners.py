@@ -7,6 +7,7 @@ import re
 import subprocess
 import sys
 
+import mpmath
 import pytest
 from prompt_toolkit.completion import CompleteEvent
 from prompt_toolkit.document import Document
@@ -118,6 +119,17 @@ def test_help_figures_and_long_results_fit_the_terminal(columns):
         assert done.returncode == 0, done.stderr
         longest = max(done.stdout.splitlines(), key=len)
         assert len(longest) <= columns, longest
+
+
+def test_a_number_longer_than_a_line_is_cut_with_backslashes():
+    done = ketsplit("", "-c", "digits 150; numeric |00> + 2|11>", columns=50)
+    assert done.returncode == 0, done.stderr
+    assert max(len(line) for line in done.stdout.splitlines()) <= 50
+    joined = re.sub(r"\\\n\s*", "", done.stdout)
+    # |00> + 2|11>, normalised, has the Schmidt coefficient 2/sqrt(5) (fact of the trade);
+    # the reference digits come from mpmath
+    with mpmath.workdps(170):
+        assert mpmath.nstr(2 / mpmath.sqrt(5), 150) in joined
 
 
 def test_not_a_terminal_means_80_columns(monkeypatch, capsys):
