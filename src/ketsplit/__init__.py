@@ -12,7 +12,7 @@ The Python API::
 
 from __future__ import annotations
 
-__version__ = "0.1.0"
+from .base.version import VERSION as __version__
 
 from .api import (check, conversion_probability, convertible, figures, ket, lu_equivalent,
                   measures, rank, reduced, renyi, schmidt, strata)

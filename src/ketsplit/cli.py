@@ -14,7 +14,7 @@ import sys
 from pathlib import Path
 from typing import Iterable, Iterator
 
-from . import __version__
+from .base.version import VERSION as __version__
 from .render.results import shown
 from .base.errors import InputError, Span
 from .base.document import Field

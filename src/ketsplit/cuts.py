@@ -207,9 +207,9 @@ def reduced(state: State, keep: tuple[int, ...] | str) -> sympy.Matrix:
     if isinstance(keep, str):
         keep = parse_parts(keep, state)
     keep = tuple(sorted(keep))
-    from .symmetric import SymmetricState, symmetric_reduced  # Dicke weights, never 2^n labels
-    if isinstance(state, SymmetricState):
-        return symmetric_reduced(state, keep)
+    own = getattr(state, "reduced_on", None)  # a symmetric state: from its Dicke weights,
+    if own is not None:                        # never from 2^n labels
+        return own(keep)
     rest = tuple(p for p in range(state.nparts) if p not in keep)
     normal = state.normalised()
     size = side_dimension(state, keep)

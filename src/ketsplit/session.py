@@ -21,7 +21,9 @@ from .base.errors import InputError, LimitError, Span
 from .language.tokens import Kind, tokenize
 from .timebudget import time_limited
 from .base.document import Report
-from .states import KINDS, Parameter, State, kind_of_symbol, make_symbol
+from .commands import COMMANDS, dispatch
+from .commands.registry import Result
+from .states import KINDS, Parameter, Space, State, kind_of_symbol, make_symbol
 
 MIN_DIGITS, MAX_DIGITS = limits.Limits.min_digits, limits.Limits.max_digits  # defaults; see limits
 
@@ -33,27 +35,6 @@ class Settings:
     exact_budget: float = 20.0  # seconds of exact algebra one 'check' may spend (see checking)
     method: str = "auto"        # the route: auto (from the structure), exact or certified
     strata_budget: float = 30.0  # seconds of exact algebra one 'strata' statement may take
-
-
-@dataclass(frozen=True)
-class Space:
-    names: tuple[str, ...]
-    dims: tuple[int, ...]
-
-
-@dataclass(frozen=True)
-class Result:
-    """One statement's outcome: the statement as typed and its report.
-
-    Showing it (text, LaTeX, JSON) is the render layer's business: the
-    Session of the Python API and the shells hands out
-    :class:`ketsplit.render.results.ShownResult`, which adds those methods.
-    """
-
-    statement: str
-    kind: str
-    report: Report
-    line: int = 1
 
 
 @dataclass(frozen=True)
@@ -130,7 +111,6 @@ class Session:
 
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""
-        from .commands import dispatch
         seconds = limits.current().seconds
         try:
             with time_limited(seconds, lambda: limits.over_time(seconds, Span(line, 1, len(statement)),
@@ -192,7 +172,6 @@ class Session:
             self.params[name] = Parameter(name, kind, rng)
 
     def reserved(self, name: str) -> bool:
-        from .commands import COMMANDS
         return (name in SCALAR_FUNCTIONS or name in KET_FUNCTIONS or name in CONSTANTS
                 or name in COMMANDS or name in KINDS or name in ("space", "sum", "with", "in"))
 

@@ -25,6 +25,14 @@ TRANSCENDENTAL_LOOKING = (sympy.cos, sympy.sin, sympy.tan, sympy.exp, sympy.log)
 
 
 @dataclass(frozen=True)
+class Space:
+    """The declared parts of a session: their names and dimensions (``space A:2 B:3``)."""
+
+    names: tuple[str, ...]
+    dims: tuple[int, ...]
+
+
+@dataclass(frozen=True)
 class Parameter:
     """A named symbolic parameter with its kind and optional closed range."""
 

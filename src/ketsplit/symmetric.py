@@ -162,6 +162,10 @@ class SymmetricState(State):
     def ket_value(self) -> "SymmetricKet":
         return SymmetricKet(self.nparts, dict(self.weights))
 
+    def reduced_on(self, keep: tuple[int, ...]) -> sympy.Matrix:
+        """The reduced state on ``keep`` from the Dicke weights (see :func:`symmetric_reduced`)."""
+        return symmetric_reduced(self, keep)
+
     def builder_value(self) -> "SymmetricKet":
         """What the name stands for inside an expression."""
         return self.ket_value()

@@ -11,10 +11,11 @@ import re
 from typing import TYPE_CHECKING
 
 from ..base.errors import InputError, Span
-from .registry import COMMANDS, WITH_CLAUSE, CommandCall, command
+from .registry import COMMANDS, WITH_CLAUSE, CommandCall, Result, command
 from . import core  # noqa: F401  (registers the commands)
 from . import resources  # noqa: F401
 from . import figures  # noqa: F401
+from . import maps  # noqa: F401
 from . import numeric  # noqa: F401
 from . import check  # noqa: F401
 from . import strata  # noqa: F401
@@ -23,14 +24,13 @@ from . import classes  # noqa: F401
 from . import declarations
 
 if TYPE_CHECKING:
-    from ..session import Result, Session
+    from ..session import Session
 
 ASSIGNMENT = re.compile(r"^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=(?!=)")
 FIRST_WORD = re.compile(r"^\s*([A-Za-z_][A-Za-z0-9_]*)")
 
 
-def dispatch(session: "Session", statement: str, line: int) -> "Result":
-    from ..session import Result
+def dispatch(session: "Session", statement: str, line: int) -> Result:
     first = FIRST_WORD.match(statement)
     word = first.group(1) if first else ""
     if word in declarations.STATEMENTS:

@@ -2,21 +2,24 @@
 
 from __future__ import annotations
 
+import re
 from typing import TYPE_CHECKING, Callable, Mapping
 
 import sympy
 
 from .. import limits
+from ..states import Space
 from ..language.build import CONSTANTS, Builder, KetValue, is_scalar, kind_of
-from ..language.errors import InputError, Span
+from ..base.errors import InputError, Span
 from ..language.syntax import Number
 from ..language.statements import Declaration, parse_declaration, parse_space, \
     parse_with_clause, trailing_words
-from ..render.ketprint import ket_text
-from ..render.report import Field, Kets, Note, Report
-from ..render.ketprint import label_text
-from ..render.ketprint import text as language_text
+from ..language.printer import ket_text
+from ..base.document import Field, Kets, Note, Report
+from ..language.printer import label_text
+from ..language.printer import text as language_text
 from ..states import KINDS, State
+from .registry import BINDERS
 
 if TYPE_CHECKING:
     from ..session import Session
@@ -102,7 +105,6 @@ def space(session: "Session", statement: str, start: int, line: int) -> Report:
     if len(set(names)) != len(names):
         raise _error("space: a part name is used twice", line, start, len(statement) - start, statement)
     limits.check_shape(tuple(dims), Span(line, start + 1, len(statement) - start), statement)
-    from ..session import Space
     session.space = Space(tuple(names), tuple(dims))
     listing = " ".join(f"{n}:{d}" for n, d in zip(names, dims))
     return Report(f"space {listing}")
@@ -116,10 +118,10 @@ def assign(session: "Session", name: str, statement: str, start: int, line: int)
     if name in session.params:
         raise _error(f"{name!r} is a declared parameter; choose another name for the value", line,
                      column, len(name), statement)
-    from .mixed import bound_value  # NAME = reduce ... / NAME = density ...: a density matrix
-    made = bound_value(session, name, statement, start, line)
-    if made is not None:
-        return made
+    word = re.match(r"\s*([A-Za-z_]+)\b", statement[start:])
+    binder = BINDERS.get(word.group(1)) if word else None  # NAME = reduce ...: a density matrix
+    if binder is not None:
+        return binder(session, name, statement, start, line)
     value = session.evaluate(statement[start:], start, line)
     if isinstance(value, KetValue):
         state = session.make_state(value, Span(line, start + 1, len(statement) - start))
@@ -152,7 +154,7 @@ def state_report(title: str, state: State, declared: Mapping[str, object] | None
 
 
 def ket_norm_text(norm2: sympy.Expr) -> str:
-    from ..render.ketprint import text
+    from ..language.printer import text
     return text(norm2)
 
 

@@ -19,7 +19,7 @@ from ..mixed import Density, Number, Piece
 from ..numeric.digits import digits_cell
 from ..numeric.values import exact_cell
 from ..states import Parameter, State
-from .registry import WITH_CLAUSE, CommandCall, command
+from .registry import BINDERS, WITH_CLAUSE, CommandCall, command
 
 MIXED_TOPIC = "mixed"
 
@@ -151,13 +151,11 @@ BINDING_WORDS = ("reduce", "density")
 FIRST = re.compile(r"\s*([A-Za-z_]+)\b")
 
 
-def bound_value(session, name: str, statement: str, start: int, line: int) -> Report | None:
-    """``NAME = reduce STATE PARTS`` or ``NAME = density EXPR``: bind a density matrix.
-    None when the right side is not one of these (an ordinary assignment)."""
+def bound_value(session, name: str, statement: str, start: int, line: int) -> Report:
+    """``NAME = reduce STATE PARTS`` or ``NAME = density EXPR``: bind a density matrix
+    (registered in BINDERS for those two words)."""
     from . import declarations
     word = FIRST.match(statement, start)
-    if word is None or word.group(1) not in BINDING_WORDS:
-        return None
     args_start = word.end()
     args = statement[args_start:]
     point = {}
@@ -171,6 +169,10 @@ def bound_value(session, name: str, statement: str, start: int, line: int) -> Re
         call, call.args, call.offset)
     session.bindings[name] = rho
     return density_report(f"{name} =", rho)
+
+
+for _word in BINDING_WORDS:
+    BINDERS[_word] = bound_value
 
 
 def _reduced_density(call: CommandCall) -> Density:

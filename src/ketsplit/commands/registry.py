@@ -15,12 +15,32 @@ import sympy
 
 from ..cuts import CUT_PATTERN, PARTS_PATTERN, Cut, parse_cut, parse_parts
 from ..language.build import KetValue, kind_of
-from ..language.errors import InputError, Span
-from ..render.report import Report
+from ..base.errors import InputError, Span
+from ..base.document import Report
 from ..states import State
 
 if TYPE_CHECKING:
     from ..session import Session
+
+
+# Words that make an assignment bind something other than an expression (``rho = reduce psi 1``):
+# word -> binder(session, name, statement, start, line) -> Report, registered by command modules.
+BINDERS: dict[str, Callable[..., Report]] = {}
+
+
+@dataclass(frozen=True)
+class Result:
+    """One statement's outcome: the statement as typed and its report.
+
+    Showing it (text, LaTeX, JSON) is the render layer's business: the
+    Session of the Python API and the shells hands out
+    :class:`ketsplit.render.results.ShownResult`, which adds those methods.
+    """
+
+    statement: str
+    kind: str
+    report: Report
+    line: int = 1
 
 
 @dataclass(frozen=True)
@@ -125,7 +145,7 @@ def check_point_ranges(call: CommandCall, state: State) -> None:
     for name, value in call.point.items():
         param = state.parameter(name)
         if param is not None and param.is_real and value.is_number and value.is_real is False:
-            from ..render.ketprint import text
+            from ..language.printer import text
             raise call.error(f"{name} is declared {param.kind}, but {name} = {text(value)} is not real")
         if param is None or param.range is None or not value.is_number:
             continue

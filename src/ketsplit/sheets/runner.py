@@ -22,7 +22,8 @@ from pathlib import Path
 
 import sympy
 
-from .. import __version__, limits
+from .. import limits
+from ..base.version import VERSION as __version__
 from ..arith import decide
 from ..language.build import KetValue
 from ..base.errors import InputError, Span

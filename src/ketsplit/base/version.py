@@ -1,0 +1,3 @@
+"""The version of ketsplit, recorded in every worksheet header."""
+
+VERSION = "0.1.0"
