@@ -9,11 +9,12 @@ math renderers; fact of the trade).
 from __future__ import annotations
 
 import functools
+import re
 
 import pytest
 
 from ketsplit.render.markdown import to_markdown
-from ketsplit.render.report import Field, Note, Report
+from ketsplit.base.document import Field, Note, Report
 from ketsplit.sheets.export import export
 from ketsplit.sheets.format import parse_sheet
 from ketsplit.sheets.runner import replay
@@ -43,14 +44,15 @@ def exported(to: str) -> str:
     return export(list(outcomes()), to, "two_qubits.kss")
 
 
-def test_latex_export_is_balanced_and_keeps_each_statement_as_a_comment():
+def test_latex_export_is_balanced_and_typesets_each_statement():
     latex = exported("tex")
     body = without_comments(latex)
     assert_balanced_latex(body)
+    typed = body.replace(r"\allowbreak{}", "")
     for statement in ("schmidt psi with t=pi/3", "reduce psi 1", "rank |0,10> + |1,2>"):
-        assert f"% > {statement}" in latex
-    # every result is a displayed equation: one equation* per statement at least
-    assert body.count(r"\begin{equation*}") >= 7
+        assert rf"\texttt{{> {statement}}}" in typed
+    # every value is math: the kets as kets, the results as inline display-style formulas
+    assert r"\lvert 00\rangle" in body and body.count(r"$\displaystyle") >= 5
     # Schmidt coefficients at t = pi/3 are cos(pi/3) = 1/2 and sin(pi/3) = sqrt(3)/2 (fact of the trade)
     assert r"\frac{\sqrt{3}}{2}" in body and r"\frac{1}{2}" in body
 
@@ -62,21 +64,30 @@ def test_latex_export_escapes_the_prose():
     assert r"escaped\_" in prose
 
 
-def test_markdown_export_has_valid_display_math():
-    markdown = exported("md")
+INLINE = re.compile(r"(?<![\\$])\$(?!\$)([^$\n]+?)(?<!\\)\$")
+
+
+def inline_math(markdown: str) -> tuple[str, list[str]]:
+    """The Markdown with each inline ``$...$`` replaced by a word, and the inline bodies."""
+    bodies = INLINE.findall(markdown)
+    return INLINE.sub("MATH", markdown), bodies
+
+
+def test_markdown_export_has_valid_inline_and_display_math():
+    markdown, inline = inline_math(exported("md"))
     bodies = markdown_displays(markdown)
-    assert len(bodies) >= 7
-    for body in bodies:
+    assert len(bodies) + len(inline) >= 7 and inline
+    for body in bodies + inline:
         assert_balanced_latex(body)
     assert "```\nschmidt psi with t=pi/3\n```" in markdown
     assert "**error:** no part named '3'" in markdown
 
 
-def test_markdown_of_a_report_escapes_text_and_shows_values_as_displays():
+def test_markdown_of_a_report_escapes_text_and_shows_values_as_math():
     report = Report("rho_A of psi_1 * 2", (Field("value_1", 3), Note("a $5 note")), ("x_y",))
     markdown = to_markdown(report)
     assert markdown.startswith(r"**rho\_A of psi\_1 \* 2**")
-    assert markdown_displays(markdown) == ["3"]
+    assert "*value\\_1:* $3$" in markdown
     assert r"a \$5 note" in markdown and r"x\_y" in markdown
 
 

@@ -17,6 +17,7 @@ from .base.version import VERSION as __version__
 from .api import (check, conversion_probability, convertible, figures, ket, lu_equivalent,
                   measures, rank, reduced, renyi, schmidt, strata)
 from .api import class_strata, entanglement_class, monogamy, three_tangle
+from .api import plot, sweep
 from .api import (concurrence, density, negativity, operator_schmidt, partial_transpose,
                   separability, to_schmidt_basis)
 from .checking import Verdict
@@ -29,7 +30,7 @@ from .states import Parameter, State
 from .strata import Stratum
 from .symmetric import SymmetricState, dicke
 
-__all__ = ["density", "partial_transpose", "negativity", "concurrence", "separability",
+__all__ = ["plot", "sweep", "density", "partial_transpose", "negativity", "concurrence", "separability",
            "operator_schmidt", "to_schmidt_basis", "ket", "schmidt", "rank", "reduced", "State", "Parameter", "Cut", "parse_cut",
            "Decomposition", "Session", "Settings", "Result", "InputError", "LimitError",
            "figures", "measures", "renyi", "lu_equivalent", "convertible", "conversion_probability",

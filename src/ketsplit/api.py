@@ -8,6 +8,8 @@ every one takes the route the shell takes (:func:`ketsplit.decomposition.decompo
 from __future__ import annotations
 
 import functools
+import itertools
+import math
 from typing import Callable, Iterable, Mapping, TypeVar
 
 import sympy
@@ -24,6 +26,10 @@ from . import mixed as _mixed
 from . import classes as _classes
 from .language.build import KetValue
 from .base.errors import InputError
+from .display import FigureValues
+from .language.coerce import as_expr
+from . import plots as _plots
+from . import sweep as _sweep
 from .numeric.point import at_point
 from . import session as _session
 from .render.results import ShownResult, shown
@@ -59,20 +65,71 @@ def _names(names: str | Iterable[str]) -> list[str]:
 
 
 @bounded
-def ket(text: str, *, real: str | Iterable[str] = (), positive: str | Iterable[str] = (),
+def ket(source, *, real: str | Iterable[str] = (), positive: str | Iterable[str] = (),
         complex: str | Iterable[str] = (), integer: str | Iterable[str] = (),
         ranges: Mapping[str, tuple] | None = None, dims: Iterable[int] | None = None) -> State:
-    """A State from Dirac notation; undeclared names are complex parameters.
+    """A State from Dirac notation, or from amplitudes: a sympy Matrix, a numpy array or a
+    nested list, in label order (|00>, |01>, |10>, ... for ``dims=(2, 2)``).
 
-    ``ranges={"t": (0, "pi")}`` gives a real parameter its closed range (bounds
-    are numbers or state-language text); ``dims=(2, 3)`` fixes local dimensions.
+    In text, undeclared names are complex parameters; ``ranges={"t": (0, "pi")}``
+    gives a real parameter its closed range (bounds are numbers or state-language
+    text); ``dims=(2, 3)`` fixes local dimensions.  Amplitudes keep sympy
+    values as they are; a float is taken as the binary number it holds, and a
+    state with float amplitudes is decomposed in certified numbers (its exact
+    radicals would have 60-digit integers), shown as certified decimals.
     """
+    if not isinstance(source, str):
+        return state_from_amplitudes(source, dims)
     session = session_for(real=real, positive=positive, complex=complex, integer=integer,
                           ranges=ranges, dims=dims)
-    value = session.evaluate(text)
+    value = session.evaluate(source)
     if not isinstance(value, KetValue):
         raise InputError("expected a state (a ket expression), found a number or matrix")
     return session.make_state(value)
+
+
+FROM_FLOATS = "from floats"   # key in a State's cache: its amplitudes were given as floats
+
+
+def state_from_amplitudes(values, dims: Iterable[int] | None) -> State:
+    """The state whose amplitudes, in label order, are ``values`` (a vector in any shape)."""
+    import numpy
+    if isinstance(values, sympy.MatrixBase):
+        flat = list(values)
+    else:
+        array = numpy.asarray(values, dtype=object)
+        if array.dtype == object and any(isinstance(v, (str, bytes)) for v in array.flat):
+            raise InputError("ket: amplitudes are numbers or sympy values; text goes in as a "
+                             "whole, as ket('|00> + |11>')")
+        flat = list(array.reshape(-1))
+    try:
+        amplitudes = [as_expr(v.item() if hasattr(v, "item") and not isinstance(v, sympy.Basic) else v)
+                      for v in flat]
+    except ValueError as err:
+        raise InputError(f"ket: {err}; amplitudes are numbers or sympy values") from None
+    dims = _vector_dims(len(amplitudes), dims)
+    labels = itertools.product(*(range(d) for d in dims))
+    state = State(dims, {label: a for label, a in zip(labels, amplitudes) if a != 0})
+    if not state.amplitudes:
+        raise InputError("ket: every amplitude is zero; that is not a state")
+    if any(isinstance(v, float) or getattr(getattr(v, "dtype", None), "kind", "") in "fc"
+           for v in flat if not isinstance(v, sympy.Basic)):
+        state._cache[FROM_FLOATS] = True
+    return state
+
+
+def _vector_dims(length: int, dims: Iterable[int] | None) -> tuple[int, ...]:
+    if dims is None:
+        qubits = length.bit_length() - 1
+        if length < 4 or length != 2 ** qubits:
+            raise InputError(f"ket: {length} amplitudes; say how they split into parts, "
+                             f"as in dims=(2, 3)")
+        return (2,) * qubits
+    dims = tuple(int(d) for d in dims)
+    if any(d < 2 for d in dims) or len(dims) < 2 or math.prod(dims) != length:
+        raise InputError(f"ket: dims={dims} do not hold {length} amplitudes (at least two parts, "
+                         f"each of dimension 2 or more, whose product is {length})")
+    return dims
 
 
 def session_for(*, real=(), positive=(), complex=(), integer=(), ranges=None, dims=None) -> Session:
@@ -113,6 +170,8 @@ def schmidt(state: State, cut: str | cuts.Cut | None = None, *, method: str = "a
     """
     if at:
         state = at_point(state, at)
+    if method == "auto" and state._cache.get(FROM_FLOATS):
+        method = "certified"
     return decomposition.decompose(state, cut, method, digits)
 
 
@@ -122,16 +181,69 @@ def rank(state: State, cut: str | cuts.Cut | None = None, *, at: Mapping | None 
     return schmidt(state, cut, at=at).rank
 
 
+class ReducedState(sympy.ImmutableDenseMatrix):
+    """A reduced density matrix whose parameters are reached by name:
+    ``rho.at(t=0)``, ``rho.subs("t", 0)`` (a name means the matrix's own symbol, whatever its
+    assumptions), ``rho.parameter("t")``."""
+
+    def parameter(self, name: str) -> sympy.Symbol:
+        found = next((s for s in self.free_symbols if s.name == name), None)
+        if found is None:
+            has = ", ".join(sorted(s.name for s in self.free_symbols)) or "no parameters"
+            raise InputError(f"the matrix has no parameter named {name!r} (it has {has})")
+        return found
+
+    def at(self, **values) -> "ReducedState":
+        return self.subs({self.parameter(name): as_expr(v) for name, v in values.items()})
+
+    def subs(self, *args, **kwargs):
+        if len(args) == 2:
+            args = ({args[0]: args[1]},)
+        if len(args) == 1 and isinstance(args[0], Mapping):
+            args = ({self.parameter(k) if isinstance(k, str) else k: v for k, v in args[0].items()},)
+        elif len(args) == 1:
+            args = ([(self.parameter(k) if isinstance(k, str) else k, v) for k, v in args[0]],)
+        return super().subs(*args, **kwargs)
+
+
 @bounded
-def reduced(state: State, keep: str | Iterable[int]) -> sympy.Matrix:
+def reduced(state: State, keep: str | Iterable[int]) -> ReducedState:
     """The exact reduced density matrix on ``keep`` ("1", "13", "A,C", or 0-based indices)."""
     if not isinstance(keep, str):
         keep = tuple(keep)
-    return cuts.reduced(state, keep)
+    return ReducedState(cuts.reduced(state, keep))
+
+
+@bounded
+def figures(state: State, cut: str | cuts.Cut | None = None, unit: str = "bits") -> FigureValues:
+    """Every entanglement figure by name (see :func:`ketsplit.figures.figures`); a notebook
+    shows them as a table."""
+    return FigureValues(_figures.figures(state, cut, unit))
+
+
+@bounded
+def sweep(figure, state: State, cut: str | cuts.Cut | None = None, **options) -> _sweep.Sweep:
+    """``figure`` at every point of numpy arrays of the parameters (see :func:`ketsplit.sweep.sweep`):
+    ``ketsplit.sweep("entropy", psi, "1|2", t=numpy.linspace(0, numpy.pi, 10001)).values``."""
+    return _sweep.sweep(figure, state, cut, **options)
+
+
+@bounded
+def plot(figures: str | Iterable, *states: State, cut: str | None = None, over: str,
+         unit: str = "bits") -> _plots.Chart:
+    """A chart of one or more figures of one or more states across the declared range of
+    ``over``; a notebook shows it inline; ``ketsplit.plots.write_chart(chart, "f.pdf")`` writes it."""
+    figures = [figures] if isinstance(figures, str) else list(figures)
+    families = [_plots.Family(f"state {k + 1}", s, cuts.parse_cut(cut, s)) for k, s in enumerate(states)]
+    param = states[0].parameter(over)
+    if param is None or param.range is None or not param.is_real:
+        raise InputError(f"plot: {over} must be a real parameter of the state with a declared range")
+    what = ", ".join(_plots.figure_label(f, unit) for f in figures)
+    chart, _ = _plots.family_chart(what, figures, families, param.symbol, param.range, unit)
+    return chart
 
 
 # The engine's other entry points, each under the same time limit.
-figures = bounded(_figures.figures)
 measures = figures
 renyi = bounded(_figures.renyi)
 lu_equivalent = bounded(_compare.lu_equivalent)

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import html
 import re
+import unicodedata
 from typing import Iterable, Sequence
 
 import sympy
@@ -22,10 +23,18 @@ import sympy
 from .coerce import as_expr
 
 KET = re.compile(r"\|([0-9A-Za-z,+\-]+)>")
-TEXT_SPECIAL = re.compile(r"[\\_{}#$%&^~<>|]")
+UNICODE_MATH = {"≈": r"\approx", "≤": r"\leq", "≥": r"\geq", "≠": r"\neq", "⊗": r"\otimes",
+                "±": r"\pm", "·": r"\cdot", "×": r"\times", "→": r"\to", "←": r"\leftarrow",
+                "⟨": r"\langle", "⟩": r"\rangle", "√": r"\surd", "∞": r"\infty", "…": r"\dots",
+                "ψ": r"\psi", "φ": r"\phi", "ρ": r"\rho", "σ": r"\sigma", "λ": r"\lambda",
+                "θ": r"\theta", "α": r"\alpha", "β": r"\beta", "γ": r"\gamma", "τ": r"\tau",
+                "π": r"\pi", "χ": r"\chi", "ω": r"\omega", "Δ": r"\Delta", "–": "-", "—": "-",
+                **{chr(0x2070 + k) if k not in (1, 2, 3) else "¹²³"[k - 1]: f"^{{{k}}}" for k in range(10)},
+                **{chr(0x2080 + k): f"_{{{k}}}" for k in range(10)}}
+TEXT_SPECIAL = re.compile("[\\\\_{}#$%&^~<>|" + "".join(UNICODE_MATH) + "]")
 MATH_FOR_TEXT = {"\\": r"\backslash", "_": r"\_", "{": r"\{", "}": r"\}", "#": r"\#",
                  "$": r"\$", "%": r"\%", "&": r"\&", "^": r"\hat{}", "~": r"\sim",
-                 "<": "<", ">": ">", "|": r"\vert"}
+                 "<": "<", ">": ">", "|": r"\vert", **UNICODE_MATH}
 
 
 class Typeset(str):
@@ -103,12 +112,26 @@ def schmidt_latex(pieces: Iterable[tuple[object, Sequence, Sequence]]) -> str:
     return " + ".join(out) or "0"
 
 
+def ascii_text(text: str) -> str:
+    """Letters with accents as their base letters and any other character outside ASCII
+    (that UNICODE_MATH does not write as math) by its code point: pdflatex's default input
+    reads ASCII only."""
+    out = []
+    for ch in text:
+        if ord(ch) < 128 or ch in UNICODE_MATH:
+            out.append(ch)
+            continue
+        base = unicodedata.normalize("NFKD", ch).encode("ascii", "ignore").decode()
+        out.append(base or f"[U+{ord(ch):04X}]")
+    return "".join(out)
+
+
 def text_latex(text: str) -> str:
     """Plain words as math-mode LaTeX that pdflatex and MathJax read alike: words in
     ``\\text{}``, kets as kets and special characters in math (MathJax shows a ``\\_``
     inside ``\\text`` literally)."""
     out = []
-    for k, piece in enumerate(KET.split(text)):
+    for k, piece in enumerate(KET.split(ascii_text(text))):
         if k % 2:
             out.append(ket_latex(piece))
             continue

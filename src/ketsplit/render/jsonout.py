@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from .latex import cell_latex
-from .report import Digits, Field, Note, Plot, Report, Table
+from ..base.document import Digits, Field, Note, Plot, Report, Table
 from .text import cell_text
 
 

@@ -17,15 +17,17 @@ import sympy
 
 from ..base.document import Digits, Field, Kets, Note, Plot, Report, Table
 from ..language.coerce import as_expr
-from ..language.latexprint import KET, Typeset, expr_latex, ket_latex, kets_latex, text_latex
+from ..language.latexprint import (KET, UNICODE_MATH, Typeset, ascii_text, expr_latex, ket_latex, kets_latex,
+                                   text_latex)
 from ..language.printer import text as language_text
 
 LINE_CHARACTERS = 58     # a line of an article's text block, in characters of linear text
 TEXT_SPECIAL = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#",
                 "_": r"\_", "{": r"\{", "}": r"\}", "^": r"\textasciicircum{}",
                 "~": r"\textasciitilde{}", "<": r"\textless{}", ">": r"\textgreater{}",
-                "|": r"\textbar{}"}
+                "|": r"\textbar{}", **{ch: f"${math}$" for ch, math in UNICODE_MATH.items()}}
 TT_SPECIAL = {**TEXT_SPECIAL, "<": "<", ">": ">", "|": "|"}  # typewriter fonts have these glyphs
+GREEK = ("rho", "sigma", "lambda", "psi", "phi")
 BREAK_AFTER = re.compile(r"([,;=+])(?=\S)")
 
 
@@ -51,7 +53,7 @@ def cell_latex(cell) -> str:
 
 def escape(text: str, special: dict[str, str] = TEXT_SPECIAL) -> str:
     """Plain text for a LaTeX paragraph; kets such as |01> are typeset as kets."""
-    pieces = KET.split(text)
+    pieces = KET.split(ascii_text(text))
     out = []
     for k, piece in enumerate(pieces):
         if k % 2:
@@ -63,7 +65,7 @@ def escape(text: str, special: dict[str, str] = TEXT_SPECIAL) -> str:
 
 def typewriter(text: str) -> str:
     """Program text in ``\\texttt``, breakable after commas, operators and '='."""
-    body = "".join(TT_SPECIAL.get(ch, ch) for ch in text)
+    body = "".join(TT_SPECIAL.get(ch, ch) for ch in ascii_text(text))
     return r"\texttt{" + BREAK_AFTER.sub(r"\1\\allowbreak{}", body) + "}"
 
 
@@ -117,13 +119,21 @@ def _table_paper(table: Table) -> str:
     return "\\begin{itemize}\n" + "\n".join(rows) + "\n\\end{itemize}"
 
 
+def label_text(label: str) -> str:
+    """A field label in running text: ``rho_1`` as the math it names, other words as words."""
+    stem, underscore, sub = label.partition("_")
+    if underscore and stem in GREEK and sub.isalnum():
+        return f"$\\{stem}_{{{sub}}}$"
+    return escape(label)
+
+
 def to_latex(report: Report) -> str:
     """A LaTeX fragment for a paper: the title in bold, each field as a labelled
     paragraph, tables as arrays (or a list of rows), notes as text."""
     out = [r"\textbf{" + escape(report.title) + r"}\par"] if report.title else []
     for item in report.items:
         if isinstance(item, Field):
-            out.append(r"\emph{" + escape(item.label) + ":} " + _inline(item.value) + r"\par")
+            out.append(r"\emph{" + label_text(item.label) + ":} " + _inline(item.value) + r"\par")
         elif isinstance(item, Table):
             out.append(_table_paper(item))
         elif isinstance(item, Note):

@@ -1,23 +1,30 @@
-"""Reports as Markdown: text as paragraphs, every value as a ``$$`` display.
+"""Reports as Markdown with standard math: ``$...$`` inline, ``$$...$$`` displays.
 
-Each display is ``$$`` on a line of its own, the LaTeX body, ``$$`` again,
-with no blank line inside (a blank line ends a display in most renderers).
-The LaTeX comes from :mod:`.latex`, so the two exports never disagree.
+A short value stands inline after its label; a long one, a matrix or a table
+is a display: ``$$`` on a line of its own, the LaTeX body, ``$$`` again, with
+no blank line inside (a blank line ends a display in most renderers).  Kets in
+words are written as math too.  The LaTeX comes from :mod:`.latex`, so the
+two exports never disagree.
 """
 
 from __future__ import annotations
 
 import re
 
-from .latex import cell_latex, table_latex
+import sympy
+
 from ..base.document import Field, Note, Plot, Report, Table
+from ..language.latexprint import KET, ket_latex
+from .latex import LINE_CHARACTERS, cell_latex, table_latex, width
 
 SPECIAL = re.compile(r"([\\`*_{}\[\]<>#|$~])")
 
 
 def escape(text: str) -> str:
-    """Markdown text with its active characters made literal."""
-    return SPECIAL.sub(r"\\\1", text)
+    """Markdown text with its active characters made literal and kets as inline math."""
+    pieces = KET.split(text)
+    return "".join(f"${ket_latex(piece)}$" if k % 2 else SPECIAL.sub(r"\\\1", piece)
+                   for k, piece in enumerate(pieces))
 
 
 def display(latex: str) -> str:
@@ -25,9 +32,18 @@ def display(latex: str) -> str:
     return f"$$\n{body}\n$$"
 
 
+def field_markdown(field: Field) -> str:
+    label = f"*{escape(field.label)}:*"
+    if isinstance(field.value, str) and not hasattr(field.value, "latex"):
+        return f"{label} {escape(field.value)}"
+    if isinstance(field.value, sympy.MatrixBase) or width(field.value) > LINE_CHARACTERS:
+        return f"{label}\n\n" + display(cell_latex(field.value))
+    return f"{label} ${cell_latex(field.value)}$"
+
+
 def item_markdown(item) -> str:
     if isinstance(item, Field):
-        return f"{escape(item.label)}:\n\n" + display(cell_latex(item.value))
+        return field_markdown(item)
     if isinstance(item, Table):
         return display(table_latex(item))
     if isinstance(item, Note):

@@ -55,7 +55,7 @@ def blocks(outcomes: list[Outcome], prose: Callable[[str], str], statement: Call
 def to_tex(outcomes: list[Outcome], name: str) -> str:
     head = [f"% ketsplit worksheet {name}, exported as a LaTeX fragment",
             "% needs \\usepackage{amsmath}"]
-    body = blocks(outcomes, prose=lambda text: latex_escape(text) + "\\par\n",
+    body = blocks(outcomes, prose=lambda text: "\\medskip\n" + latex_escape(text) + "\\par\n",
                   statement=lambda text: "\\medskip{\\raggedright\\noindent " + typewriter("> " + text) + "\\par}",
                   result=to_latex,
                   failure=lambda message: "\\emph{error:} " + latex_escape(message) + "\\par")
