@@ -251,3 +251,28 @@ def test_rank_statement_proves_a_numeric_rank_when_the_exact_path_is_off():
     assert "rank: 2" in out and "certified numbers" in out
     hidden = session.run("rank |00> + (cos(1)^2 + sin(1)^2 - 1)|11>")[0].text()
     assert "undecided at this precision" in hidden
+
+
+def test_eigenvectors_with_entries_of_equal_size_refine():
+    # B B^H = [[27, 4 - 20i], [4 + 20i, 27]]: equal diagonal, so each eigenvector has two entries of
+    # equal size (a pivot tie that once turned the columns by a large angle and never certified);
+    # reference library: mpmath.svd_c at 60 digits
+    i = sympy.I
+    amplitudes = {(0, 0): i, (0, 1): 5 - i, (1, 0): 1 + 3 * i, (1, 1): 1 + 4 * i}
+    result = certified_schmidt(ketsplit.State((2, 2), amplitudes), "1|2", 20)
+    reference = reference_coefficients([[1j, 5 - 1j], [1 + 3j, 1 + 4j]], 60)
+    assert result.rank == 2 and result.complete
+    assert all(agrees(t, r, 20) for t, r in zip(result.texts(), reference))
+
+
+def test_small_coefficients_below_huge_entries_get_all_their_digits():
+    # entries near 10^12 beside entries near 1: two coefficients near 10^-12, apart from each other;
+    # a Rayleigh-Ritz turn repeated at every step once stalled their refinement at float accuracy
+    # (8 and 5 digits); reference library: mpmath.svd_c at 60 digits
+    matrix = [[5 - 5j, -3j, 4 + 2j], [2 + 5j, -4 + 4j, -2j], [-3 * 10 ** 12 - 3j, 1, -4 * 10 ** 12 + 3j]]
+    amplitudes = {(r, c): sympy.Integer(int(z.real)) + sympy.I * int(z.imag)
+                  for r, row in enumerate(matrix) for c, z in enumerate(map(complex, row))}
+    result = certified_schmidt(ketsplit.State((3, 3), amplitudes), "1|2", 20)
+    reference = reference_coefficients(matrix, 60)
+    assert result.rank == 3 and result.complete
+    assert all(agrees(t, r, 20) for t, r in zip(result.texts(), reference))

@@ -184,23 +184,23 @@ def eigen(a: IntMatrix, eta: arb, bits: int, goal: int, vectors: bool = True) ->
     af = a.floats(shift)  # A0 2^-shift: entries below 2^60, whatever the size of A0
     scale = float(numpy.max(numpy.abs(af))) or 1.0
     _, xf = numpy.linalg.eigh(af / scale)
-    xf = fix_phases(xf)
+    xf, pivots = fix_phases(xf)
     p, x = START_BITS, from_floats(xf, START_BITS)
     target, last, found = bits + GUARD_BITS, None, None
     for _ in range(MAX_STEPS):
         y, g = a * x, x.adjoint() * x
         if p >= target:
-            found, residual = certify(a, eta, x, xf, p, y, g)
+            found, residual = certify(a, eta, x, pivots, p, y, g)
             stalled = last is not None and residual is not None and residual > last / 16
             if residual is not None and (reaches(found, goal, vectors) or stalled):
                 return found
             last = residual if residual is not None else last
-        xf, correction, accuracy, gap_bits = refine(xf, x, x.adjoint() * y, g, p, scale, shift)
+        xf, pivots, correction, accuracy, gap_bits = refine(xf, pivots, x, x.adjoint() * y, g, p, scale, shift)
         target = max(target, bits + GUARD_BITS + max(0, gap_bits - GAP_FREE_BITS))
         new_p = max(p, min(target, 2 * accuracy + GUARD_BITS))
         x = x.shifted(new_p - p) + correction(new_p)
         p = new_p
-    found = found if found is not None else certify(a, eta, x, xf, p, a * x, x.adjoint() * x)[0]
+    found = found if found is not None else certify(a, eta, x, pivots, p, a * x, x.adjoint() * x)[0]
     if found is None:
         raise ArithmeticError("the eigenvector estimates are too far from orthonormal to certify")
     return found
@@ -217,19 +217,26 @@ def reaches(found: Eigen, goal: int, vectors: bool) -> bool:
 
 
 def fix_phases(x):
-    """Columns rotated so that their largest entry is real positive (float)."""
+    """Columns rotated so that their largest entry is real positive (float), and those entries.
+
+    The pivots stay fixed through the refinement (a Rayleigh-Ritz turn picks
+    new ones for its columns): the phase correction is a small turn only
+    while the pivot entry stays near the real axis.  Picking the largest
+    entry again at every step flips between entries of equal size (a column
+    such as (1, i)/sqrt(2)) and turns the column by a large angle.
+    """
     import numpy
     pivots = numpy.argmax(numpy.abs(x), axis=0)
     top = x[pivots, numpy.arange(x.shape[1])]
-    return x * (numpy.abs(top) / top)[None, :]
+    return x * (numpy.abs(top) / top)[None, :], pivots
 
 
-def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float, shift: int):
+def refine(xf, pivots, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float, shift: int):
     """One Ogita-Aishima step from the exact S = X^H A0 X and G = X^H X (scale 2^-2p).
 
     Floats are in units of 2^shift scale (A0 / (2^shift scale) has entries of size <= 1).
 
-    Returns the new float X, a function giving round(X E 2^bits) exactly as
+    Returns the new float X, the pivot of each column, a function giving round(X E 2^bits) exactly as
     an integer matrix, the estimated number of correct bits after the step,
     and the bits to add for the smallest resolved eigenvalue gap.
     """
@@ -239,8 +246,7 @@ def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float, s
     rf = _floats(r, 2 * p) - 1j * _floats(g.im, 2 * p)
     diag_s = [int(s.re[k, k]) for k in range(n)]
     diag_g = [int(g.re[k, k]) for k in range(n)]
-    lam = numpy.array([math.ldexp(float(((ds << 60) // dg) >> shift), -60) for ds, dg in zip(diag_s, diag_g)])
-    lam = lam / scale
+    lam = numpy.array([ds / (dg << shift) for ds, dg in zip(diag_s, diag_g)]) / scale  # correctly rounded
     sf = IntMatrix(s.re - diagonal(diag_s), s.im).floats(2 * p + shift) / scale   # off-diagonal part only
     off = sf - numpy.diag(lam * numpy.diag(rf).real)                     # S - diag(lambda)
     size = float(numpy.linalg.norm(numpy.diag(lam))) or 1.0
@@ -250,14 +256,19 @@ def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float, s
     numpy.fill_diagonal(apart, False)
     e = numpy.where(apart, (sf + lam[None, :] * rf) / numpy.where(apart, gaps, 1.0), rf / 2)
     error = max(float(numpy.linalg.norm(rf)), float(numpy.linalg.norm(off)) / size, 2.0 ** -1000)
-    turn = ritz(xf, s, g, p, lam * scale, apart, error ** 2 * size * scale, shift)
-    for members, _ in turn:
-        e[numpy.ix_(members, members)] = 0
+    noise = error ** 2 * size
+    turn, settled = ritz(xf, s, g, p, lam, apart, noise * scale, shift, scale)
+    pivots = pivots.copy()
     w = numpy.zeros_like(e)
-    for members, v in turn:
+    for members, v, turned in turn:
+        e[numpy.ix_(members, members)] = 0
         w[numpy.ix_(members, members)] = v - numpy.eye(len(members))
+        pivots[members] = turned
+    for members in settled:
+        inner = numpy.ix_(members, members)
+        e[inner] = local_correction(sf[inner], rf[inner], lam[members], noise)
     xe = xf @ e
-    xe = xe + untilt(xf, xe + xf @ w, x, p)
+    xe = xe + untilt(xf, xe + xf @ w, x, p, pivots)
     resolved = numpy.abs(gaps[apart])
     gap = float(resolved.min()) / size if resolved.size else 1.0
     gap_bits = min(GAP_BITS_MAX, max(0, int(-math.log2(gap)))) if gap > 2.0 ** -GAP_BITS_MAX else 0
@@ -265,7 +276,7 @@ def refine(xf, x: IntMatrix, s: IntMatrix, g: IntMatrix, p: int, scale: float, s
     def correction(bits: int) -> IntMatrix:
         found = from_floats(xe, bits)
         return found + rotated(x, w, p, bits) if turn else found
-    return xf + xe + xf @ w, correction, int(-math.log2(error)), gap_bits
+    return xf + xe + xf @ w, pivots, correction, int(-math.log2(error)), gap_bits
 
 
 ROTATION_BITS = 52
@@ -282,8 +293,34 @@ def rotated(x: IntMatrix, w, p: int, bits: int) -> IntMatrix:
     return IntMatrix(shift(product.re), shift(product.im))
 
 
-def ritz(xf, s: IntMatrix, g: IntMatrix, p: int, lam, apart, noise: float, shift: int) -> list:
-    """Rayleigh-Ritz rotations (members, V) of the clusters whose spread stands out of the noise.
+def local_correction(sf, rf, lam, noise: float):
+    """The Ogita-Aishima correction inside one cluster whose block of S is already nearly diagonal.
+
+    The cluster's own gaps and residuals replace the whole matrix's (plus
+    the noise that the rest of the matrix leaves in the block), so that
+    eigenvalues far below ||A|| but well apart among themselves (a cluster
+    of tiny ones) are still separated, one quadratic step at a time.
+    """
+    import numpy
+    off = sf - numpy.diag(lam * numpy.diag(rf).real)
+    top = float(numpy.max(numpy.abs(lam)))
+    delta = 2 * (numpy.linalg.norm(off) + top * numpy.linalg.norm(rf)) + noise
+    gaps = lam[None, :] - lam[:, None]
+    apart = numpy.abs(gaps) > delta
+    numpy.fill_diagonal(apart, False)
+    return numpy.where(apart, (sf + lam[None, :] * rf) / numpy.where(apart, gaps, 1.0), rf / 2)
+
+
+NEAR_IDENTITY = 2.0 ** -20  # a Ritz turn this small is left to the cluster's own correction
+
+
+def ritz(xf, s: IntMatrix, g: IntMatrix, p: int, lam, apart, noise: float, shift: int, scale: float
+         ) -> tuple[list, list]:
+    """Rayleigh-Ritz rotations (members, V, new pivots) of the clusters whose spread stands out of the noise.
+
+    Also returns the clusters whose block is already nearly diagonal: a turn
+    by a float V again would put back float rounding (2^-52) into every step
+    and the refinement would stall there; these get :func:`local_correction`.
 
     A cluster is a run of eigenvalue estimates that the correction cannot
     tell apart; inside it the refinement only orthonormalises.  Its block
@@ -295,35 +332,42 @@ def ritz(xf, s: IntMatrix, g: IntMatrix, p: int, lam, apart, noise: float, shift
     """
     import numpy
     order = numpy.argsort(lam)
-    turns, start = [], 0
+    turns, settled, start = [], [], 0
     for k in range(1, len(lam) + 1):
         if k < len(lam) and not apart[order[k - 1], order[k]]:
             continue
         members, start = [int(v) for v in order[start:k]], k
         if len(members) < 2:
             continue
-        mu = round(float(numpy.mean(lam[members])) * 2 ** 60)
-        block = numpy.array([[_shifted_entry(s, g, i, j, mu, p, shift) for j in members] for i in members])
+        mu_bits = 2 * p + 60
+        mu = sum((int(s.re[k, k]) << mu_bits) // (int(g.re[k, k]) << shift) for k in members) // len(members)
+        block = numpy.array([[_shifted_entry(s, g, i, j, mu, mu_bits, p, shift) for j in members]
+                             for i in members])
         spread = numpy.linalg.norm(block - numpy.trace(block) / len(members) * numpy.eye(len(members)))
         if spread <= 2 ** 10 * noise:
             continue
         _, v = numpy.linalg.eigh(block)
+        if numpy.max(numpy.abs(v - numpy.diag(numpy.diag(v)))) < NEAR_IDENTITY:
+            settled.append(members)
+            continue
         columns = xf[:, members] @ v
         pivots = numpy.argmax(numpy.abs(columns), axis=0)
         top = columns[pivots, numpy.arange(len(members))]
-        turns.append((members, v * (numpy.abs(top) / top)[None, :]))
-    return turns
+        turns.append((members, v * (numpy.abs(top) / top)[None, :], pivots))
+    return turns, settled
 
 
-def _shifted_entry(s: IntMatrix, g: IntMatrix, i: int, j: int, mu: int, p: int, shift: int) -> complex:
-    """(S 2^-shift - mu 2^-60 G)[i, j] as a float (S, G at scale 2^-2p), exact before the rounding."""
-    re = (int(s.re[i, j]) << 60) - (mu * int(g.re[i, j]) << shift)
-    im = (int(s.im[i, j]) << 60) - (mu * int(g.im[i, j]) << shift)
-    return complex(re / 2 ** (2 * p + 60 + shift), im / 2 ** (2 * p + 60 + shift))
+def _shifted_entry(s: IntMatrix, g: IntMatrix, i: int, j: int, mu: int, mu_bits: int, p: int,
+                   shift: int) -> complex:
+    """(S 2^-shift - mu 2^-mu_bits G)[i, j] as a float (S, G at scale 2^-2p), exact before the rounding."""
+    re = (int(s.re[i, j]) << mu_bits) - (mu * int(g.re[i, j]) << shift)
+    im = (int(s.im[i, j]) << mu_bits) - (mu * int(g.im[i, j]) << shift)
+    unit = 1 << (2 * p + mu_bits + shift)
+    return complex(re / unit, im / unit)
 
 
-def untilt(xf, xe, x: IntMatrix, p: int):
-    """The extra correction that turns each new column so that its largest entry becomes real.
+def untilt(xf, xe, x: IntMatrix, p: int, pivots):
+    """The extra correction that turns each new column so that its pivot entry becomes real.
 
     The turn by -theta is taken to first order (x -> x - i theta x), theta
     being the new pivot's argument; the error is of second order and the
@@ -331,7 +375,6 @@ def untilt(xf, xe, x: IntMatrix, p: int):
     """
     import numpy
     n = xf.shape[1]
-    pivots = numpy.argmax(numpy.abs(xf + xe), axis=0)
     imag = numpy.array([int(x.im[int(j), k]) / 2 ** p for k, j in enumerate(pivots)])
     columns = numpy.arange(n)
     new = xf[pivots, columns] + xe[pivots, columns]
@@ -340,11 +383,11 @@ def untilt(xf, xe, x: IntMatrix, p: int):
 
 
 # -- certification ----------------------------------------------------------------
-def certify(a: IntMatrix, eta: arb, x: IntMatrix, xf, p: int, y: IntMatrix, g: IntMatrix
+def certify(a: IntMatrix, eta: arb, x: IntMatrix, pivots, p: int, y: IntMatrix, g: IntMatrix
             ) -> tuple[Eigen | None, float | None]:
     """The enclosures from exact Y = A0 X (scale 2^-p) and G = X^H X (scale 2^-2p).
 
-    ``xf`` is a float copy of X, used only to pick each column's pivot.
+    ``pivots`` are the entries made real positive (one per column).
 
     Also returns the larger of ||G - I|| and the residual of A0 relative to
     ||A0|| (a float, to steer the refinement); (None, None) when X is too
@@ -374,7 +417,7 @@ def certify(a: IntMatrix, eta: arb, x: IntMatrix, xf, p: int, y: IntMatrix, g: I
     order = sorted(range(n), key=lambda k: d[k])
     centers = [arb(d[k]) / arb(2) ** p for k in order]
     clusters = _clusters(centers, f)
-    pivots = [int(k) for k in numpy.argmax(numpy.abs(xf), axis=0)]  # a largest entry (float copy)
+    pivots = [int(k) for k in pivots]
     errors: list[arb] = [arb(0)] * n
     angles = []
     for cluster in clusters:
