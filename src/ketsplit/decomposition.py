@@ -13,11 +13,11 @@ rebuild the state before returning.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field, fields, replace
 
 import mpmath
 import sympy
-from flint import ctx
+from flint import ctx, fmpz_poly
 
 from .cuts import Cut, parse_cut, side_label
 from .exact.order import order_pieces, scaled
@@ -107,6 +107,28 @@ class Decomposition:
         from .numeric.schmidt import certified_values
         return certified_values(self.state, self.cut, digits, at)
 
+    # -- a value: equal by content, picklable (flint balls are kept as the certified value) --
+    DERIVED = ("coefficients", "left", "right")  # on the certified route: read off ``certified``
+
+    def _stored(self) -> dict:
+        """The fields that define the value; flint objects as plain integers."""
+        values = {f.name: getattr(self, f.name) for f in fields(self)}
+        values["factors"] = tuple(tuple(int(c) for c in f.coeffs()) for f in self.factors)
+        if self.certified is not None:
+            for name in self.DERIVED:
+                del values[name]
+        return values
+
+    def __eq__(self, other: object) -> bool:
+        if not isinstance(other, Decomposition):
+            return NotImplemented
+        return self is other or self._stored() == other._stored()
+
+    __hash__ = None  # type: ignore[assignment]  # holds lists and matrices: not hashable
+
+    def __reduce__(self):
+        return (rebuild_decomposition, (self._stored(),))
+
     def __repr__(self) -> str:
         from .language.printer import text
         if self.certified is not None:
@@ -118,6 +140,19 @@ class Decomposition:
     def _repr_latex_(self) -> str:
         from .display import decomposition_latex
         return decomposition_latex(self)
+
+
+def rebuild_decomposition(values: dict) -> Decomposition:
+    """The unpickler of a Decomposition: flint polynomials and, on the certified route, the
+    balls and vectors read again from the certified value (as :func:`certified_decomposition`)."""
+    values = dict(values, factors=tuple(fmpz_poly(list(c)) for c in values["factors"]))
+    found = values["certified"]
+    if found is not None:
+        vectors = found.with_vectors
+        values.update(coefficients=list(found.coefficients),
+                      left=[t.left for t in found.terms] if vectors else [],
+                      right=[t.right for t in found.terms] if vectors else [])
+    return Decomposition(**values)
 
 
 def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:

@@ -8,7 +8,7 @@ support costs.  Parameters carry their assumptions and declared ranges.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, fields
 from types import MappingProxyType
 from typing import Iterable, Mapping
 
@@ -123,6 +123,10 @@ class State:
     def parameter(self, name: str) -> Parameter | None:
         return next((p for p in self.params if p.name == name), None)
 
+    def at(self, **values) -> "State":
+        """The state at a point given by parameter names: ``psi.at(t=0)`` (no symbols needed)."""
+        return self.subs(values)
+
     def part_index(self, name: str) -> int | None:
         """0-based index of a part given by its name or 1-based number."""
         if name in self.names:
@@ -193,6 +197,42 @@ class State:
         """What the name stands for inside an expression: its amplitudes as a ket value."""
         return KetValue(dict(self.amplitudes), self.nparts, self.dims)
 
+    # -- a value: equal by content, hashable, picklable -----------------
+    def _value_key(self) -> tuple:
+        """What two equal states share: the class and every compared field, amplitudes as a set.
+
+        A lazy amplitude view (a SymmetricState's Dicke labels) is derived from
+        the other fields, so it is left out rather than listed.
+        """
+        key: list = [type(self)]
+        for f in fields(self):
+            if not f.compare:
+                continue
+            value = getattr(self, f.name)
+            if f.name == "amplitudes":
+                if not isinstance(value, MappingProxyType):
+                    continue
+                value = frozenset(value.items())
+            key.append(value)
+        return tuple(key)
+
+    def __eq__(self, other: object) -> bool:
+        if not isinstance(other, State):
+            return NotImplemented
+        return self is other or self._value_key() == other._value_key()
+
+    def __hash__(self) -> int:
+        if "hash" not in self._cache:
+            self._cache["hash"] = hash(self._value_key())
+        return self._cache["hash"]
+
+    def __reduce__(self):
+        """Rebuilt from its fields (the cache is not kept; sympy symbols keep their assumptions)."""
+        values = {f.name: getattr(self, f.name) for f in fields(self) if f.compare}
+        if isinstance(values.get("amplitudes"), MappingProxyType):
+            values["amplitudes"] = dict(values["amplitudes"])
+        return (rebuild_value, (type(self), values))
+
     def __repr__(self) -> str:
         from .language.printer import ket_text
         return f"State({ket_text(self)}; dims={self.dims})"
@@ -200,6 +240,11 @@ class State:
     def _repr_latex_(self) -> str:
         from .language.latexprint import state_display
         return state_display(self)
+
+
+def rebuild_value(cls: type, values: dict):
+    """The unpickler of values stored by their fields (``__reduce__``)."""
+    return cls(**values)
 
 
 def abs_squared(value: sympy.Expr) -> sympy.Expr:

@@ -51,6 +51,12 @@ class Verdict:
         head = f" at {point}" if point else ""
         return f"{head}: {self.quantity}{at} = {difference} ({digits})"
 
+    def __hash__(self) -> int:
+        """By value, as ``==``; the counterexample dict is hashed as its items."""
+        point = frozenset(self.counterexample.items()) if self.counterexample else None
+        return hash((self.holds, self.method, self.reason, self.domain, point, self.digits,
+                     self.quantity, self.hint))
+
     def __str__(self) -> str:
         return self.line()
 

@@ -2,13 +2,37 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 
 import sympy
 
 
+def frozen(value):
+    """A hashable stand-in for nested lists and dicts (points are dicts, point lists lists)."""
+    if isinstance(value, dict):
+        return frozenset((k, frozen(v)) for k, v in value.items())
+    if isinstance(value, (list, tuple)):
+        return tuple(frozen(v) for v in value)
+    return value
+
+
+class ByValue:
+    """Equality and hash of a frozen dataclass by its fields, lists and dicts included."""
+
+    def __eq__(self, other: object) -> bool:
+        if type(other) is not type(self):
+            return NotImplemented
+        return self._fields() == other._fields()
+
+    def __hash__(self) -> int:
+        return hash(frozen(self._fields()))
+
+    def _fields(self) -> tuple:
+        return tuple(getattr(self, f.name) for f in fields(self))
+
+
 @dataclass(frozen=True, eq=False)
-class Stratum:
+class Stratum(ByValue):
     """Where the Schmidt rank of a family takes one value.
 
     ``equations`` are expressions in the parameters whose common zeros inside
@@ -34,7 +58,7 @@ class Stratum:
 
 
 @dataclass(frozen=True, eq=False)
-class Undecided:
+class Undecided(ByValue):
     """A locus where the rank is at most ``rank`` that was neither sampled nor proved empty.
 
     It is not a stratum: ``reason`` says what was tried, ``hint`` how to decide it.
@@ -60,6 +84,22 @@ class Strata(list):
         super().__init__(items)
         self.notes = tuple(notes)
         self.undecided = tuple(undecided)
+
+    def __eq__(self, other: object) -> bool:
+        if not isinstance(other, Strata):
+            return NotImplemented
+        return (list(self) == list(other) and self.notes == other.notes
+                and self.undecided == other.undecided)
+
+    __hash__ = None  # type: ignore[assignment]  # a list
+
+    def __reduce__(self):
+        return (Strata, (list(self), self.notes, self.undecided))
+
+    def __repr__(self) -> str:
+        more = "".join(f", {name}={value!r}" for name, value in
+                       (("notes", self.notes), ("undecided", self.undecided)) if value)
+        return f"Strata({list.__repr__(self)}{more})"
 
     def _repr_latex_(self) -> str:
         from ..display import strata_latex
