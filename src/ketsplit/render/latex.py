@@ -89,7 +89,7 @@ def table_latex(table: Table) -> str:
     spec = "l" * len(table.headers)
     head = " & ".join(text_latex(h) for h in table.headers)
     rows = [" & ".join(cell_latex(c) for c in row) for row in table.rows]
-    body = " \\\\\n".join([head + r" \\ \hline"] + rows)
+    body = head + " \\\\ \\hline\n" + " \\\\\n".join(rows)
     return f"\\begin{{array}}{{{spec}}}\n{body}\n\\end{{array}}"
 
 
@@ -156,5 +156,5 @@ def to_display_latex(report: Report) -> str:
         elif isinstance(item, Note):
             rows.append(text_latex(item.text))
     rows.extend(text_latex("note: " + n) for n in report.notes)
-    body = " \\\\\n".join("&" + row for row in rows)
+    body = " \\\\\n".join("&" + row for row in rows).replace(r"\allowbreak", "")  # a paper's hint only
     return "\\begin{aligned}\n" + body + "\n\\end{aligned}"
