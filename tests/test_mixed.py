@@ -332,3 +332,19 @@ def test_two_parameters_ppt_over_the_whole_box():
     wide = [Parameter("p", "real", (0, sympy.Rational(1, 2))), params[1]]
     with pytest.raises(InputError, match="fix all parameters but one"):
         mixed.separability(mixed.density(matrix, params=wide), CUT)
+
+
+def test_certified_concurrence_against_numpy():
+    # reference: Wootters' formula evaluated with numpy.linalg.eigvals; entries in
+    # QQ(sqrt 2, i sqrt 3) send the spectrum of rho (sy x sy) rho* (sy x sy) to certified balls
+    rng = random.Random(11)
+    a = sympy.Matrix(4, 4, lambda i, j: rng.randint(-3, 3) + rng.randint(-2, 2) * sympy.sqrt(2)
+                     + rng.randint(-1, 1) * sympy.sqrt(3) * sympy.I)
+    bell = sympy.Matrix([[1, 0, 0, 1], [0, 0, 0, 0], [0, 0, 0, 0], [1, 0, 0, 1]])
+    m = a * a.H / (a * a.H).trace() + 3 * bell / 2
+    (piece,) = mixed.concurrence(mixed.density(m / m.trace()))
+    assert isinstance(piece.value, arb) and piece.value > 0
+    rho = numpy_matrix(m / m.trace())
+    yy = np.array(mixed.SIGMA_YY.tolist(), dtype=float)
+    roots = np.sort(np.sqrt(np.abs(np.linalg.eigvals(rho @ yy @ rho.conj() @ yy).real)))[::-1]
+    assert abs(float(piece.value.mid()) - (roots[0] - roots[1:].sum())) < 1e-10

@@ -26,7 +26,7 @@ decides separability on 2x2 and 2x3 only; beyond, answers say PPT.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from functools import reduce
+from functools import cmp_to_key, reduce
 from math import prod
 from typing import Callable, Sequence, Union
 
@@ -455,9 +455,12 @@ def concurrence(rho: Density, digits: int = 30) -> tuple[Piece, ...]:
     tilde = rho.matrix * SIGMA_YY * rho.matrix.conjugate() * SIGMA_YY
     found = spectrum(tilde, digits)
     if not found.exact:
-        roots = sorted((_root_ball(v) for v in found.balls(digits)), key=lambda b: float(b.mid()), reverse=True)
-        value = roots[0] - roots[1] - roots[2] - roots[3]
-        return (Piece(arb(0) if value < 0 else value),)
+        roots = [_root_ball(v) for v in found.balls(digits)]
+        largest = reduce(lambda a, b: a.max(b), roots)
+        value = 2 * largest - sum(roots, arb(0))  # s1 - s2 - s3 - s4, s1 the largest
+        if value < 0:
+            return (Piece(sympy.Integer(0)),)  # proved: the ball lies below zero
+        return (Piece(value if value > 0 else arb(0).union(value.upper())),)
     return over_range(rho, [v for v, m in found.values for _ in range(m)], _wootters)
 
 
@@ -516,7 +519,7 @@ def over_range(rho: Density, values: list[sympy.Expr],
     done: list[Piece] = []
     for _ in range(MAX_SPLITS * 8):
         if not pending:
-            return _merged(sorted(done, key=lambda p: float(sympy.N(p.lo))), symbol)
+            return _merged(sorted(done, key=cmp_to_key(_by_start)), symbol)
         lo, hi = pending.pop()
         try:
             done.append(Piece(rule(values, {symbol: (lo, hi)}), symbol, lo, hi))
@@ -528,6 +531,14 @@ def over_range(rho: Density, values: list[sympy.Expr],
             ends = [lo, *zeros, hi]
             pending.extend(zip(ends, ends[1:]))
     raise InputError(f"the range of {symbol} splits into too many pieces")
+
+
+def _by_start(a: Piece, b: Piece) -> int:
+    """Pieces are closed intervals meeting only at their ends: exact starts, ordered exactly."""
+    found = compare(a.lo, b.lo)
+    if found.value is None:
+        raise InputError(f"cannot order the points {a.lo} and {b.lo}: {found.proof}")
+    return found.value
 
 
 def _merged(pieces: list[Piece], symbol: sympy.Symbol) -> tuple[Piece, ...]:
