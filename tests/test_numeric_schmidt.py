@@ -276,3 +276,30 @@ def test_small_coefficients_below_huge_entries_get_all_their_digits():
     reference = reference_coefficients(matrix, 60)
     assert result.rank == 3 and result.complete
     assert all(agrees(t, r, 20) for t, r in zip(result.texts(), reference))
+
+
+@pytest.mark.parametrize("power", [30, 100])
+def test_coefficient_with_an_astronomical_exponent_prints_its_digits(power):
+    # exp(-exp(100)) is about 10^(-1.17e43): its digits come from the ball's decimal conversion, not
+    # from exact fractions of its binary expansion (which never finished, or ran out of memory);
+    # reference library: mpmath at 120 digits (exponents of any size)
+    with mpmath.workdps(120):
+        expected = mpmath.nstr(mpmath.exp(-mpmath.exp(power)), 30, strip_zeros=False)
+    out = Session().run(f"schmidt |00> + exp(-exp({power}))|11>")[0].text()
+    assert expected in out.replace("\n", "").replace(" ", "")
+    certified = certified_schmidt(ketsplit.ket(f"|00> + exp(-exp({power}))|11>"), None, 30)
+    assert certified.rank == 2 and certified.texts()[1] == expected
+
+
+def test_tiny_entry_beside_others_is_bounded_not_crashed():
+    # [[1, 1], [0, exp(-exp(30))]]: the small coefficient is about exp(-exp(30))/2 (det / |C|^2, fact
+    # of the trade), far below any working precision; exp(-exp(30)) has no exact zero test here, so
+    # the rank is honestly undecided and the bound printed holds it
+    result = certified_schmidt(ketsplit.ket("|00> + |01> + exp(-exp(30))|11>"), None, 30)
+    assert result.rank_bounds == (1, 2)
+    assert result.texts()[0] == "1.00000000000000000000000000000"
+    bound = result.undecided[0]
+    with mpmath.workdps(60):
+        small = mpmath.exp(-mpmath.exp(30)) / 2
+        upper = bound.upper().mid_rad_10exp(10)
+        assert small <= mpmath.mpf(int(upper[0]) + int(upper[1])) * mpmath.mpf(10) ** int(upper[2])

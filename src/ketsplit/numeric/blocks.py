@@ -148,7 +148,8 @@ class Block:
         """An enclosure of sum |b_ij|^2 (the block's share of the squared norm)."""
         total = arb(0)
         for value in self.entries.values():
-            total += abs(ball(value)) ** 2
+            size = abs(ball(value))
+            total += size * size  # not ** 2: flint's power of a ball near 2^(-10^40) is nan
         return total
 
     def spectrum(self, ball: Encloser, goal: int, vectors: bool = True) -> Spectrum:
@@ -157,10 +158,11 @@ class Block:
         gram = fixed.ints * fixed.ints.adjoint()
         with ctx.workprec(ball.bits):
             size = arb(sum(int(gram.re[k, k]) for k in range(gram.shape[0]))).sqrt()  # ||Bint||_F
-            eta = 2 * size * fixed.eta + fixed.eta ** 2
+            eta = (2 * size + fixed.eta) * fixed.eta
+            scale2 = fixed.scale * fixed.scale
             found = single(gram, eta) if self.side == 1 else eigen(gram, eta, ball.bits, goal, vectors)
-            squares = tuple(nonnegative(v) * fixed.scale ** 2 for v in found.values)
-            weight = size ** 2 * fixed.scale ** 2 if fixed.eta == 0 else self.weight(ball)
+            squares = tuple(nonnegative(v) * scale2 for v in found.values)
+            weight = size * size * scale2 if fixed.eta == 0 else self.weight(ball)
         return Spectrum(squares, weight, found, fixed, *self.vector_rows(), ball.bits, self.flipped)
 
     def fixed(self, ball: Encloser) -> Fixed:
@@ -209,8 +211,8 @@ class Block:
                 r, c = self._place(i, j)
                 re[r][c], dr = round_part(z.real, q)
                 im[r][c], di = round_part(z.imag, q)
-                error += dr ** 2 + di ** 2
-        return Fixed(IntMatrix(fmpz_mat(re), fmpz_mat(im)), arb(2) ** -q, error.sqrt().upper())
+                error += dr * dr + di * di
+        return Fixed(IntMatrix(fmpz_mat(re), fmpz_mat(im)), arb((1, -q)), error.sqrt().upper())
 
     def vector_rows(self) -> tuple[tuple[int, ...], tuple[int, ...]]:
         """Global indices of the smaller side, then of the larger side."""
@@ -308,10 +310,12 @@ def round_part(x: arb, q: int) -> tuple[int, arb]:
     shift = exponent + q
     if shift >= 0:
         value, rest = mantissa << shift, arb(0)
+    elif -shift > abs(mantissa).bit_length() + 1:  # below half a unit (the shift may be astronomical)
+        value, rest = 0, abs(arb((mantissa, shift)))
     else:
         value = (mantissa + (1 << (-shift - 1))) >> -shift
-        rest = abs(arb(mantissa) * arb(2) ** shift - value)
-    return value, rest + x.rad() * arb(2) ** q
+        rest = abs(arb((mantissa, shift)) - value)
+    return value, rest + x.rad() * arb((1, q))  # arb((m, e)) is m 2^e exactly, whatever the size of e
 
 
 def nonnegative(value: arb) -> arb:

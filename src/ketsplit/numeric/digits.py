@@ -7,8 +7,13 @@ rounding cell (D - u/2, D + u/2), u being one unit in D's last place.  Then D
 is the correctly rounded value of x, whatever x is inside the ball.  An exact
 ball (r = 0) is rounded half to even.
 
-The test runs on the exact binary endpoints m - r and m + r as fractions, so
-no floating-point step can make a digit look certain when it is not.
+The test runs on a decimal enclosure [M - R, M + R] 10^e of the ball from
+arb's own conversion (``mid_rad_10exp``: M, R, e integers, the larger of M
+and R with a few more digits than asked), in exact integer arithmetic, so no
+floating-point step can make a digit look certain when it is not, and the
+cost grows with the digits asked, never with the size of the exponent (a
+coefficient near 10^(-10^43) is printed as fast as one near 1).  The
+decimal enclosure contains the ball, so a digit certain for it is certain.
 """
 
 from __future__ import annotations
@@ -18,9 +23,10 @@ from fractions import Fraction
 
 from flint import arb
 
-from ..render.report import Digits
+from ..base.document import Digits
 
 SCIENTIFIC_BELOW, SCIENTIFIC_FROM = -5, 7  # decimal exponents printed without e-notation
+GUARD_DIGITS = 5  # digits of the decimal enclosure beyond those asked for
 
 
 @dataclass(frozen=True)
@@ -55,7 +61,7 @@ def exact_fraction(x: arb) -> Fraction:
 
 
 def endpoints(ball: arb) -> tuple[Fraction, Fraction]:
-    """The exact lower and upper ends of the ball."""
+    """The exact lower and upper ends of the ball (exponentially costly for a huge exponent)."""
     mid, rad = exact_fraction(ball.mid()), exact_fraction(ball.rad())
     return mid - rad, mid + rad
 
@@ -100,27 +106,35 @@ def round_at(lo: Fraction, hi: Fraction, significant: int) -> Rounded | None:
     return Rounded(negative, text, exponent)
 
 
+def decimal_enclosure(ball: arb, digits: int) -> tuple[int, int, int]:
+    """(lo, hi, e): integers with the ball inside [lo, hi] 10^e, about ``digits`` digits long."""
+    mid, rad, exponent = ball.mid_rad_10exp(digits + GUARD_DIGITS)
+    return int(mid) - int(rad), int(mid) + int(rad), int(exponent)
+
+
 def certain_decimal(ball: arb, digits: int) -> Rounded | None:
     """The longest certain decimal with at most ``digits`` significant digits, or None."""
-    if not ball.is_finite():
+    if not ball.is_finite() or ball.contains(0):
         return None
-    lo, hi = endpoints(ball)
+    lo, hi, exponent = decimal_enclosure(ball, digits)
     for significant in range(digits, 0, -1):
-        found = round_at(lo, hi, significant)
-        if found is not None:
-            return found
+        found = round_at(Fraction(lo), Fraction(hi), significant)
+        if found is not None:  # rounding commutes with the power of ten
+            return Rounded(found.negative, found.digits, found.exponent + exponent)
     return None
 
 
 def zero_bound_text(ball: arb) -> str:
     """'|x| < 3e-85' for a ball that contains zero: an upper bound, rounded up."""
-    _, hi = endpoints(abs(ball)) if ball.is_finite() else (None, None)
-    if hi is None:
+    if not ball.is_finite():
         return "not enclosed (the enclosure is not finite)"
-    if hi == 0:
+    upper = abs(ball).upper()
+    if upper.is_zero():
         return "0"
-    exponent = decimal_exponent(hi)
-    lead = -(-hi // Fraction(10) ** exponent)  # ceiling of the leading digit
+    _, top, exponent = decimal_enclosure(upper, 1)
+    length = len(str(top))
+    lead = -(-top // 10 ** (length - 1))  # ceiling of the leading digit
+    exponent += length - 1
     if lead == 10:
         lead, exponent = 1, exponent + 1
     return f"|x| < {lead}e{exponent}"

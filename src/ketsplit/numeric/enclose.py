@@ -36,7 +36,7 @@ def _float(value: sympy.Float) -> acb:
     sign, mantissa, exponent, _ = value._mpf_
     if mantissa == 0:
         return acb(0)
-    ball = arb(int(mantissa)) * arb(2) ** int(exponent)  # an exact binary number
+    ball = arb((int(mantissa), int(exponent)))  # an exact binary number
     return acb(-ball if sign else ball)
 
 
