@@ -55,8 +55,8 @@ def test_json_carries_the_certified_digits_of_numeric_results(capsys):
     # the reference digits come from mpmath
     with mpmath.workdps(50):
         expected = [mpmath.nstr(2 / mpmath.sqrt(5), 25), mpmath.nstr(1 / mpmath.sqrt(5), 25)]
-    assert [c["digits"] for c in cells] == [25, 25]
-    assert [c["value"] for c in cells] == expected
+    assert [c["value"]["certain"] for c in cells] == [25, 25]
+    assert [c["value"]["digits"] for c in cells] == expected
 
 
 def test_an_error_names_line_and_column_and_exits_2_without_a_traceback(capsys):

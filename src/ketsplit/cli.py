@@ -15,6 +15,7 @@ from pathlib import Path
 from typing import Iterable, Iterator
 
 from .base.version import VERSION as __version__
+from .render.jsonout import SCHEMA
 from .render.results import shown
 from .base.errors import InputError, Span
 from .base.document import Field
@@ -190,7 +191,7 @@ def run_file(sheet: Sheet, args) -> int:
 
 def report_error(err: InputError, source: str, as_json: bool) -> None:
     if as_json:
-        print(json.dumps({"statement": source.strip(), "kind": "error", "line": err.line,
+        print(json.dumps({"schema": SCHEMA, "statement": source.strip(), "kind": "error", "line": err.line,
                           "column": err.column, "message": err.message}, ensure_ascii=False))
     else:
         where = f"line {err.line}, column {err.column}: " if err.span else ""

@@ -11,7 +11,7 @@ Cells of a Field or Table are sympy objects (expressions, matrices), a
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Union
 
 import sympy
@@ -33,13 +33,62 @@ class Digits:
     exact: sympy.Expr | None = None  # the exact value it approximates, when known
 
 
-Cell = Union[sympy.Basic, sympy.MatrixBase, Kets, Digits, str, int]
+class Truth(str):
+    """A verdict cell: its display text (a str everywhere), and for scripts whether it holds
+    (True, False, or None: undecided), by which method, the proof or reason, and the hint."""
+
+    holds: bool | None
+    method: str
+    proof: str
+    hint: str
+
+    def __new__(cls, text: str, holds: bool | None, method: str = "", proof: str = "",
+                hint: str = "") -> "Truth":
+        made = super().__new__(cls, text)
+        made.holds, made.method, made.proof, made.hint = holds, method, proof, hint
+        return made
+
+    def __reduce__(self):
+        return (Truth, (str(self), self.holds, self.method, self.proof, self.hint))
+
+
+class Point(str):
+    """A point cell (``t = pi/4, s = 0``): its display text, and the coordinates
+    (name, exact value) for scripts."""
+
+    coordinates: tuple[tuple[str, sympy.Expr], ...]
+
+    def __new__(cls, text: str, coordinates) -> "Point":
+        made = super().__new__(cls, text)
+        made.coordinates = tuple((str(k), v) for k, v in dict(coordinates).items())
+        return made
+
+    def __reduce__(self):
+        return (Point, (str(self), dict(self.coordinates)))
+
+
+Cell = Union[sympy.Basic, sympy.MatrixBase, Kets, Digits, Truth, Point, str, int]
+
+WORDS_OF_SIGNS = (("->", " to "), ("<=", " at most "), (">=", " at least "), ("+", " plus "))
+
+
+def machine_name(label: str) -> str:
+    """The stable snake_case key of a display label (``schmidt form`` -> ``schmidt_form``,
+    ``A -> B by LOCC`` -> ``a_to_b_by_locc``): what scripts read, whatever the label says."""
+    for sign, word in WORDS_OF_SIGNS:
+        label = label.replace(sign, word)
+    name = "".join(c if c.isalnum() else "_" for c in label.lower())
+    return "_".join(piece for piece in name.split("_") if piece) or "value"
 
 
 @dataclass(frozen=True)
 class Field:
     label: str
     value: Cell
+
+    @property
+    def name(self) -> str:
+        return machine_name(self.label)
 
 
 @dataclass(frozen=True)
@@ -65,12 +114,19 @@ Item = Union[Field, Table, Note, Plot]
 
 @dataclass(frozen=True)
 class Report:
+    """``value``: the computed value the report describes (a Decomposition, a Verdict, ...),
+    kept for callers that want the value itself; renderers read only the items."""
+
     title: str
     items: tuple[Item, ...] = ()
     notes: tuple[str, ...] = field(default=())
+    value: object = field(default=None, compare=False)
 
     def with_notes(self, *notes: str) -> "Report":
-        return Report(self.title, self.items, self.notes + tuple(n for n in notes if n))
+        return replace(self, notes=self.notes + tuple(n for n in notes if n))
 
     def with_items(self, *items: Item) -> "Report":
-        return Report(self.title, self.items + items, self.notes)
+        return replace(self, items=self.items + items)
+
+    def with_value(self, value: object) -> "Report":
+        return replace(self, value=value)

@@ -25,10 +25,10 @@ from ..checking.decide import Options, decide
 from ..checking.sides import parameters
 from ..checking.verdict import DIFFERENCE, WHERE, Verdict
 from ..language.build import KetValue, is_scalar
-from ..language.errors import InputError
+from ..base.errors import InputError
 from ..language.tokens import KET_CHARS
-from ..render.ketprint import text
-from ..render.report import Field, Report
+from ..language.printer import text
+from ..base.document import Field, Point, Report, Truth
 from ..states import State
 from ..symmetric import SymmetricKet
 from .declarations import split_top_level
@@ -239,14 +239,15 @@ def _claimed_list(call: CommandCall, text: str, offset: int) -> list[sympy.Expr]
 
 
 def verdict_report(verdict: Verdict) -> Report:
-    items = [Field("verdict", verdict.line()), Field("method", verdict.method)]
+    line = Truth(verdict.line(), verdict.holds, verdict.method, verdict.reason, verdict.hint)
+    items = [Field("verdict", line), Field("method", verdict.method)]
     if verdict.counterexample:
         point = {k: v for k, v in verdict.counterexample.items() if k not in (DIFFERENCE, WHERE)}
         if point:
-            items.append(Field("counterexample", ", ".join(f"{k} = {text(v)}"
-                                                         for k, v in point.items())))
+            items.append(Field("counterexample", Point(", ".join(f"{k} = {text(v)}"
+                                                               for k, v in point.items()), point)))
         items.append(Field(verdict.quantity, verdict.counterexample[DIFFERENCE]))
     items.append(Field("reason", verdict.reason))
     if verdict.hint:
         items.append(Field("to decide", verdict.hint))
-    return Report("check", tuple(items))
+    return Report("check", tuple(items), value=verdict)

@@ -10,7 +10,7 @@ from .. import decomposition
 from ..cuts import Cut
 from ..decomposition import Decomposition
 from ..states import State
-from ..render.report import Field, Kets, Note, Report, Table
+from ..base.document import Field, Kets, Note, Report, Table
 from dataclasses import replace
 
 from ..exact.schmidt import nonzero_entries
@@ -18,7 +18,7 @@ from ..numeric.enclose import enclose
 from ..numeric.digits import certain_count
 from ..numeric.schmidt import MAX_DOUBLINGS, start_bits
 from ..numeric.values import exact_cell
-from ..render.ketprint import text as language_text
+from ..language.printer import text as language_text
 from .numeric import certified_report, complex_text
 from .registry import COMMANDS, CommandCall, command
 from .topics import TOPICS, more_topics, topic_report
@@ -57,7 +57,8 @@ def decomposition_report(d: Decomposition, name: str, digits: int | None = None)
     else:
         items.append(Field("schmidt form", d.schmidt_form()))
     method = "exact" if d.exact else "certified numeric"
-    return Report(f"Schmidt decomposition of {name} across {cut_text} ({method})", tuple(items), notes)
+    return Report(f"Schmidt decomposition of {name} across {cut_text} ({method})", tuple(items), notes,
+                  value=d)
 
 
 def _constants(d: Decomposition) -> list[sympy.Expr]:
@@ -93,7 +94,7 @@ def _certified_entry(value: sympy.Expr, digits: int) -> str:
 
 def descending_text(polynomial: sympy.Expr) -> str:
     """A polynomial in x written from its highest power down, in our syntax."""
-    from ..render.ketprint import terms_text
+    from ..language.printer import terms_text
     x = sympy.Symbol("x")
     terms = sympy.Poly(polynomial, x).terms()
     return terms_text((c, "" if not k else "x" if k == 1 else f"x^{k}") for (k,), c in terms).rstrip()
@@ -138,10 +139,12 @@ def run_rank(call: CommandCall) -> Report:
     state, cut, found = decompose(call, vectors=False)
     if found.certified is not None:  # a rank proved by enclosures, or said to be undecided
         rank = found.rank if found.rank is not None else found.certified.rank_text()
-        return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", rank),), found.notes)
+        return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", rank),), found.notes,
+                      value=found.rank)
     note = () if not state.symbols or call.point else (
         "generic rank: it can drop at special parameter values (see 'strata')",)
-    return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", found.rank),), note)
+    return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", found.rank),), note,
+                  value=found.rank)
 
 
 @command("digits", "digits N", "set the number of certified digits shown for numeric values",

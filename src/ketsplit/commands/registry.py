@@ -30,7 +30,7 @@ BINDERS: dict[str, Callable[..., Report]] = {}
 
 @dataclass(frozen=True)
 class Result:
-    """One statement's outcome: the statement as typed and its report.
+    """One statement's outcome: the statement as typed, its report and its value.
 
     Showing it (text, LaTeX, JSON) is the render layer's business: the
     Session of the Python API and the shells hands out
@@ -41,6 +41,11 @@ class Result:
     kind: str
     report: Report
     line: int = 1
+    value: object = None   # the computed value (default: the one its report carries)
+
+    def __post_init__(self) -> None:
+        if self.value is None:
+            object.__setattr__(self, "value", self.report.value)
 
 
 @dataclass(frozen=True)

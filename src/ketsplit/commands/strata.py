@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import sympy
 
-from ..language.errors import InputError
-from ..render.ketprint import text
-from ..render.report import Note, Report, Table
+from ..base.errors import InputError
+from ..language.printer import text
+from ..base.document import Note, Point, Report, Table
 from ..numeric.values import exact_cell
 from ..strata import Stratum, strata
 from .registry import CommandCall, command
@@ -40,7 +40,7 @@ def run_strata(call: CommandCall) -> Report:
         items.append(Table(("rank <=", "on", "why undecided", "how to decide"),
                            tuple((u.rank, equations_text(u.equations), u.reason, u.hint)
                                  for u in found.undecided)))
-    return Report(title, tuple(items), tuple(notes))
+    return Report(title, tuple(items), tuple(notes), value=found)
 
 
 def equations_text(equations) -> str:
@@ -54,12 +54,12 @@ def where(stratum: Stratum, digits: int) -> str:
     return stratum.description.removeprefix(f"rank {stratum.rank} ")
 
 
-def point_cell(point: dict | None, digits: int) -> str:
+def point_cell(point: dict | None, digits: int) -> str | Point:
     if point is None:
         return "none found"
     if not point:
         return "(no parameters)"
-    return point_text(point, digits)
+    return Point(point_text(point, digits), {s.name: v for s, v in point.items()})
 
 
 def point_text(point: dict, digits: int) -> str:

@@ -26,8 +26,9 @@ class ShownResult(Result):
         return to_latex(self.report)
 
     def to_json(self) -> dict:
-        return {"statement": self.statement, "kind": self.kind, "line": self.line,
-                **to_data(self.report)}
+        data = to_data(self.report)
+        return {"schema": data.pop("schema"), "statement": self.statement, "kind": self.kind,
+                "line": self.line, **data}
 
     def __str__(self) -> str:
         return self.text()

@@ -1,0 +1,86 @@
+"""JSON for scripts (issue 12, item 3): schema 1 as the README's "JSON output" section says."""
+
+from __future__ import annotations
+
+import json
+import re
+from pathlib import Path
+
+import mpmath
+
+from ketsplit.base.document import machine_name
+from ketsplit.cli import main
+
+README = Path(__file__).resolve().parents[1] / "README.md"
+
+
+def objects(capsys, *argv: str) -> list[dict]:
+    main(list(argv))
+    return [json.loads(line) for line in capsys.readouterr().out.splitlines()]
+
+
+def readme_section() -> str:
+    text = README.read_text(encoding="utf-8")
+    start = text.index("## JSON output")
+    end = text.find("\n## ", start + 1)
+    return text[start:end if end > 0 else None]
+
+
+def test_readme_example_parses_and_its_rank_is_an_int(capsys):
+    blocks = re.findall(r"```json\n(.*?)```", readme_section(), re.S)
+    assert blocks, "the README's JSON section shows an example"
+    example = json.loads(blocks[0])
+    assert example["schema"] == 1
+    assert isinstance(example["fields"]["rank"]["value"], int)
+    # the example is what the program prints for its statement
+    assert objects(capsys, "-c", example["statement"], "--json") == [example]
+
+
+def test_rank_is_an_int_and_exact_numbers_carry_certified_digits(capsys):
+    [data] = objects(capsys, "-c", "schmidt (sqrt(3)|00> + |11>)/2", "--json")
+    assert data["schema"] == 1
+    fields = data["fields"]
+    assert fields["rank"]["value"] == 2 and isinstance(fields["rank"]["value"], int)
+    first, second = fields["coefficients"]["value"]
+    assert first["exact"] == "sqrt(3)/2" and second["exact"] == "1/2"
+    with mpmath.workdps(50):  # reference digits from mpmath
+        assert first["digits"] == mpmath.nstr(mpmath.sqrt(3) / 2, 30)
+    assert first["certain"] == 30
+    assert fields["schmidt_form"]["label"] == "schmidt form"
+
+
+def test_verdicts_are_true_false_or_null_with_method_and_proof(capsys):
+    holds, fails = objects(capsys, "-c", "real t\ncheck cos(t)^2 + sin(t)^2 = 1\ncheck cos(t)^2 = 1",
+                           "--json")[1:]
+    assert holds["fields"]["verdict"]["value"]["holds"] is True  # Pythagorean identity
+    assert holds["fields"]["verdict"]["value"]["method"]
+    assert holds["fields"]["verdict"]["value"]["proof"]
+    verdict = fails["fields"]["verdict"]["value"]
+    assert verdict["holds"] is False  # cos(t)^2 < 1 away from multiples of pi
+    point = fails["fields"]["counterexample"]["value"]
+    assert set(point) == {"t"} and "exact" in point["t"]
+
+
+def test_strata_points_are_objects(capsys):
+    # cos t|00> + sin t|11> on [0, pi/2]: rank 2 inside, rank 1 at both ends (fact of the trade)
+    data = objects(capsys, "-c", "real t in [0, pi/2]\nstrata cos(t)|00> + sin(t)|11>", "--json")[1]
+    table = data["tables"][0]
+    assert table["names"] == ["rank", "where", "sample_point"]
+    ranks = [row[0]["value"] for row in table["rows"]]
+    samples = [row[2]["value"] for row in table["rows"]]
+    assert ranks == [2, 1]
+    assert all(set(sample) == {"t"} for sample in samples)
+    assert samples[1]["t"] == 0  # the sample of the rank-1 stratum {0, pi/2}: its first point
+    assert samples[0]["t"]["exact"] == "pi/4"
+
+
+def test_an_error_object_has_the_schema_too(capsys):
+    _, error = objects(capsys, "-c", "psi = |00>\nschmdt psi", "--json")
+    assert error["schema"] == 1 and error["kind"] == "error"
+
+
+def test_machine_names_are_snake_case_and_stable():
+    assert machine_name("schmidt form") == "schmidt_form"
+    assert machine_name("A -> B by LOCC") == "a_to_b_by_locc"
+    assert machine_name("left vector (1)") == "left_vector_1"
+    assert machine_name("rank <=") == "rank_at_most"
