@@ -34,8 +34,12 @@ def assert_balanced_latex(latex: str) -> None:
     assert len(re.findall(r"\\left\b", latex)) == len(re.findall(r"\\right\b", latex))
 
 
+INLINE_MATH = re.compile(r"(?<![\\$])\$(?!\$)(.+?)(?<!\\)\$")
+
+
 def markdown_displays(markdown: str) -> list[str]:
-    """The bodies of the $$ displays; asserts that each is well formed."""
+    """The bodies of the $$ displays, then of the inline $...$ math; asserts that each display
+    is well formed and that no $ stands alone in the text."""
     lines = markdown.splitlines()
     fences = [k for k, line in enumerate(lines) if line.startswith("```")]
     assert len(fences) % 2 == 0, "unclosed code fence"
@@ -52,5 +56,7 @@ def markdown_displays(markdown: str) -> list[str]:
         bodies.append("\n".join(body))
     outside = [line for k, line in enumerate(lines) if k not in inside_code and k not in marks
                and not any(a < k < b for a, b in zip(marks[::2], marks[1::2]))]
-    assert all(re.search(r"(?<!\\)\$", line) is None for line in outside), "a stray $ in the text"
-    return bodies
+    inline = [body for line in outside for body in INLINE_MATH.findall(line)]
+    assert all(re.search(r"(?<!\\)\$", INLINE_MATH.sub("", line)) is None for line in outside), \
+        "a stray $ in the text"
+    return bodies + inline
