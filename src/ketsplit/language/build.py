@@ -31,7 +31,9 @@ from . import numbers
 from ..base.errors import InputError, Span
 from .grammar import RUN_TERM, parse_expression, run_terms
 from .numbers import Gaussian
-from .syntax import Binary, Call, KetLiteral, KetRun, MatrixLiteral, Name, Negate, Node, Number, Sum
+from .operatorbuild import OPERATOR_FUNCTIONS, OPERATOR_TYPES, OperatorBuilding, involves_operators
+from .operators import BraValue, LocalOperator, OperatorValue, scaled as operator_scaled, scaled_local
+from .syntax import Binary, BraLiteral, Call, KetLiteral, KetRun, MatrixLiteral, Name, Negate, Node, Number, Sum
 
 
 @dataclass
@@ -83,7 +85,7 @@ class Scope(Protocol):
 
 
 @dataclass
-class Builder:
+class Builder(OperatorBuilding):
     """Builds syntax trees into values against a scope.
 
     ``closed`` (a phrase such as "in the value of t") makes names that are not
@@ -100,14 +102,14 @@ class Builder:
         self.methods: dict[type, Callable[[Node], Value | Gaussian]] = {
             Number: self._Number, Name: self._Name, KetLiteral: self._KetLiteral,
             MatrixLiteral: self._MatrixLiteral, Negate: self._Negate, Binary: self._Binary,
-            Call: self._Call, Sum: self._Sum, KetRun: self._KetRun}
+            Call: self._Call, Sum: self._Sum, KetRun: self._KetRun, BraLiteral: self._BraLiteral}
 
     def fail(self, message: str, node: Node) -> None:
         raise InputError(message, node.span, self.source)
 
     def build(self, node: Node) -> Value:
-        """The value of ``node``, every number in it a sympy object."""
-        return finished(self.value(node))
+        """The value of ``node``, every number in it a sympy object (an operator as a matrix)."""
+        return self._operator_result(finished(self.value(node)), node)
 
     def value(self, node: Node) -> Value | Gaussian:
         return self.methods[type(node)](node)
@@ -150,12 +152,19 @@ class Builder:
         found = self.scope.lookup(name)
         if found is not None:
             return as_value(found)
+        if name == "id":
+            return self._identity(node)
+        if name in OPERATOR_FUNCTIONS:
+            self.fail(f"{name} is a function: write {name}(...)", node)
         if self.closed:
             self.fail(f"{name!r} is not a declared parameter or a bound name, so it cannot be "
                       f"part of {self.closed}", node)
         return self.scope.undeclared(name)
 
     def _KetLiteral(self, node: KetLiteral) -> KetValue:
+        named = self._named_ket(node)  # |psi> of a bound state
+        if named is not None:
+            return named
         labels = node.labels
         if len(labels) > self.limits.parts:
             self._limit(len(labels), "parts", f"a ket of {len(labels)} parts", node)
@@ -317,7 +326,7 @@ class Builder:
                 self.fail("division by zero", node)
             return scale(left, reciprocal(right))
         if node.op == "⊗" and not (isinstance(left, KetValue) and isinstance(right, KetValue)):
-            self.fail("⊗ joins two kets", node)
+            return self._operator_tensor(left, right, node)
         return self._multiply(left, right, node)
 
     def _add(self, left, right, node: Node, in_place: bool = False):
@@ -341,7 +350,7 @@ class Builder:
             if left.shape != right.shape:
                 self.fail(f"cannot add a {left.shape} matrix to a {right.shape} one", node)
             return left + right
-        self.fail(f"cannot add a {kind_of(left)} and a {kind_of(right)}", node)
+        return self._operator_sum(left, right, node)
         raise AssertionError
 
     def _multiply(self, left, right, node: Node):
@@ -349,6 +358,8 @@ class Builder:
             return scale(right, left)
         if is_scalar(right):
             return scale(left, right)
+        if involves_operators(left, right):
+            return self._operator_product(left, right, node)
         if isinstance(left, KetValue) and isinstance(right, KetValue):
             count = len(left.terms) * len(right.terms)
             self._limit(count, "terms", f"a product of {count} terms", node)
@@ -395,6 +406,8 @@ class Builder:
             return SCALAR_FUNCTIONS[name](argument)
         if name in KET_FUNCTIONS:
             return self._ket_function(node)
+        if name in OPERATOR_FUNCTIONS and self.scope.lookup(name) is None:
+            return self._operator_function(node)
         if name in self.bound or name in EXACT_CONSTANTS or self.scope.lookup(name) is not None:
             return self._implicit_product(node)
         known = ", ".join(sorted(list(SCALAR_FUNCTIONS) + list(KET_FUNCTIONS) + ["sum"]))
@@ -526,7 +539,7 @@ def number_digits(value: sympy.Expr) -> int:
 
 
 def is_scalar(value) -> bool:
-    return not isinstance(value, (KetValue, sympy.MatrixBase))
+    return not isinstance(value, (KetValue, sympy.MatrixBase) + OPERATOR_TYPES)
 
 
 def kind_of(value) -> str:
@@ -534,6 +547,8 @@ def kind_of(value) -> str:
         return "ket"
     if isinstance(value, sympy.MatrixBase):
         return "matrix"
+    if isinstance(value, OPERATOR_TYPES):
+        return {BraValue: "bra", OperatorValue: "operator", LocalOperator: "local operator"}[type(value)]
     return "number"
 
 
@@ -545,6 +560,10 @@ def scale(value, factor: Scalar):
         return value.scaled(to_sympy(factor))
     if isinstance(value, sympy.MatrixBase):
         return value * to_sympy(factor)
+    if isinstance(value, LocalOperator):
+        return scaled_local(value, to_sympy(factor))
+    if isinstance(value, (BraValue, OperatorValue)):
+        return operator_scaled(value, to_sympy(factor))
     return times(value, factor)
 
 

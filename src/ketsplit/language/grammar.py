@@ -4,7 +4,7 @@
     term   := unary (('*' | '/' | '⊗' | '·') unary | unary)*   juxtaposition multiplies
     unary  := ('-' | '+') unary | power
     power  := atom ('^' unary)?
-    atom   := NUMBER | KET | NAME | NAME '(' args ')' | '(' expr ')' | '[' rows ']'
+    atom   := NUMBER | KET | BRA | NAME | NAME '(' args ')' | '(' expr ')' | '[' rows ']'
             | '√' atom | 'sum' '(' NAME '=' expr '..' expr ',' expr ')'
 
 ``NAME '(' args ')'`` is a call when NAME is a function and a product when it
@@ -21,11 +21,11 @@ import re
 
 from .. import limits
 from ..base.errors import InputError, Span
-from .syntax import Binary, Call, KetLiteral, KetRun, MatrixLiteral, Name, Negate, Node, Number, Sum
+from .syntax import Binary, BraLiteral, Call, KetLiteral, KetRun, MatrixLiteral, Name, Negate, Node, Number, Sum
 from .tokens import DIGITS, OPERATORS, Lexer
 
 # first characters of a token that starts an atom ('.' only as in .5, never '..')
-_ATOM_START = frozenset("0123456789.|([√_ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz")
+_ATOM_START = frozenset("0123456789.|<([√_ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz")
 _ADD = frozenset("+-")
 _MULTIPLY = {"*": "*", "·": "*", "/": "/", "⊗": "⊗"}
 
@@ -177,6 +177,10 @@ class Parser:
         if first == "|":
             span = self.advance()
             return KetLiteral(span, ket_labels(text, span, self.source))
+        if first == "<":  # a bra <01|, or <0 right before the ket of <0|1>
+            span = self.advance()
+            inner = text[1:-1] if text.endswith("|") else text[1:]
+            return BraLiteral(span, ket_labels("|" + inner + ">", span, self.source))
         if first in DIGITS or first == "." and text != "..":
             return Number(self.advance(), text)
         if first == "(":

@@ -28,6 +28,11 @@ class KetLiteral(Node):
 
 
 @dataclass(frozen=True)
+class BraLiteral(Node):
+    labels: tuple[str, ...]  # as in a ket: <01| has ('0', '1')
+
+
+@dataclass(frozen=True)
 class Call(Node):
     function: str
     args: tuple[Node, ...]

@@ -26,6 +26,7 @@ class Kind(Enum):
     NUMBER = "number"
     NAME = "name"
     KET = "ket"
+    BRA = "bra"
     OP = "operator"
     END = "end of input"
 
@@ -51,6 +52,7 @@ DIGITS = frozenset("0123456789")
 # (whitespace before, token): every character of the line lands in one token
 TOKEN = re.compile(r"""([ \t\r\n]*)(
       \|[""" + KET_LABEL_CHARS + r"""]*>                       # a ket
+    | <[""" + KET_LABEL_CHARS + r"""]*(?:(?=\|[""" + KET_LABEL_CHARS + r"""]*>)|\|)  # a bra; <0 in <0|1>
     | [0-9]+(?:\.(?!\.)[0-9]*)?(?:[eE][+-]?[0-9]+)?            # a number: 12, 1.5, 2e-3
     | \.[0-9]+(?:[eE][+-]?[0-9]+)?                             # .5
     | [A-Za-z_][A-Za-z0-9_]*+(?![^\W\dπ])                       # an ASCII name
@@ -88,7 +90,7 @@ class Lexer:
         space, token = found.groups() if found else ("", "#")
         end = found.end() if found else len(self.text)
         start = end - len(token) if found else end
-        if token[0] not in PLAIN_START and (token[0] != "|" or len(token) == 1) or \
+        if token[0] not in PLAIN_START and (token[0] not in "|<" or len(token) == 1) or \
                 token in ("**", ".", "#") or not token.isascii():
             token = _resolve(token, start, self.text, self.line)
         if token == "#":
@@ -117,6 +119,8 @@ def kind_of_text(text: str) -> Kind:
         return Kind.END
     if text[0] == "|":
         return Kind.KET
+    if text[0] == "<":
+        return Kind.BRA
     if text[0] in DIGITS or (text[0] == "." and text != ".."):
         return Kind.NUMBER
     return Kind.OP if text in OPERATORS else Kind.NAME
