@@ -16,6 +16,7 @@ import random
 import mpmath
 import numpy
 import pytest
+import sympy
 from flint import acb, arb, ctx
 
 import ketsplit
@@ -277,3 +278,13 @@ def test_vectors_at_a_parameter_point():
     assert [t.value.overlaps(e) for t, e in zip(found.terms, expected)] == [True, True]
     assert [t.left.indices for t in found.terms] == [(0,), (1,)]
     assert all(t.left.entries()[0].contains(1) and t.right.entries()[0].contains(1) for t in found.terms)
+
+
+def test_vectors_with_entries_of_equal_size_rebuild_the_state():
+    # B B^H = [[27, 4 - 20i], [4 + 20i, 27]]: every eigenvector has two entries of equal size (a
+    # pivot tie that once made the refinement diverge); fact of the trade: C = sum_k sigma_k u_k w_k^T
+    matrix = [[1j, 5 - 1j], [1 + 3j, 1 + 4j]]
+    amplitudes = {(i, j): sympy.Integer(int(z.real)) + sympy.I * int(z.imag)
+                  for i, row in enumerate(matrix) for j, z in enumerate(row)}
+    found = certified_decomposition(ketsplit.State((2, 2), amplitudes), "1|2", 30)
+    assert found.rank == 2 and found.complete and rebuild_contains(found, matrix)

@@ -486,7 +486,8 @@ def _separation(centers: list[arb], cluster: range, f: arb) -> arb | None:
         gaps.append(centers[cluster.stop] - centers[cluster.stop - 1] - f)
     if not gaps:
         return None
-    return min(gaps, key=lambda v: v.mid()).lower()
+    lows = [g.lower() for g in gaps]
+    return lows[0] if len(lows) == 1 else lows[0].min(lows[1])  # the smaller lower end, not by midpoints
 
 
 def single(a: IntMatrix, eta: arb) -> Eigen:
