@@ -87,3 +87,9 @@ def test_density_statements_take_operator_text():
 def test_errors_are_input_errors(text, message):
     with pytest.raises(InputError, match=message):
         value(text)
+
+
+def test_a_product_of_gates_acts_right_to_left():
+    # CNOT (H x 1)|00> = (|00> + |11>)/sqrt(2) (fact of the trade: the Bell circuit)
+    found = value("(|0><0| ⊗ id(2) + |1><1| ⊗ [[0, 1], [1, 0]]) on([[1, 1], [1, -1]]/sqrt(2), 1) |00>")
+    assert found.terms == {(0, 0): sympy.sqrt(2) / 2, (1, 1): sympy.sqrt(2) / 2}

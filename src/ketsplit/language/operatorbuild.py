@@ -123,6 +123,8 @@ class OperatorBuilding:
             (is_operator(left) and isinstance(right, ket),
              lambda: operators.apply(left, right, KetValue)),
             (is_operator(left) and is_operator(right), lambda: operators.compose(left, right)),
+            (all(is_operator(x) or isinstance(x, LocalOperator) for x in (left, right)),
+             lambda: operators.chain(left, right)),
         ]
         for applies, action in rules:
             if applies:

@@ -228,27 +228,40 @@ def finished(value, space: tuple[int, ...] | None) -> sympy.Matrix:
 
 @dataclass
 class LocalOperator:
-    """``on(OP, parts...)``: an operator acting on the listed parts (0-based, in order) of
-    whatever ket it meets; the other parts are left alone."""
+    """Operators waiting for a ket: ``on(OP, parts...)`` acts on the listed parts (0-based, in
+    order) of the ket it meets, the others left alone; a product such as ``X on(H, 1)`` keeps
+    its factors as ``steps`` (parts None: the whole ket), applied right to left."""
 
-    operator: OperatorValue
-    parts: tuple[int, ...]
+    steps: tuple[tuple[OperatorValue, tuple[int, ...] | None], ...]
 
 
 def local(operator, parts: tuple[int, ...]) -> LocalOperator:
     if len(set(parts)) != len(parts):
         raise OperatorError("on(...): a part is named twice")
-    return LocalOperator(as_operator(operator), parts)
+    return LocalOperator(((as_operator(operator), parts),))
+
+
+def chain(a, b) -> LocalOperator:
+    """The product of two factors, at least one of them local: kept until a ket comes."""
+    def steps(x):
+        return x.steps if isinstance(x, LocalOperator) else ((as_operator(x), None),)
+    return LocalOperator(steps(a) + steps(b))
 
 
 def local_apply(gate: LocalOperator, ket, make_ket):
-    """Sparse: each term's labels on the gate's parts are replaced by the operator's column."""
-    if max(gate.parts) >= ket.nparts:
-        raise OperatorError(f"on(...): part {max(gate.parts) + 1} is not a part of this ket of "
+    for operator, parts in reversed(gate.steps):
+        ket = apply(operator, ket, make_ket) if parts is None else \
+            _on_parts(operator, parts, ket, make_ket)
+    return ket
+
+
+def _on_parts(op: OperatorValue, parts: tuple[int, ...], ket, make_ket):
+    """Sparse: each term's labels on ``parts`` are replaced by the operator's column."""
+    if max(parts) >= ket.nparts:
+        raise OperatorError(f"on(...): part {max(parts) + 1} is not a part of this ket of "
                             f"{ket.nparts} part(s)")
     dims = inferred_dims(ket.terms, ket.nparts, ket.dims)
-    sub_dims = tuple(dims[p] for p in gate.parts)
-    op = gate.operator
+    sub_dims = tuple(dims[p] for p in parts)
     if op.dims is not None and len(op.dims) == len(sub_dims):
         sub_dims = tuple(max(a, b) for a, b in zip(sub_dims, op.dims))
     matrix = _fitted(op, sub_dims)
@@ -256,19 +269,18 @@ def local_apply(gate: LocalOperator, ket, make_ket):
     index = {label: k for k, label in enumerate(sub_labels)}
     result: dict[tuple[int, ...], sympy.Expr] = {}
     for label, amplitude in ket.terms.items():
-        column_index = index[tuple(label[p] for p in gate.parts)]
+        column_index = index[tuple(label[p] for p in parts)]
         for row, new in enumerate(sub_labels):
             entry = matrix[row, column_index]
             if entry == 0:
                 continue
             moved = list(label)
-            for p, level in zip(gate.parts, new):
+            for p, level in zip(parts, new):
                 moved[p] = level
             key = tuple(moved)
             result[key] = result.get(key, 0) + entry * amplitude
     terms = {k: sympy.expand(v) for k, v in result.items() if sympy.expand(v) != 0}
-    full = tuple(max(a, sub_dims[gate.parts.index(p)]) if p in gate.parts else a
-                 for p, a in enumerate(dims))
+    full = tuple(max(a, sub_dims[parts.index(p)]) if p in parts else a for p, a in enumerate(dims))
     return make_ket(terms, ket.nparts, full)
 
 
@@ -282,4 +294,5 @@ def add_bras(a: BraValue, b: BraValue) -> BraValue:
 
 
 def scaled_local(gate: LocalOperator, factor: sympy.Expr) -> LocalOperator:
-    return LocalOperator(OperatorValue(gate.operator.matrix * factor, gate.operator.dims), gate.parts)
+    (first, parts), *rest = gate.steps
+    return LocalOperator(((OperatorValue(first.matrix * factor, first.dims), parts), *rest))
