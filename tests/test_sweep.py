@@ -93,3 +93,14 @@ def test_an_unknown_function_is_not_vectorised():
         compile_expr(sympy.gamma(x))
     assert numpy.allclose(compile_expr(sympy.cos(x) ** 2)({x: numpy.array([0.0, 1.0])})[0],
                           numpy.cos([0.0, 1.0]) ** 2)
+
+
+def test_the_certified_route_at_one_point(psi):
+    # the route a point takes when the closed form is not finite there (or there is none)
+    from ketsplit.sweep import certified_value
+    cut = ketsplit.parse_cut("1|2", psi)
+    mid, radius = certified_value("entropy", psi, cut, "bits", {"t": 0.3}, 20)
+    c2 = math.cos(0.3) ** 2
+    assert abs(mid - entropy_bits([c2, 1 - c2])) <= radius + 1e-15 and radius < 1e-15
+    mid, radius = certified_value("sigma_2", psi, cut, "bits", {"t": 0.0}, 20)
+    assert mid == 0 and radius == 0   # |00>: the second Schmidt coefficient is 0

@@ -346,14 +346,22 @@ def ball_value(expr: sympy.Expr, point: Mapping[sympy.Symbol, float], bits: int)
 
 def certified_value(figure, state: State, cut: Cut, unit: str, point: Mapping[str, float],
                     digits: int) -> tuple[float, float]:
-    """(midpoint, radius) of the figure at one exact point by the certified route."""
+    """(midpoint, radius) of the figure at one exact point by the certified route.  A
+    Schmidt coefficient past the rank at that point is exactly 0."""
     at = state.subs({name: as_expr(float(x)) for name, x in point.items()})
     found = decompose(at, cut, method="auto", digits=digits, vectors=False)
+    index = int(figure[len(COEFFICIENT):]) - 1 if isinstance(figure, str) and \
+        figure.startswith(COEFFICIENT) else None
     if found.certified is None:
+        if index is not None and index >= len(found.coefficients):
+            return 0.0, 0.0
         exact = spectrum_value(Spectrum.of(found), figure, unit)
         ball = Encloser(4 * digits + 20)(without_extrema(exact)).real
-    elif isinstance(figure, str) and figure.startswith(COEFFICIENT):
-        ball = found.certified.coefficients[int(figure[len(COEFFICIENT):]) - 1]
+    elif index is not None:
+        balls = list(found.certified.coefficients) + list(found.certified.undecided)
+        if index >= len(balls):
+            return 0.0, 0.0
+        ball = balls[index]
     else:
         ball = certified_figures(found, [figure], unit)[figure]
     return float(ball.mid()), float(ball.rad()) + U * abs(float(ball.mid()))

@@ -90,10 +90,16 @@ def kets_latex(terms: Iterable[tuple[object, str]]) -> str:
     return out or "0"
 
 
+SHOWN_TERMS = 40   # a notebook shows at most this many kets of a state, then how many more
+
+
 def state_latex(state) -> str:
-    """A state as its sum of kets, in label order."""
+    """A state as its sum of kets, in label order (the first SHOWN_TERMS of a long one)."""
     from .printer import label_text
-    return kets_latex((amp, label_text(label)[1:-1]) for label, amp in state.terms())
+    terms = state.terms()
+    shown = kets_latex((amp, label_text(label)[1:-1]) for label, amp in terms[:SHOWN_TERMS])
+    more = len(terms) - SHOWN_TERMS
+    return shown + (rf" + \dots\ \text{{({more} more terms)}}" if more > 0 else "")
 
 
 def _bracketed(terms: Sequence[tuple[object, str]]) -> str:
