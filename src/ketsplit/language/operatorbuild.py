@@ -17,6 +17,10 @@ OPERATOR_FUNCTIONS = ("id", "adj", "on")
 OPERATOR_TYPES = (BraValue, OperatorValue, LocalOperator)
 
 
+def article(word: str) -> str:
+    return ("an " if word[0] in "aeiou" else "a ") + word
+
+
 def is_operator(value) -> bool:
     return isinstance(value, (OperatorValue, sympy.MatrixBase))
 
@@ -129,7 +133,7 @@ class OperatorBuilding:
         for applies, action in rules:
             if applies:
                 return self._operator_call(node, action)
-        self.fail(f"cannot multiply a {kind_of(left)} by a {kind_of(right)}", node)
+        self.fail(f"cannot multiply {article(kind_of(left))} by {article(kind_of(right))}", node)
         raise AssertionError
 
     def _operator_tensor(self, left, right, node: Node):
@@ -146,7 +150,7 @@ class OperatorBuilding:
             return self._operator_call(node, lambda: operators.add(finished(left), finished(right)))
         if isinstance(left, BraValue) and isinstance(right, BraValue):
             return self._operator_call(node, lambda: operators.add_bras(left, right))
-        self.fail(f"cannot add a {kind_of(left)} and a {kind_of(right)}", node)
+        self.fail(f"cannot add {article(kind_of(left))} and {article(kind_of(right))}", node)
         raise AssertionError
 
     def _operator_result(self, value, node: Node):
