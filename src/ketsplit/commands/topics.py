@@ -21,6 +21,16 @@ TOPICS: dict[str, tuple[str, ...]] = {
         "positive r                positive parameters",
         "complex z / integer n     (undeclared names are complex parameters)",
         "schmidt psi with t=pi/6   any command at a parameter point"),
+    "operators": (
+        "Bras <01|, outer products |0><1|, projectors of named states |psi><psi|, inner "
+        "products <0|1> or <psi| |phi>.",
+        "id is the identity of the declared space, id(d) of one part of d levels; matrices "
+        "[[1, 1], [1, -1]]/sqrt(2); A ⊗ B the tensor product of operators; adj(X) the adjoint.",
+        "An operator before a ket acts on it: [[0, 1], [1, 0]] |0>; on(X, B) psi or on(CNOT, 3, 1) "
+        "psi acts on the parts named or numbered; products of gates act right to left.",
+        "Mixtures: rho = density p |psi><psi| + (1 - p) id/4; rho = reduce psi 12 binds a reduced "
+        "state. Then: ptranspose, negativity, concurrence, mixedness, fidelity, separable, "
+        "opschmidt, schmidtbasis (help COMMAND for each)."),
     "keys": (
         "Enter       run (a new line instead while a bracket is open or the line ends with "
         "an operator)",
