@@ -98,7 +98,7 @@ def test_data_file_holds_the_samples_and_the_curve_reaches_the_marks(tmp_path, s
 
 
 def test_several_states_on_one_plot(session):
-    session.run("chi = cos(t)|00> + sin(t)|11>/2 + |22>/3")
+    session.run("chi = cos(t)|01> + sin(t)|10>")
     text = session.run("plot entropy psi, chi over t")[0].text()
     assert "psi: entropy (bits)" in text and "chi: entropy (bits)" in text
 
@@ -121,20 +121,19 @@ def test_chart_shows_itself_in_a_notebook():
 def test_map_statement(tmp_path):
     s = ketsplit.Session()
     s.run("real t in [0, pi/2]\nreal phi in [0, pi]\n"
-          "psi = cos(t)|00> + sin(t)(cos(phi)|11> + sin(phi)|01>)")
+          "psi = cos(t)|00> + sin(t)(cos(phi)|11> + sin(phi)|22>)")
     data, picture = tmp_path / "m.csv", tmp_path / "m.png"
     result = s.run(f"map entropy psi 1|2 over t, phi --to {picture} --data {data}")[0]
     assert picture.read_bytes().startswith(b"\x89PNG")
     rows = list(csv.reader(data.open()))[1:]
     assert len(rows) == 81 * 81
     for t, phi, value in rows[::97]:
-        # reduced state of the first qubit: diag(c^2, s^2) + off-diagonal c s sin(phi) (by hand);
-        # its eigenvalues give the entropy, checked against numpy
+        # the state is already in Schmidt form: p = (c^2, s^2 cos^2 phi, s^2 sin^2 phi) (by hand),
+        # its entropy checked against numpy's SVD of the coefficient matrix
         t, phi = float(t), float(phi)
-        c, s_ = math.cos(t), math.sin(t)
-        rho = numpy.array([[c * c, c * s_ * math.sin(phi)], [c * s_ * math.sin(phi), s_ * s_]])
-        p = numpy.linalg.eigvalsh(rho)
-        assert abs(float(value) + sum(q * math.log2(q) for q in p if q > 1e-300)) < 1e-9
+        sigma = numpy.linalg.svd(numpy.diag([math.cos(t), math.sin(t) * math.cos(phi),
+                                             math.sin(t) * math.sin(phi)]), compute_uv=False)
+        assert abs(float(value) + sum(q * math.log2(q) for q in sigma ** 2 if q > 0)) < 1e-9
     assert "phi from 0 (bottom) to pi (top)" in result.text()
 
 

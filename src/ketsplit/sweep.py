@@ -141,9 +141,7 @@ def _rule(node: sympy.Basic) -> tuple[Callable, tuple]:
     if isinstance(node, sympy.Add):
         return _add, node.args
     if isinstance(node, sympy.Mul):
-        pairs = [(node.args.index(a.args[0]), k) for k, a in enumerate(node.args)
-                 if isinstance(a, sympy.log) and a.args[0] in node.args]
-        return (_mul_xlogx(pairs) if pairs else _mul), node.args
+        return _product(node.args)
     if isinstance(node, sympy.Pow) and node.exp.is_number:
         return _unpacked(_power(node.exp)), (node.base,)
     if isinstance(node, sympy.Pow):
@@ -152,6 +150,33 @@ def _rule(node: sympy.Basic) -> tuple[Callable, tuple]:
     if rule is None or len(node.args) != 1:
         raise NotVectorised(f"no float rule for {type(node).__name__}")
     return _unpacked(rule), node.args
+
+
+def _product(args: tuple) -> tuple[Callable, tuple]:
+    """The rule of a product and its factors, each x log x regrouped as a pair: x may be
+    one factor, or a product of several (sympy flattens x log x for x = a b into a b log(a b))."""
+    rest, pairs = list(args), []
+    for logged in [a for a in args if isinstance(a, sympy.log)]:
+        inner = logged.args[0]
+        parts = list(sympy.Mul.make_args(inner))
+        remaining = list(rest)
+        if logged in remaining and all(_take(remaining, p) for p in parts):
+            remaining.remove(logged)
+            rest = remaining
+            pairs.append((inner, logged))
+    if not pairs:
+        return _mul, args
+    factors = tuple(rest) + tuple(f for pair in pairs for f in pair)
+    positions = [(len(rest) + 2 * k, len(rest) + 2 * k + 1) for k in range(len(pairs))]
+    return _mul_xlogx(positions), factors
+
+
+def _take(items: list, item) -> bool:
+    """Remove one ``item`` from ``items``; whether it was there."""
+    if item in items:
+        items.remove(item)
+        return True
+    return False
 
 
 def _unpacked(rule: Callable) -> Callable:

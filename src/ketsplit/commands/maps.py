@@ -19,7 +19,7 @@ MAP_USAGE = ("map FIGURE STATE [CUT] over NAME, NAME [--to FILE.svg|.pdf|.png] [
          "a figure over the declared ranges of two real parameters: a filled contour with the "
          "rank-drop sets drawn on top",
          "real t in [0, pi/2]; real phi in [0, pi]; "
-         "map entropy cos(t)|00> + sin(t)(cos(phi)|11> + sin(phi)|01>) 1|2 over t, phi")
+         "map entropy cos(t)|00> + sin(t)(cos(phi)|11> + sin(phi)|22>) 1|2 over t, phi")
 def run_map(call: CommandCall) -> Report:
     match = MAP.match(call.args)
     if match is None:
