@@ -255,9 +255,13 @@ def _power(exponent: sympy.Expr) -> Callable:
     """x^n (integer n) or x^r (real r, x >= 0 over its error interval)."""
     if exponent.is_Integer:
         n = int(exponent)
-        if n > 0:
-            return lambda value, err: _rounded(value ** n, n * (abs(value) + err) ** (n - 1), err)
-        return lambda value, err: _rounded(value ** n, _below(abs(value) - err, n - 1, -n), err)
+        extra = max(0, abs(n) - ULPS) * U   # x^n may round up to |n| times
+
+        def rule(value, err):
+            slope = n * (abs(value) + err) ** (n - 1) if n > 0 else _below(abs(value) - err, n - 1, -n)
+            result, error = _rounded(value ** n, slope, err)
+            return result, error + extra * abs(result)
+        return rule
     r = float(exponent)
 
     def rule(value, err):
@@ -325,9 +329,12 @@ def _abs(value, err):
 
 
 def _tan(value, err):
+    """sec^2 is convex between poles: its largest value on the interval is at an end, unless a
+    pole lies inside (cos changes sign), where the bound is infinite."""
     _real_only("tan", value)
-    high = numpy.maximum(1 / numpy.cos(value - err) ** 2, 1 / numpy.cos(value + err) ** 2)
-    return _rounded(numpy.tan(value), high, err)
+    low, high = numpy.cos(value - err), numpy.cos(value + err)
+    slope = numpy.where(low * high > 0, numpy.maximum(1 / low ** 2, 1 / high ** 2), numpy.inf)
+    return _rounded(numpy.tan(value), slope, err)
 
 
 def _hyperbolic(function, derivative):
