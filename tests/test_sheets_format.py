@@ -99,12 +99,33 @@ def test_a_truncated_file_loads_what_it_can_and_says_where_it_stops():
     assert "cut short" in problem.message and problem.line == len(cut.splitlines()) + 1
 
 
-def test_lost_lines_are_noticed_from_the_end_count():
+def test_lines_removed_or_added_by_hand_leave_the_worksheet_whole():
+    # a merge adds and drops lines: the end line counts nothing, so nothing is reported
     text = written([SheetLine("rank |00>", 1), SheetLine("rank |01>", 2)])
-    damaged = text.replace("rank |01>\n", "")
-    sheet = parse_sheet(damaged.encode())
-    assert [str(p) for p in sheet.problems] == [
-        f"line {len(damaged.splitlines())}: the end line counts 2 lines but 1 were found"]
+    edited = text.replace("rank |01>\n", "").replace("rank |00>\n", "rank |00>\nrank |10>\nrank |11>\n")
+    sheet = parse_sheet(edited.encode())
+    assert sheet.problems == ()
+    assert [e.source for e in sheet.lines] == ["rank |00>", "rank |10>", "rank |11>"]
+
+
+def test_an_old_end_line_with_a_count_is_read_and_its_count_not_held_against_it():
+    sheet = parse_sheet(b"#! ketsplit worksheet 1\nrank |00>\n#! end: 5 lines\n")
+    assert sheet.problems == () and [e.source for e in sheet.lines] == ["rank |00>"]
+
+
+def test_value_lines_round_trip_and_belong_to_their_result():
+    records = (Record(("Schmidt rank across 1|2", "  rank: 2"), '{"rank": 2}'), Record(("x",)))
+    text = written([SheetLine("rank |00> + |11>; rank |00>", 1, records)])
+    assert '#= {"rank": 2}' in text.splitlines()
+    sheet = parse_sheet(text.encode())
+    assert sheet.problems == ()
+    assert sheet.lines[0].records == records
+
+
+def test_a_value_line_without_a_result_is_a_problem():
+    sheet = parse_sheet(b'#! ketsplit worksheet 1\nrank |00>\n#= {"rank": 1}\n#! end\n')
+    assert [p.line for p in sheet.problems] == [3]
+    assert sheet.lines[0].records == ()
 
 
 def test_a_damaged_line_is_reported_by_number_and_the_rest_is_loaded():
@@ -113,8 +134,8 @@ def test_a_damaged_line_is_reported_by_number_and_the_rest_is_loaded():
     bad = next(k for k, line in enumerate(lines) if line.startswith(b"rank |00>"))
     lines[bad] = b"rank |0\xff\xfe0>\n"
     sheet = parse_sheet(b"".join(lines))
-    # the bad line, its now orphaned result, and the end count that no longer matches
-    assert [p.line for p in sheet.problems] == [bad + 1, bad + 2, len(lines)]
+    # the bad line and its now orphaned result (the end line counts nothing)
+    assert [p.line for p in sheet.problems] == [bad + 1, bad + 2]
     assert "not UTF-8" in sheet.problems[0].message
     assert [e.source for e in sheet.lines] == ["rank |01>"]
 

@@ -70,9 +70,41 @@ def test_save_and_open_are_not_recorded(tmp_path):
     assert all(not e.source.startswith(("save", "open")) for e in session.worklog)
 
 
-def test_a_tampered_result_fails_verify_naming_its_line(tmp_path):
+def test_a_tampered_value_fails_verify_naming_its_line_and_what_differs(tmp_path):
     _, path = saved(tmp_path)
     text = path.read_text(encoding="utf-8")
+    path.write_text(text.replace('"exact": "sqrt(3)/2"', '"exact": "sqrt(2)/2"'), encoding="utf-8")
+    [difference] = verify(path)
+    file_line = text.splitlines().index("schmidt psi with t=pi/6") + 1
+    assert difference.line == file_line
+    assert difference.reason == "coefficients[1]: recorded sqrt(2)/2 ≈ 0.866025403784438646763723170753, " \
+                                "now sqrt(3)/2 ≈ 0.866025403784438646763723170753"
+    assert "coefficients[1]" in difference.describe()
+
+
+def test_a_tampered_rank_value_fails_verify(tmp_path):
+    _, path = saved(tmp_path)
+    text = path.read_text(encoding="utf-8")
+    path.write_text(text.replace('#= {"rank": 2}', '#= {"rank": 3}'), encoding="utf-8")
+    [difference] = verify(path)
+    assert difference.source == "rank psi; reduce psi 1"
+    assert difference.reason == "result 1: rank: recorded 3, now 2"
+
+
+def test_a_tampered_text_fails_verify_even_when_its_values_agree(tmp_path):
+    _, path = saved(tmp_path)
+    text = path.read_text(encoding="utf-8")
+    path.write_text(text.replace("#|   coefficients: [sqrt(3)/2, 1/2]", "#|   coefficients: [1, 0]"),
+                    encoding="utf-8")
+    [difference] = verify(path)
+    assert "  ≠   coefficients: [1, 0]" in difference.describe()
+
+
+def test_a_tampered_result_without_values_fails_verify_naming_its_line(tmp_path):
+    # an older worksheet (no '#=' lines) is compared by its recorded text, as before
+    _, path = saved(tmp_path)
+    text = "".join(line for line in path.read_text(encoding="utf-8").splitlines(keepends=True)
+                   if not line.startswith("#="))
     path.write_text(text.replace("[sqrt(3)/2, 1/2]", "[sqrt(2)/2, 1/2]"), encoding="utf-8")
     [difference] = verify(path)
     file_line = text.splitlines().index("schmidt psi with t=pi/6") + 1
@@ -80,6 +112,37 @@ def test_a_tampered_result_fails_verify_naming_its_line(tmp_path):
     described = difference.describe()
     assert "  ≠   coefficients: [sqrt(2)/2, 1/2]" in described
     assert "  ≠   coefficients: [sqrt(3)/2, 1/2]" in described
+
+
+def test_certified_digits_are_compared_where_both_are_certain(tmp_path):
+    # |00> + 2|11>: coefficients 2/sqrt(5) = 0.894427190999915878563669467493... (mpmath)
+    _, path = saved(tmp_path, "numeric |00> + 2|11>")
+    text = path.read_text(encoding="utf-8")
+    with mpmath.workdps(50):
+        full = mpmath.nstr(2 / mpmath.sqrt(5), 30)
+        fewer = mpmath.nstr(2 / mpmath.sqrt(5), 12)
+    assert f'"digits": "{full}"' in text
+    shorter = text.replace(f'"digits": "{full}", "certain": 30', f'"digits": "{fewer}", "certain": 12')
+    path.write_text(shorter, encoding="utf-8")
+    assert verify(path) == []  # fewer certain digits recorded: they agree where both are certain
+    wrong = text.replace(f'"digits": "{full}"', f'"digits": "{full[:-1]}4"')
+    path.write_text(wrong, encoding="utf-8")
+    [difference] = verify(path)
+    assert difference.reason == f"table[1].coefficient: recorded {full[:-1]}4, now {full}"
+
+
+def test_a_hand_merged_worksheet_verifies_line_by_line(tmp_path):
+    # lines of another worksheet pasted in, one of its own removed: no whole-file count breaks
+    _, path = saved(tmp_path)
+    _, other = saved(tmp_path, "rank |000> + |111> 1|23", "other.kss")
+    pasted = [line for line in other.read_text(encoding="utf-8").splitlines(keepends=True)
+              if not line.startswith("#!")]
+    lines = path.read_text(encoding="utf-8").splitlines(keepends=True)
+    start = lines.index("# a family of two-qubit states\n")
+    merged = lines[:start] + pasted + lines[start + 1:]
+    path.write_text("".join(merged), encoding="utf-8")
+    assert read_sheet(path).problems == ()
+    assert verify(path) == []
 
 
 def test_a_tampered_statement_fails_verify(tmp_path):
@@ -95,6 +158,9 @@ def test_an_equal_exact_value_written_another_way_still_verifies(tmp_path):
     text = path.read_text(encoding="utf-8")
     text = text.replace("coefficients: [sqrt(3)/2, 1/2]", "coefficients: [3/(2*sqrt(3)), 1/2]")
     text = text.replace("[[cos(t)^2, 0], [0, sin(t)^2]]", "[[1 - sin(t)^2, 0], [0, sin(t)^2]]")
+    text = text.replace('"exact": "sqrt(3)/2"', '"exact": "3/(2*sqrt(3))"')  # and in the values
+    text = text.replace('"exact": "cos(t)^2"', '"exact": "1 - sin(t)^2"')
+    assert '"exact": "sqrt(3)/2"' not in text and '"exact": "cos(t)^2"' not in text
     path.write_text(text, encoding="utf-8")
     assert verify(path) == []
 

@@ -11,12 +11,15 @@ language, because everything that is not a statement starts with ``#``::
     rank |00> + |11>                 <- a line as typed
     #> Schmidt rank across 1|2       <- first line of its recorded result
     #|   rank: 2                     <- further lines of the same result
-    #! end: 2 lines                  <- end line: how many lines the body holds
+    #= {"rank": 2}                   <- the result's values, one JSON line (render.jsonout)
+    #! end                           <- end line
 
 Recorded results are never executed: to the language they are comments.  A
 typed comment that itself starts with a marker is written with a space after
 its ``#`` so that it stays a comment.  The end line lets a reader tell a
-truncated file from a whole one.
+truncated file from a whole one; it counts nothing (older files wrote
+``#! end: N lines``, still read), so lines added or removed by hand or by a
+merge leave a worksheet whole.
 
 A worksheet may come from a stranger.  Reading it is bounded (.reading: bytes,
 lines, time); its header may set only known settings to allowed values, never
@@ -37,9 +40,9 @@ from .visible import described, has_controls, visible
 
 FORMAT = 1
 MAGIC = "#! ketsplit worksheet"
-DIRECTIVE, FIRST, MORE = "#!", "#>", "#|"
-MARKERS = (DIRECTIVE, FIRST, MORE)
-END = re.compile(r"#! end: ([0-9]{1,12}) lines?$")
+DIRECTIVE, FIRST, MORE, VALUES = "#!", "#>", "#|", "#="
+MARKERS = (DIRECTIVE, FIRST, MORE, VALUES)
+END = re.compile(r"#! end(?:: ([0-9]{1,12}) lines?)?$")
 HEADER = re.compile(r"#! ([a-z][a-z ]*): (.*)$")
 EXTENSION = ".kss"
 MAX_LINES = 200_000  # a worksheet is typed text; a file of more lines is refused unparsed
@@ -47,9 +50,11 @@ MAX_LINES = 200_000  # a worksheet is typed text; a file of more lines is refuse
 
 @dataclass(frozen=True)
 class Record:
-    """A recorded result: the lines of text one statement gave."""
+    """A recorded result: the lines of text one statement gave, and its values as one line
+    of JSON (``""`` when none were recorded: older worksheets, results without values)."""
 
     lines: tuple[str, ...]
+    values: str = ""
 
     def text(self) -> str:
         return "\n".join(self.lines)
@@ -106,7 +111,9 @@ def format_sheet(sheet: Sheet, version: str, date: str) -> str:
             lines = [visible(line).rstrip() for line in record.lines] or [""]
             out.append(f"{FIRST} {lines[0]}".rstrip())
             out.extend(f"{MORE} {line}".rstrip() for line in lines[1:])
-    out.append(f"#! end: {len(sheet.lines)} lines")
+            if record.values:
+                out.append(f"{VALUES} {visible(record.values)}")
+    out.append("#! end")
     return "\n".join(out) + "\n"
 
 
@@ -188,14 +195,16 @@ class BodyReader:
         self.header_lines: list[int] = []  # the file line of each header value
         self.lines: list[SheetLine] = []
         self.open: list[str] | None = None  # the record being read
-        self.end: tuple[int, int] | None = None  # (file line, line count it declares)
+        self.end: int | None = None  # the file line of the end line
 
     def feed(self, number: int, text: str) -> None:
         if self.end is not None and text.strip():
             self.problems.append(Problem(number, "text after the end line; it was read as well"))
-            self.end = (self.end[0], -1)
         if text.startswith(FIRST) or text.startswith(MORE):
             self.record_line(number, text)
+            return
+        if text.startswith(VALUES):
+            self.values_line(number, text)
             return
         self.close()
         if text.startswith(DIRECTIVE):
@@ -218,16 +227,24 @@ class BodyReader:
         else:
             self.open.append(content)
 
-    def close(self) -> None:
+    def values_line(self, number: int, text: str) -> None:
+        """The values of the result just read; it ends that result."""
+        if self.open is None:
+            self.problems.append(Problem(number, "recorded values with no result before them; "
+                                                 "they were skipped"))
+            return
+        self.close(text[len(VALUES):].strip())
+
+    def close(self, values: str = "") -> None:
         if self.open is not None:
             last = self.lines[-1]
-            self.lines[-1] = replace(last, records=last.records + (Record(tuple(self.open)),))
+            self.lines[-1] = replace(last, records=last.records + (Record(tuple(self.open), values),))
             self.open = None
 
     def directive(self, number: int, text: str) -> None:
         end, header = END.match(text.rstrip()), HEADER.match(text.rstrip())
         if end:
-            self.end = (number, int(end.group(1)))
+            self.end = number
         elif header and header.group(1) != "end" and not self.lines:
             self.header.append((header.group(1), header.group(2).strip()))
             self.header_lines.append(number)
@@ -243,6 +260,3 @@ class BodyReader:
             self.problems.append(Problem(after_last, "the worksheet ends without its end line: it "
                                          f"was cut short; the {len(self.lines)} lines before it "
                                          "were loaded"))
-        elif self.end[1] >= 0 and self.end[1] != len(self.lines):
-            self.problems.append(Problem(self.end[0], f"the end line counts {self.end[1]} lines "
-                                         f"but {len(self.lines)} were found"))

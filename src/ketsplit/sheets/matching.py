@@ -102,3 +102,73 @@ def last_place(match: re.Match[str]) -> Fraction:
     """One unit in the last printed place."""
     _, _, fraction, exponent = match.groups()
     return Fraction(10) ** (int(exponent or 0) - len(fraction or ""))
+
+
+# -- recorded values (a worksheet's '#=' lines) ------------------------------------
+
+NUMBER_KEYS = {"exact", "digits", "certain", "rows"}  # a number (or matrix) of render.jsonout
+
+
+def is_number(value) -> bool:
+    """An exact value and/or its certified digits, as render.jsonout writes one (not a table
+    row that happens to have a column named 'exact')."""
+    return isinstance(value, dict) and bool(value) and set(value) <= NUMBER_KEYS and (
+        "exact" in value or "digits" in value)
+
+
+def value_difference(recorded, fresh, equal: Equal, where: str = "") -> str | None:
+    """What differs between two recorded values (parsed JSON, see render.jsonout), or None.
+
+    Exact values agree when ``equal`` proves them the same; certified digits when
+    they are the same where both are certain; text as recorded text does
+    (:func:`cells_agree`); everything else (ranks, verdicts) when it is equal.
+    """
+    if isinstance(recorded, dict) and isinstance(fresh, dict):
+        if is_number(recorded) and is_number(fresh):
+            return None if numbers_agree(recorded, fresh, equal) else shown(where, recorded, fresh)
+        if set(recorded) != set(fresh):
+            return shown(where, sorted(recorded), sorted(fresh), "names")
+        return next((d for key in recorded if (d := value_difference(
+            recorded[key], fresh[key], equal, joined(where, key))) is not None), None)
+    if isinstance(recorded, list) and isinstance(fresh, list):
+        if len(recorded) != len(fresh):
+            return shown(where, len(recorded), len(fresh), "length")
+        return next((d for k, (a, b) in enumerate(zip(recorded, fresh)) if (d := value_difference(
+            a, b, equal, f"{where}[{k + 1}]")) is not None), None)
+    if type(recorded) is type(fresh) and recorded == fresh:
+        return None
+    if isinstance(recorded, str) and isinstance(fresh, str) and cells_agree(recorded, fresh, equal):
+        return None  # words and values in text: as recorded text is compared
+    return shown(where, recorded, fresh)
+
+
+def numbers_agree(recorded: dict, fresh: dict, equal: Equal) -> bool:
+    old, new = recorded.get("exact"), fresh.get("exact")
+    if isinstance(old, str) and isinstance(new, str):
+        return old == new or equal(old, new)
+    return digits_agree(recorded.get("digits"), fresh.get("digits"))
+
+
+def digits_agree(recorded, fresh) -> bool:
+    """Two certified decimals the same where both are certain (as same_where_certain)."""
+    if not isinstance(recorded, str) or not isinstance(fresh, str):
+        return False
+    a, b = NUMBER.fullmatch(recorded.strip()), NUMBER.fullmatch(fresh.strip())
+    return a is not None and b is not None and same_where_certain(a, b)
+
+
+def joined(where: str, key: str) -> str:
+    return f"{where}.{key}" if where else key
+
+
+def shown(where: str, recorded, fresh, what: str = "") -> str:
+    name = " ".join(part for part in (where or "value", what) if part)
+    return f"{name}: recorded {brief(recorded)}, now {brief(fresh)}"
+
+
+def brief(value) -> str:
+    if is_number(value):
+        exact, digits = value.get("exact"), value.get("digits")
+        return " ≈ ".join(str(v) for v in (exact, digits) if v is not None) or "no value"
+    text = str(value)
+    return text if len(text) <= 80 else text[:77] + "..."

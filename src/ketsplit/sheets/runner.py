@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import dataclasses
 import datetime
+import json
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -27,12 +28,13 @@ from ..base.version import VERSION as __version__
 from ..arith import decide
 from ..language.build import KetValue
 from ..base.errors import InputError, Span
+from ..render.jsonout import values_line
 from ..render.text import to_text
 from ..session import UNRECORDED, Entry, Result, Session, Settings, split_statements
 from ..timebudget import time_limited
 from .format import Record, Sheet, SheetLine, format_sheet
 from .header import raised
-from .matching import first_difference
+from .matching import first_difference, value_difference
 from .visible import visible
 
 FILE_OPTION = re.compile(r"\s--to\s")  # the option by which a statement names a file to write
@@ -82,7 +84,10 @@ class Difference:
 
 
 def record_of(result: Result) -> Record:
-    return Record(tuple(to_text(result.report).splitlines()) or ("",))
+    """The result as text, and its values as one line of JSON (none when it has no values)."""
+    values = values_line(result.report)
+    return Record(tuple(to_text(result.report).splitlines()) or ("",),
+                  json.dumps(values, ensure_ascii=False) if values else "")
 
 
 def error_record(err: InputError) -> Record:
@@ -182,14 +187,47 @@ def compared(entry: SheetLine, fresh: tuple[Record, ...], equal: ValueEquality
     (it reads values from the file), and a comparison stopped by it is a difference."""
     try:
         with time_limited(limits.current().seconds, TimeUp):
-            first = first_difference(flat(entry.records), flat(fresh), equal)
+            found = records_difference(entry.records, fresh, equal)
     except TimeUp:
         return Difference(entry.line, entry.source, entry.records, fresh, None,
                           "the recorded values could not be compared with this run's within "
                           f"{limits.how_to_change('seconds')}")
-    if first is None:
+    if found is None:
         return None
-    return Difference(entry.line, entry.source, entry.records, fresh, first)
+    first, reason = found
+    return Difference(entry.line, entry.source, entry.records, fresh, first, reason)
+
+
+def records_difference(recorded: tuple[Record, ...], fresh: tuple[Record, ...],
+                       equal: ValueEquality) -> tuple[int, str] | None:
+    """(where in flat() the two first part, what differs) or None when they agree.
+
+    A result recorded with values is compared by value first (the difference
+    named by the value that differs); then, as for one recorded without values
+    (an older worksheet), by its text, so that the text a reader sees is
+    checked too.
+    """
+    at = 0
+    for k, (old, new) in enumerate(zip(recorded, fresh)):
+        if old.values and new.values:
+            what = value_difference(recorded_values(old), json.loads(new.values), equal)
+            if what is not None:
+                return at, f"result {k + 1}: {what}" if len(recorded) > 1 else what
+        first = first_difference(list(old.lines), list(new.lines), equal)
+        if first is not None:
+            return at + first, ""
+        at += len(old.lines) + 1  # and the separator (BETWEEN)
+    if len(recorded) != len(fresh):
+        return at, f"{len(recorded)} result(s) recorded, {len(fresh)} now"
+    return None
+
+
+def recorded_values(record: Record):
+    """The recorded values as read from the file; unreadable JSON is a difference of its own."""
+    try:
+        return json.loads(record.values)
+    except ValueError:
+        return {"unreadable recorded values": record.values}
 
 
 class TimeUp(Exception):
