@@ -15,7 +15,8 @@ import sympy
 
 from ..base.document import Field, Note, Plot, Report, Table
 from ..language.latexprint import KET, ket_latex
-from .latex import LINE_CHARACTERS, cell_latex, table_latex, width
+from .latex import LINE_CHARACTERS, table_latex, width
+from .latex import cell_latex as paper_cell_latex
 
 SPECIAL = re.compile(r"([\\`*_{}\[\]<>#|$~])")
 
@@ -25,6 +26,12 @@ def escape(text: str) -> str:
     pieces = KET.split(text)
     return "".join(f"${ket_latex(piece)}$" if k % 2 else SPECIAL.sub(r"\\\1", piece)
                    for k, piece in enumerate(pieces))
+
+
+def cell_latex(cell) -> str:
+    """A cell's LaTeX without the line-break hints meant for pdflatex (not every Markdown
+    math renderer knows ``\\allowbreak``)."""
+    return paper_cell_latex(cell).replace(r"\allowbreak", "")
 
 
 def display(latex: str) -> str:
