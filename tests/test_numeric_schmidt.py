@@ -1,5 +1,6 @@
 """Certified Schmidt coefficients and proved ranks (ketsplit.numeric), checked against the outside."""
 
+import os
 import random
 
 import mpmath
@@ -11,7 +12,7 @@ from hypothesis import strategies as st
 
 import ketsplit
 from ketsplit import InputError, LimitError, Session
-from ketsplit.numeric.digits import endpoints
+from ketsplit.numeric.digits import certain_text, endpoints
 from ketsplit.numeric.schmidt import certified_schmidt, certified_values
 
 
@@ -31,6 +32,9 @@ def reference_coefficients(matrix, dps: int) -> list[mpmath.mpf]:
         values = mpmath.svd_c(a, compute_uv=False)
         norm = mpmath.sqrt(sum(abs(a[i, j]) ** 2 for i in range(a.rows) for j in range(a.cols)))
         return sorted((values[k] / norm for k in range(len(values))), reverse=True)
+
+
+EXAMPLES = int(os.environ.get("KETSPLIT_NUMERIC_EXAMPLES", "20"))  # 2000 for a thorough local run
 
 
 def agrees(text: str, reference: mpmath.mpf, digits: int) -> bool:
@@ -228,7 +232,7 @@ def test_numeric_statement_at_a_point():
         session.run("numeric cos(t)|00> + sin(t)|11> with t=1")
 
 
-@settings(max_examples=20, deadline=None)
+@settings(max_examples=EXAMPLES, deadline=None)
 @given(st.integers(1, 4), st.integers(1, 4),
        st.lists(st.tuples(st.integers(-5, 5), st.integers(-5, 5)), min_size=16, max_size=16))
 def test_random_small_states_agree_with_mpmath(rows, cols, numbers):
@@ -240,6 +244,7 @@ def test_random_small_states_agree_with_mpmath(rows, cols, numbers):
     result = certified_schmidt(ketsplit.State((max(rows, 2), max(cols, 2)), amplitudes), "1|2", 20)
     expected_rank = sympy.Matrix(rows, cols, lambda i, j: amplitudes.get((i, j), 0)).rank()
     assert result.rank == expected_rank
+    assert result.complete  # all 20 digits certain (a shorter text is not a wrong one: say which)
     reference = [v for v in reference_coefficients(matrix, 60) if v > mpmath.mpf(10) ** -40]
     assert all(agrees(t, r, 20) for t, r in zip(result.texts(), reference))
 
@@ -303,3 +308,53 @@ def test_tiny_entry_beside_others_is_bounded_not_crashed():
         small = mpmath.exp(-mpmath.exp(30)) / 2
         upper = bound.upper().mid_rad_10exp(10)
         assert small <= mpmath.mpf(int(upper[0]) + int(upper[1])) * mpmath.mpf(10) ** int(upper[2])
+
+
+gaussian = st.tuples(st.integers(-3, 3), st.integers(-3, 3)).map(lambda p: complex(*p))
+
+
+@settings(max_examples=EXAMPLES, deadline=None)
+@given(st.integers(1, 4), st.integers(1, 4), st.integers(1, 4),
+       st.lists(gaussian, min_size=32, max_size=32), st.sampled_from([1, 10 ** 3, 10 ** 6]))
+def test_structured_states_agree_with_mpmath(rows, cols, inner, numbers, big):
+    # C = U V with an inner dimension below the sides (rank deficient), one row scaled by `big`
+    # (coefficients far apart in size), entries of equal size (pivot ties); reference library:
+    # mpmath.svd_c at 80 digits; the rank from sympy's exact rank
+    u = [[numbers[i * 4 + k] * (big if i == 0 else 1) for k in range(inner)] for i in range(rows)]
+    v = [[numbers[16 + k * 4 + j] for j in range(cols)] for k in range(inner)]
+    matrix = [[sum((u[i][k] * v[k][j] for k in range(inner)), 0j) for j in range(cols)] for i in range(rows)]
+    amplitudes = {(i, j): sympy.Integer(int(z.real)) + sympy.I * int(z.imag)
+                  for i, row in enumerate(matrix) for j, z in enumerate(row) if z != 0}
+    assume(amplitudes)
+    result = certified_schmidt(ketsplit.State((max(rows, 2), max(cols, 2)), amplitudes), "1|2", 20)
+    assert result.rank == sympy.Matrix(rows, cols, lambda i, j: amplitudes.get((i, j), 0)).rank()
+    assert result.complete
+    reference = [v for v in reference_coefficients(matrix, 80) if v > mpmath.mpf(10) ** -60]
+    assert all(agrees(t, r, 20) for t, r in zip(result.texts(), reference))
+
+
+RANK_TWO_WITH_HUGE_ROW = [[10 ** 12 * 1j, -10 ** 12, 0, -10 ** 12], [-1, 0, 1j, 0], [-1, 0, 1j, 0], [-1, 0, 1j, 0]]
+
+
+def rank_two_with_huge_row():
+    amplitudes = {(i, j): sympy.Integer(int(complex(z).real)) + sympy.I * int(complex(z).imag)
+                  for i, row in enumerate(RANK_TWO_WITH_HUGE_ROW) for j, z in enumerate(row) if z != 0}
+    return certified_schmidt(ketsplit.State((4, 4), amplitudes), "1|2", 20)
+
+
+def test_tiny_coefficient_beside_exact_zeros_prints_only_right_digits():
+    # rank 2 (exact), coefficients 1 and about 1.3e-12, two exact zeros: the small one sits in a
+    # cluster with the zeros far below ||C||^2; whatever digits are printed are right
+    # (reference library: mpmath.svd_c at 80 digits)
+    result = rank_two_with_huge_row()
+    matrix = [[complex(z) for z in row] for row in RANK_TWO_WITH_HUGE_ROW]
+    reference = reference_coefficients(matrix, 80)
+    assert result.rank == 2 and result.zeros == 2
+    for term, ref in zip(result.terms, reference):
+        assert term.digits >= 1 and agrees(certain_text(term.value, term.digits), ref, term.digits)
+
+
+@pytest.mark.xfail(strict=True, reason="known limit: a tiny eigenvalue clustered with exact zeros far "
+                                       "below ||C||^2 stalls the refinement (5 of 20 digits)")
+def test_tiny_coefficient_beside_exact_zeros_gets_all_its_digits():
+    assert rank_two_with_huge_row().complete
