@@ -93,3 +93,17 @@ def test_a_product_of_gates_acts_right_to_left():
     # CNOT (H x 1)|00> = (|00> + |11>)/sqrt(2) (fact of the trade: the Bell circuit)
     found = value("(|0><0| ⊗ id(2) + |1><1| ⊗ [[0, 1], [1, 0]]) on([[1, 1], [1, -1]]/sqrt(2), 1) |00>")
     assert found.terms == {(0, 0): sympy.sqrt(2) / 2, (1, 1): sympy.sqrt(2) / 2}
+
+
+def test_thresholds_through_statements():
+    # Werner 1989 with weight p^2: entangled iff p^2 > 1/3, i.e. p > 1/sqrt(3) (an irrational
+    # threshold shown with certified digits); isotropic qutrits (Horodecki & Horodecki 1999):
+    # NPT exactly for p > 1/4, and PPT below, never called separable (Horodecki 1997)
+    session = Session()
+    session.run("real p in [0, 1]\nspace A:2 B:2\ns = (|01> - |10>)/sqrt(2)")
+    text = session.run("separable p^2 |s><s| + (1 - p^2) id/4")[-1].text()
+    assert "p in (sqrt(3)/3, 1]" in text and "0.577350269189625764509148780502" in text
+    session.run("space A:3 B:3\nphi = (|00> + |11> + |22>)/sqrt(3)")
+    text = session.run("separable p |phi><phi| + (1 - p) id/9")[-1].text()
+    assert "p in [0, 1/4]  PPT" in text and "NPT (entangled)" in text
+    assert "separable" not in text.split("note")[0].replace("separability", "")

@@ -298,7 +298,7 @@ def region_text(region: mixed.Region) -> str:
 def _threshold_digits(regions: tuple[mixed.Region, ...], digits: int) -> tuple:
     points = {r.lo for r in regions if r.symbol is not None} | {r.hi for r in regions if r.symbol}
     shown = sorted((p for p in points if not p.is_Rational), key=sympy.default_sort_key)
-    return tuple(Field(f"  {language_text(p)}", exact_cell(p, digits)) for p in shown)
+    return tuple(Field("threshold", exact_cell(p, digits)) for p in shown)
 
 
 @command("separable", "separable RHO [CUT] [with NAME=VALUE, ...]",
