@@ -53,8 +53,8 @@ def test_catalysis_example_of_jonathan_and_plenio():
                 "space A:4 B:4 C:2 D:2")
     with_catalyst = session.run("compare psi chi, phi chi AC|BD")[0]
     data = with_catalyst.to_json()
-    assert data["fields"]["a_to_b_by_locc"]["text"] == "yes"
-    assert data["fields"]["b_to_a_by_locc"]["text"] == "no"
+    assert data["fields"]["forward"]["text"] == "yes" and data["fields"]["forward"]["value"]["holds"] is True
+    assert data["fields"]["backward"]["text"] == "no" and data["fields"]["backward"]["value"]["holds"] is False
 
 
 def test_catalysed_spectra_by_hand():

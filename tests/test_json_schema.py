@@ -49,6 +49,15 @@ def test_rank_is_an_int_and_exact_numbers_carry_certified_digits(capsys):
     assert fields["schmidt_form"]["label"] == "schmidt form"
 
 
+def test_compare_gives_verdicts_under_stable_names(capsys):
+    # Nielsen 1999: the Bell pair converts to any two-qubit state by LOCC, not back
+    [data] = objects(capsys, "-c", "compare |00> + |11>, sqrt(3)/2|00> + 1/2|11>", "--json")
+    fields = data["fields"]
+    assert fields["forward"]["value"]["holds"] is True
+    assert fields["backward"]["value"]["holds"] is False
+    assert fields["p_backward"]["value"]["exact"] == "1/2"  # Vidal: min over k of tail ratios
+
+
 def test_verdicts_are_true_false_or_null_with_method_and_proof(capsys):
     holds, fails = objects(capsys, "-c", "real t\ncheck cos(t)^2 + sin(t)^2 = 1\ncheck cos(t)^2 = 1",
                            "--json")[1:]
@@ -71,6 +80,8 @@ def test_strata_points_are_objects(capsys):
     assert ranks == [2, 1]
     assert all(set(sample) == {"t"} for sample in samples)
     assert samples[1]["t"] == 0  # the sample of the rank-1 stratum {0, pi/2}: its first point
+    low = table["rows"][1][1]["value"]
+    assert low[0] == {"t": 0} and low[1]["t"]["exact"] == "pi/2"
     assert samples[0]["t"]["exact"] == "pi/4"
 
 

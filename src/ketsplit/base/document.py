@@ -67,7 +67,22 @@ class Point(str):
         return (Point, (str(self), dict(self.coordinates)))
 
 
-Cell = Union[sympy.Basic, sympy.MatrixBase, Kets, Digits, Truth, Point, str, int]
+class Points(str):
+    """Several points in one cell (``t = 0; t = pi/2``): the display text, and each point's
+    coordinates for scripts."""
+
+    points: tuple[Point, ...]
+
+    def __new__(cls, text: str, points) -> "Points":
+        made = super().__new__(cls, text)
+        made.points = tuple(points)
+        return made
+
+    def __reduce__(self):
+        return (Points, (str(self), self.points))
+
+
+Cell = Union[sympy.Basic, sympy.MatrixBase, Kets, Digits, Truth, Point, Points, str, int]
 
 WORDS_OF_SIGNS = (("->", " to "), ("<=", " at most "), (">=", " at least "), ("+", " plus "))
 
@@ -83,18 +98,27 @@ def machine_name(label: str) -> str:
 
 @dataclass(frozen=True)
 class Field:
+    """``key``: the machine name scripts read, when the label holds words the user chose
+    (a state's name); by default the label in snake_case."""
+
     label: str
     value: Cell
+    key: str = ""
 
     @property
     def name(self) -> str:
-        return machine_name(self.label)
+        return self.key or machine_name(self.label)
 
 
 @dataclass(frozen=True)
 class Table:
     headers: tuple[str, ...]
     rows: tuple[tuple[Cell, ...], ...]
+    keys: tuple[str, ...] = ()  # machine names of the columns (default: from the headers)
+
+    @property
+    def names(self) -> tuple[str, ...]:
+        return self.keys or tuple(machine_name(h) for h in self.headers)
 
 
 @dataclass(frozen=True)

@@ -17,7 +17,7 @@ from ..figures import (certified_figures, LOGARITHMIC, NAMES, Spectrum, overview
                        unknown_figure, verdict, without_extrema)
 from ..base.errors import InputError, Span
 from ..plots import COEFFICIENTS, Family, family_chart, figure_label, terminal_lines, write_chart, write_data
-from ..base.document import Digits, Field, Note, Plot, Report, Table
+from ..base.document import Digits, Field, Note, Plot, Report, Table, Truth
 from ..states import State
 from .registry import CommandCall, command
 
@@ -216,10 +216,9 @@ def two_states(call: CommandCall) -> tuple[tuple[str, State], tuple[str, State],
     return ((pieces[0][0].strip(), placed[0]), (pieces[1][0].strip(), placed[1]), cut_text, column)
 
 
-def _yes(flag: bool | None) -> str:
-    if flag is None:  # the decision layer could not settle it; the notes say how to
-        return "undecided"
-    return "yes" if flag else "no"
+def _yes(flag: bool | None, method: str = "") -> Truth:
+    """yes / no / undecided (the decision layer could not settle it; the notes say how to)."""
+    return Truth("undecided" if flag is None else "yes" if flag else "no", flag, method)
 
 
 @command("compare", "compare STATE STATE [CUT] [with NAME=VALUE, ...]",
@@ -238,20 +237,28 @@ def run_compare(call: CommandCall) -> Report:
                                   found.steps)))
     items = (
         Table(("k", f"{a_name}: p_k", f"{b_name}: p_k", f"{a_name}: sum to k", f"{b_name}: sum to k",
-               f"{a_name} sum <= {b_name} sum"), rows),
-        Field("LU-equivalent", _yes(found.lu_equivalent)),
-        Field(f"{a_name} -> {b_name} by LOCC", _yes(found.forward)),
-        Field(f"{b_name} -> {a_name} by LOCC", _yes(found.backward)),
-        Field(f"best probability {a_name} -> {b_name}", _exact_and_digits(found.p_forward, digits)),
-        Field(f"best probability {b_name} -> {a_name}", _exact_and_digits(found.p_backward, digits)),
+               f"{a_name} sum <= {b_name} sum"), rows,
+              ("k", "source_p", "target_p", "source_sum", "target_sum", "source_sum_at_most_target_sum")),
+        Field("LU-equivalent", _yes(found.lu_equivalent, "equal Schmidt spectra"), "lu_equivalent"),
+        Field(f"{a_name} -> {b_name} by LOCC", _yes(found.forward, MAJORIZATION), "forward"),
+        Field(f"{b_name} -> {a_name} by LOCC", _yes(found.backward, MAJORIZATION), "backward"),
+        Field(f"best probability {a_name} -> {b_name}", _exact_and_digits(found.p_forward, digits),
+              "p_forward"),
+        Field(f"best probability {b_name} -> {a_name}", _exact_and_digits(found.p_backward, digits),
+              "p_backward"),
         Note("p_k: squared Schmidt coefficients, largest first; A -> B by LOCC exactly when every "
              "partial sum of A is at most B's (Nielsen); best probability by Vidal's formula"),
     )
     notes = ("incomparable: neither converts into the other with certainty",) if found.incomparable else ()
     notes += found.undecided
-    named = tuple(Field(name, text) for name, text in ((a_name, a_text), (b_name, b_text)) if name != text)
+    named = tuple(Field(name, text, key) for name, text, key in
+                  ((a_name, a_text, "source"), (b_name, b_text, "target")) if name != text)
     items = named + items
-    return Report(f"comparison of {a_name} and {b_name} across {cut_a.describe(a)}", items, notes)
+    return Report(f"comparison of {a_name} and {b_name} across {cut_a.describe(a)}", items, notes,
+                  value=found)
+
+
+MAJORIZATION = "majorization of the Schmidt spectra (Nielsen 1999)"
 
 
 def _ball_cell(value, digits: int):

@@ -6,7 +6,7 @@ import sympy
 
 from ..base.errors import InputError
 from ..language.printer import text
-from ..base.document import Note, Point, Report, Table
+from ..base.document import Note, Point, Points, Report, Table
 from ..numeric.values import exact_cell
 from ..strata import Stratum, strata
 from .registry import CommandCall, command
@@ -47,10 +47,11 @@ def equations_text(equations) -> str:
     return ", ".join(f"{text(e)} = 0" for e in equations)
 
 
-def where(stratum: Stratum, digits: int) -> str:
+def where(stratum: Stratum, digits: int) -> str | Points:
     if stratum.points is not None and not stratum.generic:
         places = "; ".join(point_text(p, digits) for p in stratum.points)
-        return ("not a state (every amplitude vanishes) at " if stratum.rank == 0 else "") + places
+        shown = ("not a state (every amplitude vanishes) at " if stratum.rank == 0 else "") + places
+        return Points(shown, (point_cell(p, digits) for p in stratum.points))
     return stratum.description.removeprefix(f"rank {stratum.rank} ")
 
 

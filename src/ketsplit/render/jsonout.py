@@ -4,7 +4,7 @@ Every cell is ``{"text", "latex", "value"}``: the display text and LaTeX, and
 the value typed for a program: integers (ranks) as numbers, exact numbers as
 ``{"exact": our syntax, "digits": certified decimals, "certain": how many}``,
 verdicts as ``{"holds": true/false/null, "method", "proof", "hint"}``,
-points as objects ``{name: value}``.  Fields are keyed by a stable machine
+points as objects ``{name: value}`` (several points: a list of them).  Fields are keyed by a stable machine
 name (snake_case of the label), the label kept beside the value.
 """
 
@@ -13,7 +13,7 @@ from __future__ import annotations
 import sympy
 from flint import arb
 
-from ..base.document import Digits, Field, Kets, Note, Plot, Point, Report, Table, Truth, machine_name
+from ..base.document import Digits, Field, Kets, Note, Plot, Point, Points, Report, Table, Truth
 from ..base.errors import InputError
 from ..numeric.digits import digits_cell
 from ..numeric.enclose import enclose
@@ -66,6 +66,8 @@ def typed(cell):
         return {"holds": cell.holds, "method": cell.method, "proof": cell.proof, "hint": cell.hint}
     if isinstance(cell, Point):
         return {name: typed(value) for name, value in cell.coordinates}
+    if isinstance(cell, Points):
+        return [typed(point) for point in cell.points]
     if isinstance(cell, str):
         return str(cell)
     if isinstance(cell, Digits):
@@ -93,7 +95,7 @@ def field_data(item: Field) -> dict:
 
 
 def table_data(item: Table) -> dict:
-    return {"headers": list(item.headers), "names": [machine_name(h) for h in item.headers],
+    return {"headers": list(item.headers), "names": list(item.names),
             "rows": [[cell_data(c) for c in row] for row in item.rows]}
 
 
