@@ -145,3 +145,20 @@ def test_figures_round_trip():
     for value in (found, plain):
         for back in round_trips(value):
             assert back == value and type(back) is type(value)
+
+
+def test_a_statement_result_keeps_its_value():
+    session = ketsplit.Session()
+    rank, decomposition, verdict, found, comparison = session.run(
+        "real t in [0, pi/2]\n"
+        "rank |000> + |111> 1|23; schmidt (sqrt(3)|00> + |11>)/2; check cos(t)^2 + sin(t)^2 = 1\n"
+        "strata cos(t)|00> + sin(t)|11>; compare |00> + |11>, |00>")[1:]
+    assert rank.value == 2  # GHZ across 1|23: rank 2 (fact of the trade)
+    assert decomposition.value == ketsplit.schmidt(ketsplit.ket("(sqrt(3)|00> + |11>)/2"), "1|2")
+    assert verdict.value.holds is True
+    assert [s.rank for s in found.value] == [2, 1]
+    assert comparison.value.forward is True  # Nielsen: an entangled pair reaches a product state
+    for result in (rank, decomposition, verdict, found, comparison):
+        back = pickle.loads(pickle.dumps(result))  # the whole result: report, value and renderings
+        assert back.value == result.value and back.report == result.report
+        assert back.text() == result.text() and back.to_json() == result.to_json()

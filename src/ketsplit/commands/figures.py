@@ -146,7 +146,8 @@ def run_figures(call: CommandCall) -> Report:
         rows = tuple((label, value, certified(value, digits)) for label, value in values.items())
         squared = list(d.squared)
     items = (Field("squared Schmidt coefficients", squared),
-             Table(("figure", "exact", f"certified digits (up to {digits})"), rows))
+             Table(("figure", "exact", f"certified digits (up to {digits})"), rows,
+                   ("figure", "exact", "certified_digits")))
     return Report(f"entanglement figures of {trimmed.subject()} across {cut.describe(state)}",
                   items, d.notes)
 
