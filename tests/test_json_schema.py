@@ -7,8 +7,10 @@ import re
 from pathlib import Path
 
 import mpmath
+import sympy
 
-from ketsplit.base.document import machine_name
+from ketsplit.base.document import Between, Digits, machine_name
+from ketsplit.render.jsonout import typed
 from ketsplit.cli import main
 
 README = Path(__file__).resolve().parents[1] / "README.md"
@@ -95,3 +97,15 @@ def test_machine_names_are_snake_case_and_stable():
     assert machine_name("A -> B by LOCC") == "a_to_b_by_locc"
     assert machine_name("left vector (1)") == "left_vector_1"
     assert machine_name("rank <=") == "rank_at_most"
+
+
+def test_typed_cells_for_scripts():
+    assert typed(Between("undecided at this precision: between 2 and 3", 2, 3)) == {
+        "undecided": True, "at_least": 2, "at_most": 3}
+    assert typed(Digits("0.70710678", 8)) == {"exact": None, "digits": "0.70710678", "certain": 8}
+    # 1/sqrt(2) = 0.707106781186547524400844362105 (mpmath)
+    value = typed(1 / sympy.sqrt(2))
+    assert value["exact"] == "sqrt(2)/2" and value["certain"] == 30
+    with mpmath.workdps(50):
+        assert value["digits"] == mpmath.nstr(1 / mpmath.sqrt(2), 30)
+    assert typed(sympy.Symbol("t", real=True) ** 2) == {"exact": "t^2"}

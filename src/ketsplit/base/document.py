@@ -82,7 +82,23 @@ class Points(str):
         return (Points, (str(self), self.points))
 
 
-Cell = Union[sympy.Basic, sympy.MatrixBase, Kets, Digits, Truth, Point, Points, str, int]
+class Between(str):
+    """An undecided whole number (a rank a ball enclosure could not settle): the display
+    text, and the bounds proved for it."""
+
+    low: int
+    high: int
+
+    def __new__(cls, text: str, low: int, high: int) -> "Between":
+        made = super().__new__(cls, text)
+        made.low, made.high = int(low), int(high)
+        return made
+
+    def __reduce__(self):
+        return (Between, (str(self), self.low, self.high))
+
+
+Cell = Union[sympy.Basic, sympy.MatrixBase, Kets, Digits, Truth, Point, Points, Between, str, int]
 
 WORDS_OF_SIGNS = (("->", " to "), ("<=", " at most "), (">=", " at least "), ("+", " plus "))
 

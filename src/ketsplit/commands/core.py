@@ -10,7 +10,7 @@ from .. import decomposition
 from ..cuts import Cut
 from ..decomposition import Decomposition
 from ..states import State
-from ..base.document import Field, Kets, Note, Report, Table
+from ..base.document import Between, Field, Kets, Note, Report, Table
 from dataclasses import replace
 
 from ..exact.schmidt import nonzero_entries
@@ -138,7 +138,8 @@ def run_reduce(call: CommandCall) -> Report:
 def run_rank(call: CommandCall) -> Report:
     state, cut, found = decompose(call, vectors=False)
     if found.certified is not None:  # a rank proved by enclosures, or said to be undecided
-        rank = found.rank if found.rank is not None else found.certified.rank_text()
+        rank = found.rank if found.rank is not None else Between(found.certified.rank_text(),
+                                                                 *found.certified.rank_bounds)
         return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", rank),), found.notes,
                       value=found.rank)
     note = () if not state.symbols or call.point else (

@@ -4,7 +4,8 @@ Every cell is ``{"text", "latex", "value"}``: the display text and LaTeX, and
 the value typed for a program: integers (ranks) as numbers, exact numbers as
 ``{"exact": our syntax, "digits": certified decimals, "certain": how many}``,
 verdicts as ``{"holds": true/false/null, "method", "proof", "hint"}``,
-points as objects ``{name: value}`` (several points: a list of them).  Fields are keyed by a stable machine
+points as objects ``{name: value}`` (several points: a list of them), an
+undecided rank as ``{"undecided": true, "at_least": 2, "at_most": 3}``.  Fields are keyed by a stable machine
 name (snake_case of the label), the label kept beside the value.
 """
 
@@ -13,7 +14,8 @@ from __future__ import annotations
 import sympy
 from flint import arb
 
-from ..base.document import Digits, Field, Kets, Note, Plot, Point, Points, Report, Table, Truth
+from ..base.document import (Between, Digits, Field, Kets, Note, Plot, Point, Points, Report, Table,
+                             Truth)
 from ..base.errors import InputError
 from ..numeric.digits import digits_cell
 from ..numeric.enclose import enclose
@@ -68,6 +70,8 @@ def typed(cell):
         return {name: typed(value) for name, value in cell.coordinates}
     if isinstance(cell, Points):
         return [typed(point) for point in cell.points]
+    if isinstance(cell, Between):
+        return {"undecided": True, "at_least": cell.low, "at_most": cell.high}
     if isinstance(cell, str):
         return str(cell)
     if isinstance(cell, Digits):
