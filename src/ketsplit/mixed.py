@@ -75,10 +75,6 @@ class Density:
     def part_names(self) -> tuple[str, ...]:
         return self.names or tuple(str(k + 1) for k in range(len(self.dims)))
 
-    def subs(self, point: dict) -> "Density":
-        kept = tuple(p for p in self.params if p.symbol not in point)
-        return Density(self.matrix.subs(point), self.dims, self.names, kept, self.notes)
-
 
 # -- making a density matrix -------------------------------------------------------
 
@@ -501,7 +497,7 @@ def _descending(values: list[sympy.Expr], box) -> list[sympy.Expr]:
     return result
 
 
-MAX_SPLITS = 8
+MAX_PIECES = 64  # pieces of a range a piecewise answer may need
 
 
 def over_range(rho: Density, values: list[sympy.Expr],
@@ -517,7 +513,7 @@ def over_range(rho: Density, values: list[sympy.Expr],
     (symbol,) = symbols
     pending = [rho.box[symbol]]
     done: list[Piece] = []
-    for _ in range(MAX_SPLITS * 8):
+    for _ in range(MAX_PIECES):
         if not pending:
             return _merged(sorted(done, key=cmp_to_key(_by_start)), symbol)
         lo, hi = pending.pop()
@@ -618,7 +614,7 @@ def separability(rho: Density, cut: Cut) -> Separability:
 
     The right side of the cut is transposed.  A constant matrix gives one region."""
     sides = (prod(rho.dims[p] for p in cut.left), prod(rho.dims[p] for p in cut.right))
-    decisive = tuple(sorted(sides)) in {(2, 2), (2, 3)}
+    decisive = sides in EXACT_SIDES
     coefficients = charpoly_coefficients(partial_transpose(rho, cut.right))
     symbols = set().union(*(a.free_symbols for a in coefficients))
     name = _namer(decisive)
