@@ -151,13 +151,13 @@ def test_digits_inside_the_limits():
 def test_a_statement_over_its_time_limit_is_stopped_and_changes_nothing():
     session = Session()
     session.run("x = |00> + |11>")
+    session.run("limits seconds=1")  # the limits belong to the session
     before = dict(session.bindings)
-    with limits.limits_set(seconds=1):
-        started = time.monotonic()
-        with pytest.raises(LimitError) as info:
-            # 100000 distinct powers of t summed term by term: far beyond 1 s
-            session.run("x = sum(n=0..99999, t^(n/100) |0>) + |1>")
-        assert time.monotonic() - started < 10
+    started = time.monotonic()
+    with pytest.raises(LimitError) as info:
+        # 100000 distinct powers of t summed term by term: far beyond 1 s
+        session.run("x = sum(n=0..99999, t^(n/100) |0>) + |1>")
+    assert time.monotonic() - started < 10
     assert_names(info.value, "seconds")
     assert "stopped after 1 s" in info.value.message
     assert session.bindings == before
@@ -172,11 +172,23 @@ def test_the_limits_statement_lists_every_limit():
         assert name in text
 
 
-def test_the_limits_statement_sets_limits():
-    Session().run("limits parts=3 seconds=2.5 dimension=2^70")
-    now = limits.current()
+def test_the_limits_statement_sets_the_limits_of_its_session_only():
+    session = Session()
+    session.run("limits parts=3 seconds=2.5 dimension=2^70")
+    now = session.limits
     assert (now.parts, now.seconds, now.dimension) == (3, 2.5, 2 ** 70)
-    assert_names(refusal("|0000>"), "parts")
+    with pytest.raises(LimitError) as info:
+        session.run("|0000>")
+    assert_names(info.value, "parts")
+    assert Session().limits == limits.Limits() and limits.current() == limits.Limits()
+
+
+def test_a_limit_raised_in_one_session_lets_its_digits_through():
+    # issue 12: 'limits max_digits=20000; digits 12000' was accepted, then numeric refused it
+    session = Session()
+    session.run("limits max_digits=20000; digits 12000")
+    assert session.settings.digits == 12000
+    assert "rank: 2" in session.run("numeric |00> + 2|11>")[0].text()
 
 
 @pytest.mark.parametrize("text, fragment", [

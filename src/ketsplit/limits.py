@@ -29,12 +29,13 @@ seconds            600         wall-clock seconds one statement may run before i
                                is stopped (0 switches the limit off)
 =================  ==========  ==================================================
 
-How to change them (the limits are process-wide):
+How to change them (each Session holds its own; new Sessions start from the defaults):
 
 - in the state language: ``limits`` lists them, ``limits parts=128 seconds=60``
-  sets some (in the shell or ``ketsplit -c``; a worksheet read from a file may
-  not change the limits that protect its reader);
-- from Python: ``ketsplit.limits.set_limits(parts=128)`` (returns the limits it
+  sets some for that Session (in the shell or ``ketsplit -c``; a worksheet read
+  from a file may not change the limits that protect its reader);
+- from Python: ``Session(limits=...)``, ``ketsplit.limits.set_limits(parts=128)``
+  (the defaults of new Sessions and of API calls; returns the limits it
   replaced), or for a block ``with ketsplit.limits.limits_set(parts=128): ...``;
 - from the environment, read once at import:
   ``KETSPLIT_LIMITS="parts=128,seconds=60"``.
@@ -45,6 +46,7 @@ from __future__ import annotations
 import os
 import warnings
 from contextlib import contextmanager
+from contextvars import ContextVar
 from dataclasses import asdict, dataclass, fields, replace
 from typing import Iterator
 
@@ -108,43 +110,64 @@ def shown(value: int | float) -> str:
     """A limit's value as text: whole numbers in full, seconds in short form."""
     return f"{value:g}" if isinstance(value, float) else str(value)
 
-_current = Limits()
+_default = Limits()   # for Sessions made from now on, and for API calls outside a Session
+_in_force: ContextVar[Limits | None] = ContextVar("ketsplit_limits", default=None)
 
 
 def current() -> Limits:
-    """The limits in force now."""
-    return _current
+    """The limits in force now: those of the Session running a statement, else the default."""
+    return _in_force.get() or _default
 
 
-def set_limits(**changes: int | float) -> Limits:
-    """Change some limits (by name); returns the limits that were in force before."""
-    global _current
+def default() -> Limits:
+    """The limits a new Session starts with (the defaults, KETSPLIT_LIMITS, set_limits)."""
+    return _default
+
+
+def changed(base: Limits, **changes: int | float) -> Limits:
+    """``base`` with some limits changed by name; ValueError for an unknown name or value."""
     unknown = sorted(set(changes) - set(NAMES))
     if unknown:
         raise ValueError(f"no limit named {unknown[0]!r}; the limits are {', '.join(NAMES)}")
-    previous = _current
-    _current = replace(_current, **changes)
+    return replace(base, **changes)
+
+
+def set_limits(**changes: int | float) -> Limits:
+    """Change some of the limits in force now (by name); returns those that were in force.
+
+    Outside any block this changes the defaults: new Sessions and API calls
+    take them.  Inside a ``limits_set`` block it changes that block's limits.
+    Sessions keep the limits they were made with; the ``limits`` statement
+    changes its own Session's."""
+    global _default
+    previous = current()
+    if _in_force.get() is not None:
+        _in_force.set(changed(previous, **changes))
+    else:
+        _default = changed(_default, **changes)
     return previous
 
 
 @contextmanager
 def limits_set(**changes: int | float) -> Iterator[Limits]:
     """Run a block with some limits changed, restoring the previous ones after it."""
-    previous = set_limits(**changes)
+    with using(changed(current(), **changes)) as found:
+        yield found
+
+
+@contextmanager
+def using(found: Limits) -> Iterator[Limits]:
+    """Run a block with ``found`` in force (a Session runs each statement so)."""
+    token = _in_force.set(found)
     try:
-        yield _current
+        yield found
     finally:
-        _set_whole(previous)
-
-
-def _set_whole(limits: Limits) -> None:
-    global _current
-    _current = limits
+        _in_force.reset(token)
 
 
 def how_to_change(name: str) -> str:
     """The words every refusal ends with: which limit, its value, and how to change it."""
-    return f"the limit {name} = {shown(getattr(_current, name))} (change it with 'limits {name}=N')"
+    return f"the limit {name} = {shown(getattr(current(), name))} (change it with 'limits {name}=N')"
 
 
 def over_time(seconds: float, span: Span | None = None, source: str | None = None) -> LimitError:
@@ -161,7 +184,7 @@ def refuse(what: str, name: str, span: Span | None = None, source: str | None = 
 def check(value: int | float, name: str, what: str, span: Span | None = None,
           source: str | None = None) -> None:
     """Refuse when ``value`` exceeds the limit ``name``; ``what`` describes the request."""
-    if value > getattr(_current, name):
+    if value > getattr(current(), name):
         raise refuse(what, name, span, source)
 
 

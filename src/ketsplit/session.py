@@ -66,6 +66,7 @@ class Session:
     """Names, declarations, space and settings; runs statements."""
 
     settings: Settings = field(default_factory=Settings)
+    limits: limits.Limits = field(default_factory=limits.current)  # the limits in force when made
     bindings: dict[str, object] = field(default_factory=dict)
     params: dict[str, Parameter] = field(default_factory=dict)
     space: Space | None = None
@@ -111,10 +112,10 @@ class Session:
 
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""
-        seconds = limits.current().seconds
+        seconds = self.limits.seconds
         try:
-            with time_limited(seconds, lambda: limits.over_time(seconds, Span(line, 1, len(statement)),
-                                                                statement)):
+            with limits.using(self.limits), time_limited(
+                    seconds, lambda: limits.over_time(seconds, Span(line, 1, len(statement)), statement)):
                 return dispatch(self, statement, line)
         except InputError as err:
             raise relocate(err, statement, line) from None

@@ -21,7 +21,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from fractions import Fraction
 
-from flint import arb
+from flint import arb, fmpz
 
 from ..base.document import Digits
 
@@ -66,10 +66,16 @@ def endpoints(ball: arb) -> tuple[Fraction, Fraction]:
     return mid - rad, mid + rad
 
 
+def decimal_text(number: int) -> str:
+    """The decimal digits of an integer of any length (Python's own str() refuses more than
+    4300 digits; python-flint's does not)."""
+    return str(fmpz(number))
+
+
 def decimal_exponent(value: Fraction) -> int:
     """floor(log10 |value|) for a nonzero fraction, exactly."""
     value = abs(value)
-    guess = len(str(value.numerator)) - len(str(value.denominator))
+    guess = len(decimal_text(value.numerator)) - len(decimal_text(value.denominator))
     while Fraction(10) ** guess > value:
         guess -= 1
     while Fraction(10) ** (guess + 1) <= value:
@@ -100,7 +106,7 @@ def round_at(lo: Fraction, hi: Fraction, significant: int) -> Rounded | None:
     inside = (cell[0] < lo and hi < cell[1]) or (lo == hi and cell[0] <= lo <= cell[1])
     if not inside:
         return None
-    text = str(nearest)
+    text = decimal_text(nearest)
     if len(text) > significant:  # the whole ball rounds up to the next power of ten
         text, exponent = text[:significant], exponent + 1
     return Rounded(negative, text, exponent)
@@ -132,7 +138,7 @@ def zero_bound_text(ball: arb) -> str:
     if upper.is_zero():
         return "0"
     _, top, exponent = decimal_enclosure(upper, 1)
-    length = len(str(top))
+    length = len(decimal_text(top))
     lead = -(-top // 10 ** (length - 1))  # ceiling of the leading digit
     exponent += length - 1
     if lead == 10:
