@@ -12,7 +12,7 @@ import pytest
 import sympy
 
 import ketsplit
-from ketsplit.checking import Verdict, check
+from ketsplit import Verdict, check
 from ketsplit.checking.verdict import DIFFERENCE
 
 mpmath.mp.dps = 60
