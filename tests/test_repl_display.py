@@ -5,7 +5,7 @@ from __future__ import annotations
 import sympy
 
 from ketsplit.render.pretty import kets_picture, table_text, text
-from ketsplit.render.report import Digits, Field, Kets, Report, Table
+from ketsplit.base.document import Digits, Field, Kets, Report, Table
 from ketsplit.render.text import to_text
 from ketsplit.repl.display import Mode, fold
 

@@ -9,7 +9,7 @@ import time
 import pytest
 
 from ketsplit.commands.registry import COMMANDS, Command
-from ketsplit.render.report import Report
+from ketsplit.base.document import Report
 
 from repl_driver import CTRL_C, CTRL_D, ENTER, TAB, drive, new_shell, shell_mode
 

@@ -7,7 +7,7 @@ import os
 import termios
 
 from ketsplit.commands.registry import COMMANDS, Command
-from ketsplit.render.report import Report
+from ketsplit.base.document import Report
 from ketsplit.repl.terminal import no_echo, terminal_fd
 
 from repl_driver import new_shell

@@ -9,8 +9,8 @@ from ..numeric.certified import SchmidtVector
 from ..numeric.digits import certain_text, digits_cell
 from ..numeric.schmidt import CertifiedSchmidt, certified_schmidt
 from ..planner import METHODS
-from ..render.ketprint import label_text
-from ..render.report import Field, Report, Table
+from ..language.printer import label_text
+from ..base.document import Field, Report, Table
 from ..states import State
 from .registry import CommandCall, command
 

@@ -4,7 +4,7 @@ the shell's keys.  ``help TOPIC`` shows them wherever statements run (the shell,
 
 from __future__ import annotations
 
-from ..render.report import Note, Report
+from ..base.document import Note, Report
 
 TOPICS: dict[str, tuple[str, ...]] = {
     "kets": (

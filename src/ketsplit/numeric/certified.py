@@ -15,7 +15,7 @@ from dataclasses import dataclass
 import mpmath
 from flint import acb, arb, ctx
 
-from ..render.report import Digits
+from ..base.document import Digits
 from .digits import certain_text, digits_cell
 
 BITS_PER_DIGIT = math.log2(10)
