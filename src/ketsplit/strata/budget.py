@@ -6,7 +6,7 @@ deadline for the whole search; :meth:`Budget.run` runs a step under
 that interrupts sympy's pure-Python loops; it is armed only in the main
 thread, elsewhere the deadline is checked between steps by
 :meth:`Budget.check`).  Running out raises :class:`BudgetExceeded`, a
-:class:`~ketsplit.language.errors.LimitError`: the limit stops the whole
+:class:`~ketsplit.base.errors.LimitError`: the limit stops the whole
 computation, it never shortens the answer.
 """
 

@@ -76,7 +76,7 @@ class Strata(list):
     Every listed stratum is proved (with a verified sample point); loci proved
     to hold no point inside the ranges are named in ``notes``; loci that were
     neither are in ``undecided``, never in the list.  A computation that runs
-    out of time raises :class:`~ketsplit.language.errors.LimitError` instead of
+    out of time raises :class:`~ketsplit.base.errors.LimitError` instead of
     returning part of the list.
     """
 
