@@ -310,6 +310,8 @@ def test_statement_errors_are_input_errors_with_a_place():
     with pytest.raises(InputError, match="not Hermitian") as caught:
         session.run("density [[1, 2], [3, 4]]")
     assert caught.value.span is not None and caught.value.span.column == 9
+    with pytest.raises(InputError, match="one space"):
+        session.run("fidelity |0>, [[1, 0, 0, 0], [0, 0, 0, 0], [0, 0, 0, 0], [0, 0, 0, 0]]")
     with pytest.raises(InputError, match="does not fit the parts"):
         session.run("concurrence [[1,0,0],[0,1,0],[0,0,1]]/3")
     session.run("space A:2 B:3")

@@ -404,6 +404,9 @@ def _ball_entropy(values: list[arb], base: int) -> arb:
 def fidelity(a: Density | State, b: Density | State, digits: int = 30) -> Number:
     """(tr sqrt(sqrt(a) b sqrt(a)))^2: |<psi|phi>|^2 and <psi|rho|psi> exactly; two mixed states
     through the eigenvalues of a b, which equal those of sqrt(a) b sqrt(a) (all >= 0)."""
+    if prod(a.dims) != prod(b.dims):
+        raise InputError(f"fidelity compares states of one space: these have {prod(a.dims)} and "
+                         f"{prod(b.dims)} levels")
     if isinstance(a, State) and isinstance(b, State):
         overlap = (column(a).H * column(b))[0, 0]
         return sympy.simplify(sympy.expand(overlap * sympy.conjugate(overlap)))
