@@ -18,6 +18,7 @@ decimal enclosure contains the ball, so a digit certain for it is certain.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from fractions import Fraction
 
@@ -75,12 +76,20 @@ def decimal_text(number: int) -> str:
 def decimal_exponent(value: Fraction) -> int:
     """floor(log10 |value|) for a nonzero fraction, exactly."""
     value = abs(value)
-    guess = len(decimal_text(value.numerator)) - len(decimal_text(value.denominator))
-    while Fraction(10) ** guess > value:
+    bits = value.numerator.bit_length() - value.denominator.bit_length()
+    guess = math.floor(bits * LOG10_2)  # within one of the answer
+    while _power_of_ten(guess) > value:
         guess -= 1
-    while Fraction(10) ** (guess + 1) <= value:
+    while _power_of_ten(guess + 1) <= value:
         guess += 1
     return guess
+
+
+LOG10_2 = math.log10(2)
+
+
+def _power_of_ten(exponent: int) -> Fraction:
+    return Fraction(10 ** exponent) if exponent >= 0 else Fraction(1, 10 ** -exponent)
 
 
 def round_at(lo: Fraction, hi: Fraction, significant: int) -> Rounded | None:
