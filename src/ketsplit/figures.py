@@ -22,7 +22,8 @@ from .cuts import Cut, reduced, side_dimension
 from .decomposition import Decomposition, decompose, symmetric_schmidt
 from .exact.signs import box_of, drop_abs
 from .base.errors import InputError
-from .planner import MAX_FIELD_DEGREE, field_degree_bound
+from .exact.numbers import field_degree_bound
+from .planner import MAX_FIELD_DEGREE
 from .states import State, simplify_real
 from .symmetric import SymmetricState, cut_classes
 from . import limits

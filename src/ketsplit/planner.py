@@ -34,6 +34,7 @@ import sympy
 from sympy.polys.polyerrors import CoercionFailed
 
 from .cuts import CoefficientMatrix, Cut
+from .exact.numbers import field_degree_bound
 from .states import State
 
 Route = Literal["exact", "certified", "symmetric"]
@@ -171,48 +172,12 @@ def irreducible_factors(real: flint.fmpz_mat, imag: flint.fmpz_mat) -> list[flin
 
 
 def _algebraic(values) -> bool:
-    """Every amplitude lies in a number field of degree at most MAX_FIELD_DEGREE."""
-    degree = field_degree_bound(values)
+    """Every amplitude lies in a number field of degree at most MAX_FIELD_DEGREE, bounded
+    from the atoms alone (roots of rationals, roots of unity, cos/sin of rational multiples
+    of pi; :func:`ketsplit.exact.numbers.field_degree_bound`); pi itself, e, exp(1),
+    cos(1) are treated as transcendental."""
+    degree = field_degree_bound(list(values))
     return degree is not None and degree <= MAX_FIELD_DEGREE
 
 
-def field_degree_bound(values) -> int | None:
-    """An upper bound of the degree of the number field holding ``values``; None if some
-    value may be transcendental.  Stops counting past MAX_FIELD_DEGREE.
-
-    The degree is bounded from the atoms alone, without computing a primitive
-    element: an n-th root of a rational adds a factor n, a root of unity or a
-    cosine or sine of a rational multiple of pi with denominator q a factor
-    phi(2q) (its field lies in the cyclotomic field of order 2q).  Anything
-    else (pi itself, e, exp(1), cos(1)) is treated as transcendental.
-    """
-    degree = 1
-    for atom in set().union(*(_atoms(v) for v in values)):
-        found = _atom_degree(atom)
-        if found is None:
-            return None
-        degree *= found
-        if degree > MAX_FIELD_DEGREE:
-            return degree
-    return degree
-
-
-def _atoms(value: sympy.Expr) -> set[sympy.Expr]:
-    """The irrational building blocks of a number: roots and function values."""
-    return {node for node in sympy.preorder_traversal(value)
-            if (node.is_Pow and not node.exp.is_Integer) or isinstance(node, sympy.Function)
-            or node in (sympy.pi, sympy.E)}
-
-
-def _atom_degree(atom: sympy.Expr) -> int | None:
-    """An upper bound of the degree of the field an atom generates, or None if not algebraic."""
-    if atom.is_Pow and atom.base.is_Rational and atom.exp.is_Rational:
-        return int(atom.exp.q)
-    if isinstance(atom, (sympy.cos, sympy.sin, sympy.exp)):
-        turn = atom.args[0] / (sympy.pi * (sympy.I if isinstance(atom, sympy.exp) else 1))
-        if turn.is_Rational:
-            return int(sympy.totient(2 * turn.q))
-    return None
-
-
-__all__ = ["Plan", "plan", "METHODS", "irreducible_factors", "field_degree_bound"]
+__all__ = ["Plan", "plan", "METHODS", "irreducible_factors"]
