@@ -249,7 +249,7 @@ def spectrum(matrix: sympy.MatrixBase, digits: int = 30) -> Spectrum:
     if matrix.free_symbols:
         try:
             return Spectrum(tuple(eigenvalues(sympy.Matrix(matrix))), True)
-        except NoClosedForm as why:
+        except (NoClosedForm, TypeError) as why:  # TypeError: sympy cannot pivot on |t|-forms
             raise InputError(f"no closed form for this spectrum ({why}); give the parameters "
                              "values with 'with p=...' for certified digits") from None
     coefficients = charpoly_coefficients(matrix)
