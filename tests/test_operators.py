@@ -107,3 +107,21 @@ def test_thresholds_through_statements():
     text = session.run("separable p |phi><phi| + (1 - p) id/9")[-1].text()
     assert "p in [0, 1/4]  PPT" in text and "NPT (entangled)" in text
     assert "separable" not in text.split("note")[0].replace("separability", "")
+
+
+ATOMS = ["|0>", "<1|", "|0><1|", "[[0, 1], [1, 0]]", "id(2)", "on([[0, 1], [1, 0]], 1)", "2", "t",
+         "<0|1>", "|00>", "<01|", "adj(<0|)", "id(3)", "[[1, 2, 3]]", "|psi>", "<psi|"]
+JOINS = [" ", " + ", " - ", " ⊗ ", " * ", " / ", "^"]
+
+
+@pytest.mark.parametrize("join", JOINS)
+def test_every_pair_of_operator_atoms_gives_a_value_or_an_input_error(join):
+    # robustness: no combination of bras, kets, operators and numbers is an internal error
+    session = Session()
+    session.run("psi = (|0> + |1>)/sqrt(2)")
+    for left in ATOMS:
+        for right in ATOMS:
+            try:
+                session.evaluate(left + join + right)
+            except InputError:
+                pass
