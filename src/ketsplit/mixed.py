@@ -244,8 +244,8 @@ def spectrum(matrix: sympy.MatrixBase, digits: int = 30) -> Spectrum:
     QQ; factors of degree <= 2 give closed forms, higher ones certified balls
     around their (simple) roots (python-flint ``fmpq_poly.complex_roots``).
     Parameters: closed forms (:mod:`ketsplit.exact.eigen`) or an error asking
-    for a point.  Other constants: closed forms for small matrices, else balls
-    from ``acb_mat.eig``."""
+    for a point.  Other constants: closed forms for 2x2, else balls from
+    ``acb_mat.eig`` (factoring over a number field can take minutes on a 4x4)."""
     if matrix.free_symbols:
         try:
             return Spectrum(tuple(eigenvalues(sympy.Matrix(matrix))), True)
@@ -255,15 +255,10 @@ def spectrum(matrix: sympy.MatrixBase, digits: int = 30) -> Spectrum:
     coefficients = charpoly_coefficients(matrix)
     if all(c.is_Rational for c in coefficients):
         return _rational_spectrum(coefficients, digits)
-    if matrix.rows <= SMALL_ALGEBRAIC:
-        try:
-            return Spectrum(tuple(eigenvalues(sympy.Matrix(matrix))), True)
-        except NoClosedForm:
-            pass
+    if matrix.rows <= 2:  # a quadratic: closed forms in radicals
+        poly = sympy.Poly(coefficients, sympy.Dummy("x"))
+        return Spectrum(tuple((root, 1) for root in solve_factor(poly)), True)
     return certified_spectrum(matrix, digits)
-
-
-SMALL_ALGEBRAIC = 4  # constant non-rational matrices up to this size try closed forms first
 
 
 def _rational_spectrum(coefficients: list[sympy.Expr], digits: int) -> Spectrum:
@@ -709,8 +704,8 @@ class OperatorSchmidt:
     Hilbert-Schmidt inner product tr(A^dagger B)."""
 
     coefficients: tuple[Number, ...]
-    left: tuple[sympy.Matrix, ...]
-    right: tuple[sympy.Matrix, ...]
+    left: tuple  # sympy matrices, or python-flint acb_mat balls when not exact
+    right: tuple
     exact: bool
 
     @property
@@ -766,7 +761,11 @@ def operator_schmidt(operator: sympy.MatrixBase, dims: tuple[int, ...], cut: Cut
                            found.certified is None)
 
 
-def _square(vector: sympy.MatrixBase, size: int) -> sympy.Matrix:
+def _square(vector, size: int):
+    """A vector of size^2 entries as a size x size matrix: exact (sympy), or certified
+    (python-flint ``acb_mat`` of balls, from a certified Schmidt vector)."""
+    if hasattr(vector, "dense"):
+        return flint.acb_mat(size, size, vector.dense(size * size))
     return sympy.Matrix(size, size, lambda r, c: vector[r * size + c])
 
 

@@ -352,12 +352,19 @@ def _assumptions(call: CommandCall, name: str) -> dict:
 def run_opschmidt(call: CommandCall) -> Report:
     matrix, dims, frame, cut = operator_and_cut(call)
     found = mixed.operator_schmidt(matrix, dims, cut, _digits(call))
-    rows = tuple((k, number_cell(c, _digits(call)), a, b) for k, (c, a, b) in
-                 enumerate(zip(found.coefficients, found.left, found.right), start=1))
-    items = (Field("operator Schmidt rank", found.rank),
-             Table(("k", "coefficient", "left operator", "right operator"), rows))
-    return Report(f"operator Schmidt decomposition across {cut.describe(frame)}", items,
-                  ("operators orthonormal in tr(A^dagger B); O = sum_k c_k A_k (x) B_k",))
+    notes = ("operators orthonormal in tr(A^dagger B); O = sum_k c_k A_k (x) B_k",)
+    if found.exact:
+        rows = tuple((k, number_cell(c, _digits(call)), a, b) for k, (c, a, b) in
+                     enumerate(zip(found.coefficients, found.left, found.right), start=1))
+        table = Table(("k", "coefficient", "left operator", "right operator"), rows)
+    else:
+        rows = tuple((k, number_cell(c, _digits(call))) for k, c in
+                     enumerate(found.coefficients, start=1))
+        table = Table(("k", "coefficient"), rows)
+        notes += ("certified: the operators are enclosed in balls (ketsplit.operator_schmidt "
+                  "in Python gives them as python-flint acb_mat)",)
+    items = (Field("operator Schmidt rank", found.rank), table)
+    return Report(f"operator Schmidt decomposition across {cut.describe(frame)}", items, notes)
 
 
 @command("schmidtbasis", "schmidtbasis STATE [CUT] [with NAME=VALUE, ...]",
