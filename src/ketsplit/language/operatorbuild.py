@@ -10,11 +10,11 @@ from __future__ import annotations
 import sympy
 
 from . import operators
-from .operators import BraValue, LocalOperator, OperatorError, OperatorValue
+from .operators import OPERATOR_TYPES, BraValue, LocalOperator, OperatorError, OperatorValue
+from .values import KetValue, as_value, finished, is_scalar, kind_of, to_sympy
 from .syntax import BraLiteral, Call, KetLiteral, Name, Node
 
 OPERATOR_FUNCTIONS = ("id", "adj", "on")
-OPERATOR_TYPES = (BraValue, OperatorValue, LocalOperator)
 
 
 def article(word: str) -> str:
@@ -27,7 +27,6 @@ def is_operator(value) -> bool:
 
 def involves_operators(left, right) -> bool:
     """Whether a product of these two values is one of Dirac's (not kets or scalars alone)."""
-    from .build import KetValue
     kinds = (left, right)
     if any(isinstance(v, OPERATOR_TYPES) for v in kinds):
         return True
@@ -39,13 +38,11 @@ class OperatorBuilding:
     """Bras, operators, ``id``, ``adj`` and ``on`` for the Builder."""
 
     def _BraLiteral(self, node: BraLiteral) -> BraValue:
-        from .build import finished
         ket = finished(self._KetLiteral(KetLiteral(node.span, node.labels)))
         return operators.bra_of(ket, sympy.conjugate)
 
     def _named_ket(self, node: KetLiteral):
         """``|psi>`` for a name bound to a state: that state's ket (else None)."""
-        from .build import KetValue, as_value
         joined = "".join(node.labels)
         if not joined.isidentifier() or joined in self.bound:
             return None
@@ -92,7 +89,6 @@ class OperatorBuilding:
         return number - 1
 
     def _adjoint(self, value, node: Node):
-        from .build import KetValue, finished, is_scalar, to_sympy
         if is_scalar(value):
             return sympy.conjugate(to_sympy(value))
         value = finished(value)
@@ -101,7 +97,6 @@ class OperatorBuilding:
         return self._operator_call(node, lambda: operators.adjoint(value, sympy.conjugate, KetValue))
 
     def _finished_value(self, node: Node):
-        from .build import finished
         return finished(self.value(node))
 
     def _operator_call(self, node: Node, action):
@@ -112,7 +107,6 @@ class OperatorBuilding:
         raise AssertionError  # unreachable: fail raises
 
     def _operator_product(self, left, right, node: Node):
-        from .build import KetValue, finished, kind_of
         left, right = finished(left), finished(right)
         ket = (KetValue,)
         rules = [
@@ -137,7 +131,6 @@ class OperatorBuilding:
         raise AssertionError
 
     def _operator_tensor(self, left, right, node: Node):
-        from .build import finished
         if is_operator(left) and is_operator(right):
             return self._operator_call(node, lambda: operators.tensor(finished(left),
                                                                       finished(right)))
@@ -145,7 +138,6 @@ class OperatorBuilding:
         raise AssertionError
 
     def _operator_sum(self, left, right, node: Node):
-        from .build import finished, kind_of
         if is_operator(left) and is_operator(right):
             return self._operator_call(node, lambda: operators.add(finished(left), finished(right)))
         if isinstance(left, BraValue) and isinstance(right, BraValue):

@@ -296,3 +296,6 @@ def add_bras(a: BraValue, b: BraValue) -> BraValue:
 def scaled_local(gate: LocalOperator, factor: sympy.Expr) -> LocalOperator:
     (first, parts), *rest = gate.steps
     return LocalOperator(((OperatorValue(first.matrix * factor, first.dims), parts), *rest))
+
+
+OPERATOR_TYPES = (BraValue, OperatorValue, LocalOperator)
