@@ -20,7 +20,7 @@ from ..base.errors import InputError
 from ..numeric.digits import digits_cell
 from ..numeric.enclose import enclose
 from .latex import cell_latex
-from .ketprint import text
+from ..language.printer import text
 from .text import cell_text
 
 SCHEMA = 1
