@@ -265,3 +265,13 @@ def test_the_readme_table_quotes_the_messages(prelude, text):
     with pytest.raises(InputError) as info:
         session.run(text)
     assert f"| {info.value.message.replace('|', chr(92) + '|')} |" in readme, info.value.message
+
+
+def test_every_budget_a_message_mentions_can_be_set_by_a_statement():
+    # issue 12: the strata message names strata_budget; 'strata_budget 60' set it (not a product)
+    session = Session()
+    session.run("strata_budget 60")
+    assert session.settings.strata_budget == 60
+    assert "strata_budget" in session.run("help")[0].text()
+    with pytest.raises(InputError, match="expected seconds"):
+        session.run("strata_budget 60*x")

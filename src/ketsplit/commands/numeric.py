@@ -106,15 +106,31 @@ def run_method(call: CommandCall) -> Report:
          f"for the automatic route (0 to {MAX_BUDGET:g}; the route never depends on the clock)",
          "budget 0", topic="settings")
 def run_budget(call: CommandCall) -> Report:
-    text = call.args.strip()
-    column = call.offset + len(call.args) - len(call.args.lstrip())
-    plain = text.replace(".", "", 1)
-    seconds = float(text) if plain.isascii() and plain.isdigit() else None
-    if seconds is None or not 0 <= seconds <= MAX_BUDGET:
-        raise call.error(f"budget: expected seconds from 0 to {MAX_BUDGET:g}, found {text!r}",
-                         column, len(text) or 1)
+    seconds = seconds_argument(call)
     method = "certified" if seconds == 0 else "auto"
     call.session.settings = replace(call.session.settings, exact_budget=seconds, method=method)
     return Report(f"budget {seconds:g} s: method {method}",
                   notes=("the route is chosen from the state's structure, never from the clock; "
                          "'budget 0' asks for certified numbers (as 'method certified')",))
+
+
+@command("strata_budget", "strata_budget SECONDS",
+         f"seconds of exact algebra one 'strata' (or 'classes', 'map', plot marks) may take "
+         f"before it stops with a clear error (0 to {MAX_BUDGET:g}); never a partial answer",
+         "strata_budget 60", topic="settings")
+def run_strata_budget(call: CommandCall) -> Report:
+    seconds = seconds_argument(call)
+    call.session.settings = replace(call.session.settings, strata_budget=seconds)
+    return Report(f"strata_budget {seconds:g} s")
+
+
+def seconds_argument(call: CommandCall) -> float:
+    """The one argument of a budget statement: seconds from 0 to MAX_BUDGET."""
+    text = call.args.strip()
+    column = call.offset + len(call.args) - len(call.args.lstrip())
+    plain = text.replace(".", "", 1)
+    seconds = float(text) if plain.isascii() and plain.isdigit() else None
+    if seconds is None or not 0 <= seconds <= MAX_BUDGET:
+        raise call.error(f"{call.name}: expected seconds from 0 to {MAX_BUDGET:g}, found {text!r}",
+                         column, len(text) or 1)
+    return seconds

@@ -47,8 +47,8 @@ class Budget:
         what to do (no partial table is ever given)."""
         return BudgetExceeded(
             f"strata: the time limit of {self.seconds:g} s ran out while {task}, so no table is "
-            "given (it would be incomplete); raise the limit (strata_budget in the session "
-            "settings or a worksheet header, budget= in Python), narrow the ranges, or fix a "
+            "given (it would be incomplete); raise the limit (the statement 'strata_budget SECONDS', "
+            "budget= in Python), narrow the ranges, or fix a "
             "parameter with 'with'")
 
     def run(self, function: Callable[..., T], *args, **kwargs) -> T:
