@@ -56,3 +56,11 @@ def test_every_value_shows_itself(executed, name):
         latex = data["text/latex"]
         assert latex.startswith("$") and latex.endswith("$")
         assert latex.count("{") == latex.count("}")
+
+
+def test_a_plot_statement_shows_its_chart_inline():
+    # issue 13: 'plot' in a notebook showed nothing; a result now carries its chart as PNG
+    import ketsplit
+    result = ketsplit.Session().run("real t in [0, pi/2]; plot entropy cos(t)|00> + sin(t)|11> over t")[-1]
+    assert result._repr_png_().startswith(b"\x89PNG")
+    assert ketsplit.Session().run("rank |00> + |11>")[0]._repr_png_() is None

@@ -382,7 +382,8 @@ def run_plot(call: CommandCall) -> Report:
     title = f"{what} of {subjects} across {families[0].cut.describe(families[0].state)}"
     chart, notes = family_chart(title, figures, families, symbol, bounds, unit,
                                 call.session.settings.strata_budget)
-    return Report(title, (Plot(terminal_lines(chart)),) + written(chart, options), notes)
+    return Report(title, (Plot(terminal_lines(chart)),) + written(chart, options), notes,
+                  value=chart)
 
 
 def _plot_figure(call: CommandCall, word: str, column: int) -> str | sympy.Expr:

@@ -42,4 +42,4 @@ def run_map(call: CommandCall) -> Report:
              f"{family.cut.describe(family.state)}")
     chart, notes = family_map(title, figures[0], family, (axes[0][0], axes[1][0]),
                               (axes[0][1], axes[1][1]), unit, call.session.settings.strata_budget)
-    return Report(title, (Plot(map_lines(chart)),) + written(chart, options), notes)
+    return Report(title, (Plot(map_lines(chart)),) + written(chart, options), notes, value=chart)

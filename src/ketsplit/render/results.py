@@ -39,6 +39,11 @@ class ShownResult(Result):
     def _repr_latex_(self) -> str:
         return "$$" + to_display_latex(self.report) + "$$"
 
+    def _repr_png_(self) -> bytes | None:
+        """A chart (``plot``, ``map``) shows itself inline in a notebook; other results do not."""
+        picture = getattr(self.report.value, "_repr_png_", None)
+        return picture() if picture is not None else None
+
 
 def shown(result: Result) -> ShownResult:
     """The result with its renderings (itself when it has them already)."""
