@@ -142,18 +142,21 @@ def _rational_turns(node: sympy.Expr) -> sympy.Rational | None:
 
 
 def _zero_in_polynomial_form(expr: sympy.Expr, params: tuple[Parameter, ...]) -> bool:
-    used = tuple(p for p in params if p.symbol in expr.free_symbols)
-    form = polynomial_form([expr], used)
-    real, imag, _ = form.real_equations(expr)
-    for part in (real, imag):
-        guard(part)
-    if real == 0 and imag == 0:
-        return True
-    if not form.relations:
-        return False
-    # a Groebner basis over QQ stays one over any extension holding the parts' coefficients
-    basis = sympy.groebner(list(form.relations), *form.variables, order="lex")
+    """Exact reduction in the polynomial variables; sympy declining anywhere on the way
+    (a PolynomialError on an expression it cannot put in polynomial form) is TooLarge:
+    the caller then says undecided, never guesses."""
     try:
+        used = tuple(p for p in params if p.symbol in expr.free_symbols)
+        form = polynomial_form([expr], used)
+        real, imag, _ = form.real_equations(expr)
+        for part in (real, imag):
+            guard(part)
+        if real == 0 and imag == 0:
+            return True
+        if not form.relations:
+            return False
+        # a Groebner basis over QQ stays one over any extension holding the parts' coefficients
+        basis = sympy.groebner(list(form.relations), *form.variables, order="lex")
         return all(sympy.reduced(part, list(basis.exprs), *form.variables, order="lex")[1] == 0
                    for part in (real, imag))
     except sympy.polys.polyerrors.BasePolynomialError as why:
