@@ -70,3 +70,25 @@ def test_every_printed_digit_is_the_correct_rounding(digits):
             exact = mpmath.pi * mpmath.mpf(10) ** k
             unit = mpmath.mpf(10) ** (mpmath.floor(mpmath.log10(exact)) - digits + 1)
             assert abs(mpmath.mpf(text) - exact) < unit / 2
+
+
+def test_integer_rounding_agrees_with_exact_fractions():
+    # reference: Python's exact Fraction arithmetic (round half to even), on random intervals
+    import random
+    from fractions import Fraction
+    from ketsplit.numeric.digits import NOT_INTEGRAL, round_at, round_integers
+    rng = random.Random(20261202)
+    compared = 0
+    for _ in range(20000):
+        e = rng.randint(1, 40)
+        mid = rng.randint(10 ** (e - 1), 10 ** e) * rng.choice([1, -1])
+        if rng.random() < 0.1:  # near a power of ten: the cross-decade case
+            mid = 10 ** e * rng.choice([1, -1]) + rng.randint(-3, 3)
+        rad = rng.choice([0, rng.randint(0, 10 ** rng.randint(0, e))])
+        k = rng.randint(1, e + 2)
+        found = round_integers(mid - rad, mid + rad, k)
+        if found is NOT_INTEGRAL:
+            continue
+        compared += 1
+        assert found == round_at(Fraction(mid - rad), Fraction(mid + rad), k)
+    assert compared > 15000

@@ -133,10 +133,56 @@ def certain_decimal(ball: arb, digits: int) -> Rounded | None:
         return None
     lo, hi, exponent = decimal_enclosure(ball, digits)
     for significant in range(digits, 0, -1):
-        found = round_at(Fraction(lo), Fraction(hi), significant)
+        found = round_integers(lo, hi, significant)
+        if found is NOT_INTEGRAL:
+            found = round_at(Fraction(lo), Fraction(hi), significant)
         if found is not None:  # rounding commutes with the power of ten
             return Rounded(found.negative, found.digits, found.exponent + exponent)
     return None
+
+
+NOT_INTEGRAL = Rounded(False, "", 0)  # round_integers' answer when its unit would be a fraction
+
+
+def integer_exponent(value: int) -> int:
+    """floor(log10 value) for a positive integer, exactly (no str(): any length)."""
+    guess = math.floor((value.bit_length() - 1) * LOG10_2)  # within one of the answer
+    while 10 ** guess > value:
+        guess -= 1
+    while 10 ** (guess + 1) <= value:
+        guess += 1
+    return guess
+
+
+def round_integers(lo: int, hi: int, significant: int) -> Rounded | None:
+    """:func:`round_at` for an interval of integers, in integer arithmetic only (the common
+    case, and many times faster than fractions); NOT_INTEGRAL when the rounding unit would be
+    below one, where :func:`round_at` decides instead."""
+    if lo <= 0 <= hi:
+        return None
+    negative = hi < 0
+    lo, hi = (-hi, -lo) if negative else (lo, hi)
+    low_exponent, exponent = integer_exponent(lo), integer_exponent(hi)
+    if exponent - significant + 1 < 0 or low_exponent - significant + 1 < 0:
+        return NOT_INTEGRAL
+    if low_exponent != exponent:
+        power, scale, coarse = 10 ** exponent, 10 ** significant, 10 ** (significant - 1)
+        # power - power/(2 scale) < lo and hi < power + power/(2 coarse), times 2 scale, 2 coarse
+        if (low_exponent == exponent - 1 and power * (2 * scale - 1) < 2 * scale * lo
+                and 2 * coarse * hi < power * (2 * coarse + 1)):
+            return Rounded(negative, "1" + "0" * (significant - 1), exponent)
+        return None
+    unit = 10 ** (exponent - significant + 1)
+    quotient, remainder = divmod(lo + hi, 2 * unit)
+    nearest = quotient + (1 if remainder > unit or (remainder == unit and quotient % 2) else 0)
+    below, above = (2 * nearest - 1) * unit, (2 * nearest + 1) * unit
+    inside = (below < 2 * lo and 2 * hi < above) or (lo == hi and below <= 2 * lo <= above)
+    if not inside:
+        return None
+    text = decimal_text(nearest)
+    if len(text) > significant:  # the whole ball rounds up to the next power of ten
+        text, exponent = text[:significant], exponent + 1
+    return Rounded(negative, text, exponent)
 
 
 def zero_bound_text(ball: arb) -> str:
