@@ -73,8 +73,8 @@ def decimal_text(number: int) -> str:
     return str(fmpz(number))
 
 
-def decimal_exponent(value: Fraction) -> int:
-    """floor(log10 |value|) for a nonzero fraction, exactly."""
+def decimal_exponent(value: int | Fraction) -> int:
+    """floor(log10 |value|) for a nonzero integer or fraction, exactly (no str(): any length)."""
     value = abs(value)
     bits = value.numerator.bit_length() - value.denominator.bit_length()
     guess = math.floor(bits * LOG10_2)  # within one of the answer
@@ -88,15 +88,18 @@ def decimal_exponent(value: Fraction) -> int:
 LOG10_2 = math.log10(2)
 
 
-def _power_of_ten(exponent: int) -> Fraction:
-    return Fraction(10 ** exponent) if exponent >= 0 else Fraction(1, 10 ** -exponent)
+def _power_of_ten(exponent: int) -> int | Fraction:
+    """10^exponent: an integer when it is one, so integer intervals stay in integer arithmetic."""
+    return 10 ** exponent if exponent >= 0 else Fraction(1, 10 ** -exponent)
 
 
-def round_at(lo: Fraction, hi: Fraction, significant: int) -> Rounded | None:
+def round_at(lo: int | Fraction, hi: int | Fraction, significant: int) -> Rounded | None:
     """The k-digit decimal that every point of [lo, hi] rounds to, if there is one.
 
     Rounding to k significant digits depends on each point's own decade, so a
-    ball across a power of ten 10^E is certain only as 10^E itself.
+    ball across a power of ten 10^E is certain only as 10^E itself.  The ends
+    may be integers (the common case: everything stays in integer arithmetic,
+    many times faster) or fractions; every test is exact either way.
     """
     if lo <= 0 <= hi:
         return None
@@ -104,15 +107,17 @@ def round_at(lo: Fraction, hi: Fraction, significant: int) -> Rounded | None:
     lo, hi = (-hi, -lo) if negative else (lo, hi)
     low_exponent, exponent = decimal_exponent(lo), decimal_exponent(hi)
     if low_exponent != exponent:
-        power = Fraction(10) ** exponent
-        below, above = power / 10 ** significant / 2, power / 10 ** (significant - 1) / 2
-        if low_exponent == exponent - 1 and power - below < lo and hi < power + above:
+        power, fine, coarse = _power_of_ten(exponent), 10 ** significant, 10 ** (significant - 1)
+        # power - power/(2 fine) < lo and hi < power + power/(2 coarse), multiplied out
+        if (low_exponent == exponent - 1 and power * (2 * fine - 1) < 2 * fine * lo
+                and 2 * coarse * hi < power * (2 * coarse + 1)):
             return Rounded(negative, "1" + "0" * (significant - 1), exponent)
         return None
-    unit = Fraction(10) ** (exponent - significant + 1)
-    nearest = round((lo + hi) / 2 / unit)  # round half to even, exact
-    cell = (Fraction(2 * nearest - 1, 2) * unit, Fraction(2 * nearest + 1, 2) * unit)
-    inside = (cell[0] < lo and hi < cell[1]) or (lo == hi and cell[0] <= lo <= cell[1])
+    unit = _power_of_ten(exponent - significant + 1)
+    quotient, remainder = divmod(lo + hi, 2 * unit)  # round half to even, exactly
+    nearest = int(quotient) + (1 if remainder > unit or (remainder == unit and quotient % 2) else 0)
+    below, above = (2 * nearest - 1) * unit, (2 * nearest + 1) * unit
+    inside = (below < 2 * lo and 2 * hi < above) or (lo == hi and below <= 2 * lo <= above)
     if not inside:
         return None
     text = decimal_text(nearest)
@@ -133,56 +138,10 @@ def certain_decimal(ball: arb, digits: int) -> Rounded | None:
         return None
     lo, hi, exponent = decimal_enclosure(ball, digits)
     for significant in range(digits, 0, -1):
-        found = round_integers(lo, hi, significant)
-        if found is NOT_INTEGRAL:
-            found = round_at(Fraction(lo), Fraction(hi), significant)
+        found = round_at(lo, hi, significant)
         if found is not None:  # rounding commutes with the power of ten
             return Rounded(found.negative, found.digits, found.exponent + exponent)
     return None
-
-
-NOT_INTEGRAL = Rounded(False, "", 0)  # round_integers' answer when its unit would be a fraction
-
-
-def integer_exponent(value: int) -> int:
-    """floor(log10 value) for a positive integer, exactly (no str(): any length)."""
-    guess = math.floor((value.bit_length() - 1) * LOG10_2)  # within one of the answer
-    while 10 ** guess > value:
-        guess -= 1
-    while 10 ** (guess + 1) <= value:
-        guess += 1
-    return guess
-
-
-def round_integers(lo: int, hi: int, significant: int) -> Rounded | None:
-    """:func:`round_at` for an interval of integers, in integer arithmetic only (the common
-    case, and many times faster than fractions); NOT_INTEGRAL when the rounding unit would be
-    below one, where :func:`round_at` decides instead."""
-    if lo <= 0 <= hi:
-        return None
-    negative = hi < 0
-    lo, hi = (-hi, -lo) if negative else (lo, hi)
-    low_exponent, exponent = integer_exponent(lo), integer_exponent(hi)
-    if exponent - significant + 1 < 0 or low_exponent - significant + 1 < 0:
-        return NOT_INTEGRAL
-    if low_exponent != exponent:
-        power, scale, coarse = 10 ** exponent, 10 ** significant, 10 ** (significant - 1)
-        # power - power/(2 scale) < lo and hi < power + power/(2 coarse), times 2 scale, 2 coarse
-        if (low_exponent == exponent - 1 and power * (2 * scale - 1) < 2 * scale * lo
-                and 2 * coarse * hi < power * (2 * coarse + 1)):
-            return Rounded(negative, "1" + "0" * (significant - 1), exponent)
-        return None
-    unit = 10 ** (exponent - significant + 1)
-    quotient, remainder = divmod(lo + hi, 2 * unit)
-    nearest = quotient + (1 if remainder > unit or (remainder == unit and quotient % 2) else 0)
-    below, above = (2 * nearest - 1) * unit, (2 * nearest + 1) * unit
-    inside = (below < 2 * lo and 2 * hi < above) or (lo == hi and below <= 2 * lo <= above)
-    if not inside:
-        return None
-    text = decimal_text(nearest)
-    if len(text) > significant:  # the whole ball rounds up to the next power of ten
-        text, exponent = text[:significant], exponent + 1
-    return Rounded(negative, text, exponent)
 
 
 def zero_bound_text(ball: arb) -> str:
