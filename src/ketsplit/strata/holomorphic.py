@@ -40,7 +40,8 @@ from .search import same_point, state_rank_at
 from .solve import Component, Point, complex_points, components
 
 HIDDEN_PARTS = (sympy.conjugate, sympy.re, sympy.im, sympy.Abs, sympy.arg)
-VALUES = tuple(sympy.sympify(v) for v in (1, 2, -1, 0, 3, sympy.I))  # sample values, simplest first
+VALUES = (sympy.Integer(1), sympy.Integer(2), sympy.Integer(-1), sympy.Integer(0), sympy.Integer(3),
+          sympy.I)  # sample values, simplest first
 
 
 @dataclass(frozen=True, eq=False)
