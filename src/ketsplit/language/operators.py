@@ -151,23 +151,23 @@ def common_dims(a: OperatorValue, b: OperatorValue) -> tuple[int, ...] | None:
 
 
 def add(a, b) -> OperatorValue:
-    a, b = as_operator(a), as_operator(b)
-    dims = common_dims(a, b)
-    if dims is None:
-        if a.matrix.shape != b.matrix.shape:
-            raise OperatorError(f"cannot add a {a.matrix.shape} matrix to a {b.matrix.shape} one")
-        return OperatorValue(a.matrix + b.matrix, None)
-    return OperatorValue(_fitted(a, dims) + _fitted(b, dims), dims)
+    return _combined(a, b, lambda x, y: x + y, lambda x, y: x.shape == y.shape, "add", "to")
 
 
 def compose(a, b) -> OperatorValue:
+    return _combined(a, b, lambda x, y: x * y, lambda x, y: x.cols == y.rows, "multiply", "by")
+
+
+def _combined(a, b, join, fits, verb: str, word: str) -> OperatorValue:
+    """``join`` of two operators, fitted to common part dimensions when they have any;
+    without them the bare matrices must ``fit``."""
     a, b = as_operator(a), as_operator(b)
     dims = common_dims(a, b)
     if dims is None:
-        if a.matrix.cols != b.matrix.rows:
-            raise OperatorError(f"cannot multiply a {a.matrix.shape} matrix by a {b.matrix.shape} one")
-        return OperatorValue(a.matrix * b.matrix, None)
-    return OperatorValue(_fitted(a, dims) * _fitted(b, dims), dims)
+        if not fits(a.matrix, b.matrix):
+            raise OperatorError(f"cannot {verb} a {a.matrix.shape} matrix {word} a {b.matrix.shape} one")
+        return OperatorValue(join(a.matrix, b.matrix), None)
+    return OperatorValue(join(_fitted(a, dims), _fitted(b, dims)), dims)
 
 
 def tensor(a, b) -> OperatorValue:
