@@ -14,10 +14,8 @@ from ..base.document import Between, Field, Kets, Note, Report, Table
 from dataclasses import replace
 
 from ..exact.schmidt import nonzero_entries
-from ..numeric.enclose import enclose
 from ..numeric.digits import certain_count
-from ..numeric.schmidt import MAX_DOUBLINGS, start_bits
-from ..numeric.values import exact_cell
+from ..numeric.values import certified_ball, exact_cell
 from ..language.printer import text as language_text
 from .numeric import certified_report, complex_text
 from .registry import COMMANDS, CommandCall, command
@@ -82,13 +80,9 @@ def _vector_cell(d: Decomposition, vector, side: str, digits: int):
 
 def _certified_entry(value: sympy.Expr, digits: int) -> str:
     """An exact complex number by its certain digits, raising the precision as cancellation needs."""
-    bits = start_bits(digits)
-    for _ in range(MAX_DOUBLINGS + 1):
-        ball = enclose(value, bits)
-        if all(part.is_exact() and part.is_zero() or certain_count(part, digits) == digits
-               for part in (ball.real, ball.imag)):
-            break
-        bits *= 2
+    ball = certified_ball(value, digits, lambda b: all(
+        part.is_exact() and part.is_zero() or certain_count(part, digits) == digits
+        for part in (b.real, b.imag)))
     return complex_text(ball, digits)
 
 

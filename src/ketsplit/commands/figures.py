@@ -9,13 +9,13 @@ import sympy
 from flint import arb
 
 from ..compare import compare_across
-from ..cuts import CUT_PATTERN, Cut, parse_cut
+from ..cuts import CUT_PATTERN, parse_cut
 from ..decomposition import decompose
 from ..numeric.digits import digits_cell
 from ..numeric.values import certified_real
-from ..figures import (certified_figures, LOGARITHMIC, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
+from ..figures import (certified_figures, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
                        unknown_figure, verdict, without_extrema)
-from ..base.errors import InputError, Span
+from ..base.errors import Span
 from ..plots import COEFFICIENTS, Family, family_chart, figure_label, terminal_lines, write_chart, write_data
 from ..base.document import Digits, Field, Note, Plot, Report, Table, Truth
 from ..states import State
@@ -79,18 +79,12 @@ def renyi_order(call: CommandCall, word: str, column: int) -> sympy.Expr:
     return value
 
 
-def _figure_label(name: str | sympy.Expr, unit: str) -> str:
-    label = name if isinstance(name, str) else f"renyi({sympy.sstr(name)})"
-    logarithmic = not isinstance(name, str) or name in LOGARITHMIC
-    return f"{label} ({unit})" if logarithmic else label
-
-
 def _figure_values(spectrum: Spectrum, wanted: list, unit: str) -> dict[str, sympy.Expr]:
     names = [w for w in wanted if isinstance(w, str)]
     named = spectrum_figures(spectrum, unit, names)
     values = {}
     for w in wanted:
-        values[_figure_label(w, unit)] = named[w] if isinstance(w, str) else renyi_of(spectrum, w, unit)
+        values[figure_label(w, unit)] = named[w] if isinstance(w, str) else renyi_of(spectrum, w, unit)
     return values
 
 
@@ -138,7 +132,7 @@ def run_figures(call: CommandCall) -> Report:
     d = decompose(state, cut, digits=digits, vectors=False)
     if d.certified is not None:
         balls = certified_figures(d, wanted, unit)
-        rows = tuple((_figure_label(w, unit), "no closed form", digits_cell(balls[w], digits))
+        rows = tuple((figure_label(w, unit), "no closed form", digits_cell(balls[w], digits))
                      for w in wanted)
         squared = [digits_cell(ball, digits) for ball in d.squared]
     else:

@@ -3,7 +3,9 @@
 from __future__ import annotations
 
 import sympy
-from flint import arb
+from typing import Callable
+
+from flint import acb, arb
 
 from ..base.errors import InputError
 from .. import limits
@@ -23,21 +25,25 @@ def check_digits(digits: int) -> int:
     return digits
 
 
-def certified_real(expr: sympy.Expr, digits: int) -> arb:
-    """A ball around the real number ``expr`` tight enough for ``digits`` certain digits.
-
-    The precision doubles until the digits are certain or the ceiling is met;
-    the last ball is returned either way (its certain digits say how far it got).
-    """
+def certified_ball(expr: sympy.Expr, digits: int, settled: Callable[[acb], bool]) -> acb:
+    """A ball around the number ``expr``, the precision doubled until ``settled(ball)`` or the
+    ceiling is met; the last ball is returned either way (its certain digits say how far it got)."""
     bits = int(digits * 3.33) + GUARD_BITS
     for _ in range(MAX_DOUBLINGS + 1):
         ball = enclose(expr, bits)
-        if not ball.imag.contains(0):
-            raise InputError(f"{sympy.sstr(expr)} is not a real number")
-        if certain_count(ball.real, digits) == digits:
+        if settled(ball):
             break
         bits *= 2
-    return ball.real
+    return ball
+
+
+def certified_real(expr: sympy.Expr, digits: int) -> arb:
+    """A ball around the real number ``expr`` tight enough for ``digits`` certain digits."""
+    def settled(ball: acb) -> bool:
+        if not ball.imag.contains(0):
+            raise InputError(f"{sympy.sstr(expr)} is not a real number")
+        return certain_count(ball.real, digits) == digits
+    return certified_ball(expr, digits, settled).real
 
 
 def exact_cell(expr: sympy.Expr, digits: int):
