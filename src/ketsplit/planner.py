@@ -76,12 +76,8 @@ def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
     """Closed forms where every block has them, else certified numbers."""
     factors: list[flint.fmpz_poly] = []
     scales: list[tuple[int, int]] = []  # (factors so far, the block's common denominator)
-    for rows, cols in matrix.blocks():
+    for rows, cols, entries in large_blocks(matrix):
         side = min(len(rows), len(cols))
-        if side <= 2:
-            continue
-        members = set(rows)
-        entries = {(i, j): v for (i, j), v in matrix.entries.items() if i in members}
         integers = _gaussian_integers(entries, rows, cols)
         if integers is None:
             if side <= MAX_ALGEBRAIC_SIDE and _algebraic(entries.values()):
@@ -102,6 +98,17 @@ def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
                     f"degree {degrees}, which have no closed form: certified digits",
                     normalised_factors(factors, scales, matrix))
     return Plan("exact", "every block has a closed-form spectrum")
+
+
+def large_blocks(matrix: CoefficientMatrix) -> list[tuple[list[int], list[int], dict]]:
+    """(rows, columns, entries) of the blocks whose smaller side is over 2 (the only ones that
+    need planning), their entries gathered in one pass over the matrix."""
+    found = [(rows, cols, {}) for rows, cols in matrix.blocks() if min(len(rows), len(cols)) > 2]
+    owner = {i: entries for rows, _, entries in found for i in rows}
+    for (i, j), value in matrix.entries.items():
+        if i in owner:
+            owner[i][(i, j)] = value
+    return found
 
 
 def _gaussian_integers(entries: dict, rows: list[int], cols: list[int]):
