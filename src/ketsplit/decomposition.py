@@ -191,7 +191,7 @@ def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
     it values first (``State.subs`` or a ``with`` clause).  ``vectors=False``
     skips the certified vectors where only the coefficients are wanted.
     """
-    if not isinstance(cut, Cut) and not _symmetric(state):
+    if not isinstance(cut, Cut) and not isinstance(state, SymmetricState):
         cut = parse_cut(cut, state)
     chosen = plan(state, cut, method)
     if chosen.route == "certified":
@@ -203,10 +203,6 @@ def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
             raise no_closed_form(state, str(why)) from None
         return certified_decomposition(state, cut, digits, f"no closed form ({why})", (), vectors)
     return replace(found, route=chosen.route, reason=chosen.reason)
-
-
-def _symmetric(state: State) -> bool:
-    return isinstance(state, SymmetricState)
 
 
 def no_closed_form(state: State, why: str) -> InputError:
@@ -226,8 +222,6 @@ def certified_decomposition(state: State, cut: Cut | str | None, digits: int, re
     if state.symbols:
         raise no_closed_form(state, "certified numbers need a value for every parameter")
     found = certified_pieces(state, cut, digits, vectors=vectors)
-    if not isinstance(cut, Cut):
-        cut = parse_cut(cut, state) if not _symmetric(state) else cut
     notes = (f"certified numbers: {reason}",)
     left = [t.left for t in found.terms] if vectors else []
     right = [t.right for t in found.terms] if vectors else []

@@ -61,12 +61,12 @@ def plan(state: State, cut: Cut, method: str = "auto") -> Plan:
     from .symmetric import SymmetricState
     if method not in METHODS:
         raise ValueError(f"method must be one of {', '.join(METHODS)}, found {method!r}")
-    if isinstance(state, SymmetricState):
-        return Plan("symmetric", "a permutation-symmetric state keeps its Dicke basis")
     if method == "exact":
         return Plan("exact", "closed forms were asked for")
     if method == "certified":
         return Plan("certified", "certified numbers were asked for")
+    if isinstance(state, SymmetricState):
+        return Plan("symmetric", "a permutation-symmetric state keeps its Dicke basis")
     if state.symbols:
         return Plan("exact", "the state has free parameters: closed forms in them")
     return _plan_numbers(CoefficientMatrix(state, cut))
