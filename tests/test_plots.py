@@ -185,3 +185,49 @@ def test_many_curves_all_drawn_and_legend_fits():
     assert max(len(line) for line in lines) <= 80
     with pytest.raises(ketsplit.InputError, match="single point"):
         make_chart("flat", curves, t, (1, 1))
+
+
+def test_a_statement_never_writes_the_shell_does(tmp_path):
+    # issue 12, item 5: plot and map return the chart and the files asked for; the shells write
+    from ketsplit.plots import Drawing
+    from ketsplit.render.files import write_requested
+    from ketsplit.session import Session as Engine
+    engine = Engine()
+    engine.run(FAMILY)
+    picture, data = tmp_path / "e.svg", tmp_path / "e.csv"
+    [result] = engine.run(f"plot entropy psi over t --to {picture} --data {data}")
+    assert isinstance(result.value, Drawing)
+    assert result.value.picture == str(picture) and result.value.data == str(data)
+    assert list(tmp_path.iterdir()) == []  # the statement ran; nothing was written
+    written = write_requested(result)
+    assert ElementTree.parse(picture).getroot().tag.endswith("svg")
+    assert next(csv.reader(data.open())) == ["t", "entropy (bits)"]
+    fields = {item.label: item.value for item in written.report.items if hasattr(item, "label")}
+    assert fields == {"written": str(picture), "data written": str(data)}
+    assert written.value == result.value and write_requested(engine.run("rank psi")[0]).report.items
+
+
+def test_engine_and_command_modules_hold_no_file_writer():
+    # the layers below render never write a file: no atomic writer, no write_text/write_bytes
+    import ast
+    from pathlib import Path
+    root = Path(ketsplit.__file__).parent
+    shells = {"cli.py", "api.py", "__main__.py"}
+    for path in root.rglob("*.py"):
+        relative = path.relative_to(root)
+        if relative.parts[0] in ("repl", "sheets", "render") or str(relative) in shells \
+                or str(relative) == "base/files.py":
+            continue
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            name = getattr(node, "attr", None) or getattr(node, "id", None)
+            assert name not in ("write_atomic", "write_text", "write_bytes"), f"{relative} writes"
+
+
+def test_a_worksheet_from_a_file_may_not_ask_for_a_data_file(tmp_path):
+    from ketsplit.sheets.format import parse_sheet
+    from ketsplit.sheets.runner import replay
+    target = tmp_path / "e.csv"
+    sheet = parse_sheet(f"{FAMILY}\nplot entropy psi over t --data {target}\n".encode())
+    _, outcomes = replay(sheet)
+    assert "cannot write files" in outcomes[-1].error.message
+    assert not target.exists()

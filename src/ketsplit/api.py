@@ -32,6 +32,7 @@ from . import plots as _plots
 from . import sweep as _sweep
 from .numeric.point import at_point
 from . import session as _session
+from .render.files import write_requested
 from .render.results import ShownResult, shown
 from .sheets import statements as _file_statements  # noqa: F401  (registers save and open)
 from .states import State
@@ -42,10 +43,15 @@ Function = TypeVar("Function", bound=Callable)
 
 class Session(_session.Session):
     """The Session of the shells and the Python API: its results can show themselves
-    (``.text()``, ``.latex()``, ``.to_json()``, notebook display)."""
+    (``.text()``, ``.latex()``, ``.to_json()``, notebook display), and the files a statement
+    asks for (``plot ... --to FILE``) are written here, after the statement ran."""
 
     def execute(self, statement: str, line: int = 1) -> ShownResult:
-        return shown(super().execute(statement, line))
+        result = super().execute(statement, line)
+        try:
+            return shown(write_requested(result))
+        except InputError as err:
+            raise _session.relocate(err, statement, line) from None
 
 
 def bounded(function: Function) -> Function:
@@ -232,7 +238,8 @@ def sweep(figure, state: State, cut: str | cuts.Cut | None = None, **options) ->
 def plot(figures: str | Iterable, *states: State, cut: str | None = None, over: str,
          unit: str = "bits") -> _plots.Chart:
     """A chart of one or more figures of one or more states across the declared range of
-    ``over``; a notebook shows it inline; ``ketsplit.plots.write_chart(chart, "f.pdf")`` writes it."""
+    ``over``; a notebook shows it inline; ``ketsplit.render.files.write_chart(chart, "f.pdf")``
+    writes it."""
     figures = [figures] if isinstance(figures, str) else list(figures)
     families = [_plots.Family(f"state {k + 1}", s, cuts.parse_cut(cut, s)) for k, s in enumerate(states)]
     param = states[0].parameter(over)

@@ -25,7 +25,6 @@ import numpy
 import sympy
 
 from .base.errors import InputError
-from .base.files import write_atomic
 from .cuts import Cut
 from .decomposition import decompose
 from .figures import LOGARITHMIC, Spectrum, renyi_of, spectrum_figures, without_extrema
@@ -77,6 +76,11 @@ class Chart:
         low, high = nice(min(0.0, min(values)), -1), nice(max(values), 1)
         return (low, high) if high > low else (low, low + 1.0)
 
+    def __repr__(self) -> str:
+        curves = ", ".join(c.label for c in self.curves)
+        return (f"Chart({self.title!r}, {self.xname} in [{expr_text(self.lo)}, {expr_text(self.hi)}], "
+                f"{len(self.xs)} samples of {curves}, {len(self.markers)} marks)")
+
     def _repr_png_(self) -> bytes:
         return figure_bytes(self, "png")
 
@@ -84,7 +88,7 @@ class Chart:
         return figure_bytes(self, "svg").decode()
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class Map:
     """``values[i][j]`` is the figure at (xs[j], ys[i]); ``loci`` are rank-drop sets drawn on top:
     (label, values of an expression that vanishes on the set, over the same grid) or
@@ -99,11 +103,37 @@ class Map:
     label: str
     loci: tuple[tuple[str, object], ...] = field(default=())
 
+    # -- a value: numpy grids compared entry by entry (a gap, NaN, equals a gap) --
+    def __eq__(self, other: object) -> bool:
+        if not isinstance(other, Map):
+            return NotImplemented
+        plain = ("title", "names", "bounds", "label")
+        return (all(getattr(self, n) == getattr(other, n) for n in plain)
+                and all(same_grid(getattr(self, n), getattr(other, n)) for n in ("xs", "ys", "values"))
+                and len(self.loci) == len(other.loci)
+                and all(a[0] == b[0] and same_grid(a[1], b[1]) for a, b in zip(self.loci, other.loci)))
+
+    __hash__ = None  # type: ignore[assignment]  # holds numpy arrays
+
+    def __repr__(self) -> str:
+        (xlo, xhi), (ylo, yhi) = self.bounds
+        return (f"Map({self.title!r}, {self.names[0]} in [{expr_text(xlo)}, {expr_text(xhi)}], "
+                f"{self.names[1]} in [{expr_text(ylo)}, {expr_text(yhi)}], "
+                f"{self.values.shape[1]}x{self.values.shape[0]} samples of {self.label})")
+
     def _repr_png_(self) -> bytes:
         return figure_bytes(self, "png")
 
     def _repr_svg_(self) -> str:
         return figure_bytes(self, "svg").decode()
+
+
+def same_grid(a, b) -> bool:
+    """Equal samples (numpy arrays, NaN equal to NaN) or equal lists of exact points."""
+    if isinstance(a, numpy.ndarray) or isinstance(b, numpy.ndarray):
+        return (isinstance(a, numpy.ndarray) and isinstance(b, numpy.ndarray)
+                and numpy.array_equal(a, b, equal_nan=True))
+    return a == b
 
 
 def nice(value: float, direction: int) -> float:
@@ -389,8 +419,10 @@ def figure_bytes(chart: Chart | Map, form: str) -> bytes:
     return out.getvalue()
 
 
-# -- files ---------------------------------------------------------------------
-def _target(path: str, allowed: Sequence[str], what: str) -> str:
+# -- files: what a statement asks written; the shells write it (render.files) ----
+def check_target(path: str, allowed: Sequence[str], what: str) -> str:
+    """The extension of a file a chart is to be written to, checked (and its folder found)
+    before anything is computed or written; InputError otherwise."""
     extension = os.path.splitext(path)[1].lower()
     if extension not in allowed:
         raise InputError(f"{what} files end in {', '.join(allowed)}; found {path!r}")
@@ -400,12 +432,11 @@ def _target(path: str, allowed: Sequence[str], what: str) -> str:
     return extension
 
 
-def write_chart(chart: Chart | Map, path: str) -> str:
-    """Write the chart to ``path`` (.svg, .pdf or .png); the absolute path."""
-    extension = _target(path, FORMATS, "plot")
+def chart_file(chart: Chart | Map, path: str) -> str | bytes:
+    """The chart as the contents of ``path`` (.svg as text, .pdf or .png as bytes)."""
+    extension = check_target(path, FORMATS, "plot")
     data = figure_bytes(chart, extension[1:])
-    write_atomic(path, data.decode() if extension == ".svg" else data)
-    return os.path.abspath(path)
+    return data.decode() if extension == ".svg" else data
 
 
 def data_text(chart: Chart | Map) -> str:
@@ -425,10 +456,44 @@ def data_text(chart: Chart | Map) -> str:
     return out.getvalue()
 
 
-def write_data(chart: Chart | Map, path: str) -> str:
-    _target(path, (".csv",), "data")
-    write_atomic(path, data_text(chart))
-    return os.path.abspath(path)
+@dataclass(frozen=True)
+class Drawing:
+    """The value of ``plot`` and ``map``: the chart, and the files the statement asked it
+    written to (``picture``: .svg, .pdf or .png; ``data``: the samples as .csv).
+
+    Computing never writes: the shells write the files a Drawing asks for
+    (:func:`ketsplit.render.files.write_requested`), and a worksheet from a file
+    may not ask for any.
+    """
+
+    chart: Chart | Map
+    picture: str | None = None
+    data: str | None = None
+
+    @classmethod
+    def asked(cls, chart: Chart | Map, picture: str | None = None, data: str | None = None
+              ) -> "Drawing":
+        """The drawing, its file names checked (extension, folder) before a shell writes them."""
+        if picture is not None:
+            check_target(picture, FORMATS, "plot")
+        if data is not None:
+            check_target(data, (".csv",), "data")
+        return cls(chart, picture, data)
+
+    @property
+    def files(self) -> tuple[str, ...]:
+        return tuple(f for f in (self.picture, self.data) if f is not None)
+
+    def __repr__(self) -> str:
+        files = "".join(f", {name}={value!r}" for name, value in
+                        (("picture", self.picture), ("data", self.data)) if value is not None)
+        return f"Drawing({self.chart!r}{files})"
+
+    def _repr_png_(self) -> bytes:
+        return self.chart._repr_png_()
+
+    def _repr_svg_(self) -> str:
+        return self.chart._repr_svg_()
 
 
 # -- families: the curves, marks and maps a statement or the API asks for ----------

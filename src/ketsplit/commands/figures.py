@@ -16,7 +16,7 @@ from ..numeric.values import certified_real
 from ..figures import (certified_figures, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
                        unknown_figure, verdict, without_extrema)
 from ..base.errors import Span
-from ..plots import COEFFICIENTS, Family, family_chart, figure_label, terminal_lines, write_chart, write_data
+from ..plots import COEFFICIENTS, Drawing, Family, family_chart, figure_label, terminal_lines
 from ..base.document import Digits, Field, Note, Plot, Report, Table, Truth
 from ..states import State
 from .registry import CommandCall, command
@@ -345,14 +345,10 @@ def plot_figures(call: CommandCall, words: str, column: int) -> list:
     return figures
 
 
-def written(chart, options: dict[str, str]) -> tuple:
-    """Fields naming the files written for ``--to`` and ``--data``."""
-    items = ()
-    if "to" in options:
-        items += (Field("written", write_chart(chart, options["to"])),)
-    if "data" in options:
-        items += (Field("data written", write_data(chart, options["data"])),)
-    return items
+def drawing(chart, options: dict[str, str]) -> Drawing:
+    """The statement's value: the chart and the files ``--to`` and ``--data`` ask for (the
+    shells write them: a statement never writes)."""
+    return Drawing.asked(chart, options.get("to"), options.get("data"))
 
 
 @command("plot", PLOT_USAGE,
@@ -376,8 +372,7 @@ def run_plot(call: CommandCall) -> Report:
     title = f"{what} of {subjects} across {families[0].cut.describe(families[0].state)}"
     chart, notes = family_chart(title, figures, families, symbol, bounds, unit,
                                 call.session.settings.strata_budget)
-    return Report(title, (Plot(terminal_lines(chart)),) + written(chart, options), notes,
-                  value=chart)
+    return Report(title, (Plot(terminal_lines(chart)),), notes, value=drawing(chart, options))
 
 
 def _plot_figure(call: CommandCall, word: str, column: int) -> str | sympy.Expr:

@@ -6,7 +6,7 @@ import re
 
 from ..base.document import Plot, Report
 from ..plots import family_map, figure_label, map_lines
-from .figures import file_options, plot_families, plot_figures, plotted_parameter, written
+from .figures import drawing, file_options, plot_families, plot_figures, plotted_parameter
 from .registry import CommandCall, command
 
 MAP = re.compile(r"^(\s*)(\S+)(\s+)(.*?)\s+over\s+([A-Za-z_][A-Za-z0-9_]*)\s*,\s*([A-Za-z_][A-Za-z0-9_]*)"
@@ -42,4 +42,4 @@ def run_map(call: CommandCall) -> Report:
              f"{family.cut.describe(family.state)}")
     chart, notes = family_map(title, figures[0], family, (axes[0][0], axes[1][0]),
                               (axes[0][1], axes[1][1]), unit, call.session.settings.strata_budget)
-    return Report(title, (Plot(map_lines(chart)),) + written(chart, options), notes, value=chart)
+    return Report(title, (Plot(map_lines(chart)),), notes, value=drawing(chart, options))

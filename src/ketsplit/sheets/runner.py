@@ -1,7 +1,7 @@
 """Run a worksheet through a Session, compare with what it recorded, re-record it.
 
 Only computations run: a worksheet line that would act on files (``save``,
-``open``, an option ``--to FILE``), change the process-wide resource limits,
+``open``, an option ``--to FILE`` or ``--data FILE``), change the process-wide resource limits,
 or raise the precision or a budget above the reader's ceiling (see
 :mod:`.header`) is refused, so replaying a stranger's worksheet reads and
 writes nothing and stays inside the limits the reader chose.
@@ -37,7 +37,7 @@ from .header import raised
 from .matching import first_difference, value_difference
 from .visible import visible
 
-FILE_OPTION = re.compile(r"\s--to\s")  # the option by which a statement names a file to write
+FILE_OPTION = re.compile(r"\s--(?:to|data)\s")  # the options by which a statement names a file to write
 
 
 @dataclass(frozen=True)
@@ -159,7 +159,8 @@ def refusal(entry: SheetLine) -> InputError | None:
                                   "the shell before opening it", word.start(1), len(name))
         if option:
             return refused(entry, "a worksheet cannot write files: run this line without "
-                                  f"'{option.group().strip()}'", option.start() + 1, 4)
+                                  f"'{option.group().strip()}'", option.start() + 1,
+                           len(option.group().strip()))
     return None
 
 
