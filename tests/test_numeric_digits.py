@@ -90,3 +90,25 @@ def test_integer_rounding_agrees_with_exact_fractions():
         compared += 1
         assert found == round_at(Fraction(mid - rad), Fraction(mid + rad), k)
     assert compared > 15000
+
+
+def test_scaled_texts_agree_with_exact_fractions():
+    # reference: the exact ends of each ball as Python Fractions, rounded by the fraction path
+    # (checked against mpmath above): the longest certain decimal of at most `digits` digits
+    import random
+    from ketsplit.numeric.digits import scaled_texts
+    rng = random.Random(20261203)
+    compared = 0
+    for _ in range(3000):
+        exponent, divisor = rng.randint(-200, 20), rng.choice([1, 3, 7, rng.randint(1, 10 ** 30)])
+        radius = (rng.choice([0, rng.randint(1, 2 ** 20)]), rng.randint(-260, -10))
+        digits = rng.randint(1, 45)
+        centres = [rng.randint(-2 ** 140, 2 ** 140) >> rng.randint(0, 140) for _ in range(4)]
+        for c, text in zip(centres, scaled_texts(centres, exponent, divisor, radius, digits)):
+            value = Fraction(c) * Fraction(2) ** exponent / divisor
+            spread = radius[0] * Fraction(2) ** radius[1]
+            expected = next((found.text() for k in range(digits, 0, -1)
+                             if (found := round_at(value - spread, value + spread, k)) is not None), None)
+            assert text == expected
+            compared += 1
+    assert compared == 12000

@@ -26,15 +26,17 @@ A caller may override the choice (``method="exact"`` or ``"certified"``).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
+from fractions import Fraction
+from functools import reduce
 from typing import Literal
 
 import flint
-import sympy
-from sympy.polys.polyerrors import CoercionFailed
 
 from .cuts import CoefficientMatrix, Cut
 from .exact.numbers import field_degree_bound
+from .numeric.blocks import gaussian_rational
 from .states import State
 
 Route = Literal["exact", "certified", "symmetric"]
@@ -74,11 +76,12 @@ def plan(state: State, cut: Cut, method: str = "auto") -> Plan:
 
 def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
     """Closed forms where every block has them, else certified numbers."""
+    parts = gaussian_parts(matrix.entries)
     factors: list[flint.fmpz_poly] = []
     scales: list[tuple[int, int]] = []  # (factors so far, the block's common denominator)
     for rows, cols, entries in large_blocks(matrix):
         side = min(len(rows), len(cols))
-        integers = _gaussian_integers(entries, rows, cols)
+        integers = _gaussian_integers(entries, parts, rows, cols)
         if integers is None:
             if side <= MAX_ALGEBRAIC_SIDE and _algebraic(entries.values()):
                 continue
@@ -94,15 +97,31 @@ def _plan_numbers(matrix: CoefficientMatrix) -> Plan:
     large = [f.degree() for f in factors if f.degree() > MAX_CLOSED_DEGREE]
     if large:
         degrees = ", ".join(map(str, large))
+        complete = len(parts) == len(matrix.entries)
         return Plan("certified", "the squared coefficients are roots of irreducible polynomials of "
                     f"degree {degrees}, which have no closed form: certified digits",
-                    normalised_factors(factors, scales, matrix))
+                    normalised_factors(factors, scales, parts.values()) if complete else ())
     return Plan("exact", "every block has a closed-form spectrum")
+
+
+def gaussian_parts(entries: dict) -> dict:
+    """(re, im) as Python integers or fractions for the entries that are Gaussian rationals
+    (:func:`ketsplit.numeric.blocks.gaussian_rational`, read once for the whole plan)."""
+    found = {}
+    for key, value in entries.items():
+        parts = gaussian_rational(value)
+        if parts is not None:
+            found[key] = parts
+    return found
 
 
 def large_blocks(matrix: CoefficientMatrix) -> list[tuple[list[int], list[int], dict]]:
     """(rows, columns, entries) of the blocks whose smaller side is over 2 (the only ones that
     need planning), their entries gathered in one pass over the matrix."""
+    rows, cols = matrix.shape
+    if len(matrix.entries) == rows * cols:  # every entry present: one block, nothing to search
+        whole = (list(range(rows)), list(range(cols)), matrix.entries)
+        return [whole] if min(rows, cols) > 2 else []
     found = [(rows, cols, {}) for rows, cols in matrix.blocks() if min(len(rows), len(cols)) > 2]
     owner = {i: entries for rows, _, entries in found for i in rows}
     for (i, j), value in matrix.entries.items():
@@ -111,47 +130,40 @@ def large_blocks(matrix: CoefficientMatrix) -> list[tuple[list[int], list[int], 
     return found
 
 
-def _gaussian_integers(entries: dict, rows: list[int], cols: list[int]):
-    """(real, imaginary) integer matrices of the block scaled by a common denominator, or None."""
+def _gaussian_integers(entries: dict, parts: dict, rows: list[int], cols: list[int]):
+    """(real, imaginary) integer matrices of the block (smaller side as rows) scaled by a common
+    denominator, and that denominator; None when an entry is not a Gaussian rational."""
+    if any(key not in parts for key in entries):
+        return None
     smaller_rows = len(rows) <= len(cols)
     row_at = {r: k for k, r in enumerate(rows)}
     col_at = {c: k for k, c in enumerate(cols)}
-    values = {}
-    for (i, j), v in entries.items():
-        try:
-            z = sympy.QQ_I.from_sympy(v)
-        except (CoercionFailed, TypeError, ValueError):
-            return None
-        key = (row_at[i], col_at[j]) if smaller_rows else (col_at[j], row_at[i])
-        values[key] = (z.x, z.y if smaller_rows else -z.y)
-    scale = 1
-    for x, y in values.values():
-        scale = sympy.ilcm(scale, int(x.denominator), int(y.denominator))
+    scale = reduce(math.lcm, {part.denominator for key in entries for part in parts[key]}, 1)
     shape = (len(rows), len(cols)) if smaller_rows else (len(cols), len(rows))
-    real, imag = flint.fmpz_mat(*shape), flint.fmpz_mat(*shape)
-    for (i, j), (x, y) in values.items():
-        real[i, j] = int(x * scale)
-        imag[i, j] = int(y * scale)
-    return real, imag, scale
+    real = [[0] * shape[1] for _ in range(shape[0])]
+    imag = [[0] * shape[1] for _ in range(shape[0])]
+    for (i, j) in entries:
+        x, y = parts[(i, j)]
+        r, c = (row_at[i], col_at[j]) if smaller_rows else (col_at[j], row_at[i])
+        real[r][c] = int(x * scale)
+        imag[r][c] = int(y * scale) if smaller_rows else -int(y * scale)
+    return flint.fmpz_mat(real), flint.fmpz_mat(imag), scale
 
 
 def normalised_factors(factors: list[flint.fmpz_poly], scales: list[tuple[int, int]],
-                       matrix: CoefficientMatrix) -> tuple[flint.fmpz_poly, ...]:
+                       parts) -> tuple[flint.fmpz_poly, ...]:
     """The factors rewritten so that their roots are the squared Schmidt coefficients.
 
     A block scaled by s has eigenvalues s^2 lambda; the squared coefficients
-    are lambda / |psi|^2, the roots of f(s^2 |psi|^2 x).  Empty when some
-    amplitude is not Gaussian-rational (the norm is then not rational and the
-    factors of the probed blocks alone would not name every coefficient).
+    are lambda / |psi|^2, the roots of f(s^2 |psi|^2 x).  ``parts`` are the
+    (re, im) pairs of every amplitude (all Gaussian rationals: otherwise the
+    norm is not rational and the factors of the probed blocks alone would not
+    name every coefficient, and the caller keeps none).
     """
-    try:
-        numbers = [sympy.QQ_I.from_sympy(v) for v in matrix.entries.values()]
-    except (CoercionFailed, TypeError, ValueError):
-        return ()
-    norm = sum((z.x ** 2 + z.y ** 2 for z in numbers), sympy.QQ(0))
+    norm = Fraction(sum((x * x + y * y for x, y in parts), Fraction(0)))
     found, start = [], 0
     for end, scale in scales:
-        stretch = flint.fmpq(int(norm.numerator) * scale ** 2, int(norm.denominator))
+        stretch = flint.fmpq(norm.numerator * scale ** 2, norm.denominator)
         for f in factors[start:end]:
             mapped = f(flint.fmpq_poly([0, stretch])).numer()
             found.append(mapped if mapped.coeffs()[-1] > 0 else -mapped)

@@ -41,9 +41,10 @@ def certified_report(result: CertifiedSchmidt, state: State, cut: Cut, name: str
 def vector_table(result: CertifiedSchmidt, state: State, cut: Cut) -> Table:
     """Coefficients with their certified left and right vectors (certain decimals only)."""
     rows = []
+    labels: dict[tuple[tuple[int, ...], int], str] = {}  # each side's kets, written once
     for k, term in enumerate(result.terms, start=1):
-        left = vector_text(term.left, cut.left, state, result.digits)
-        right = vector_text(term.right, cut.right, state, result.digits)
+        left = vector_text(term.left, cut.left, state, result.digits, labels)
+        right = vector_text(term.right, cut.right, state, result.digits, labels)
         rows.append((k, digits_cell(term.value, result.digits), left, right))
     rows += [(f"{len(rows) + k}?", digits_cell(ball, result.digits), "", "")
              for k, ball in enumerate(result.undecided, start=1)]
@@ -51,18 +52,28 @@ def vector_table(result: CertifiedSchmidt, state: State, cut: Cut) -> Table:
                   f"right vector ({join_names(state, cut.right)})"), tuple(rows))
 
 
-def vector_text(vector: SchmidtVector, parts: tuple[int, ...], state: State, digits: int) -> str:
-    """A certified vector in our syntax: (re + im i)|label> terms, each digit certain."""
+def vector_text(vector: SchmidtVector, parts: tuple[int, ...], state: State, digits: int,
+                labels: dict | None = None) -> str:
+    """A certified vector in our syntax: (re + im i)|label> terms, each digit certain.
+    ``labels`` keeps the kets already written, by (parts, index)."""
+    labels = {} if labels is None else labels
     pieces = []
-    for index, value in zip(vector.indices, vector.entries()):
-        label = label_text(side_label(index, parts, state.dims))
-        pieces.append(f"({complex_text(value, digits)}){label}")
+    for index, (real, imag) in zip(vector.indices, vector.part_texts(digits)):
+        label = labels.get((parts, index))
+        if label is None:
+            label = labels[(parts, index)] = label_text(side_label(index, parts, state.dims))
+        pieces.append(f"({joined(real, imag)}){label}")
     return " + ".join(pieces)
 
 
 def complex_text(value, digits: int) -> str:
-    real, imag = certain_text(value.real, digits), certain_text(value.imag, digits)
-    if value.imag.is_exact() and value.imag.is_zero():
+    exact_real = value.imag.is_exact() and value.imag.is_zero()
+    return joined(certain_text(value.real, digits), None if exact_real else certain_text(value.imag, digits))
+
+
+def joined(real: str, imag: str | None) -> str:
+    """'re + im i' from the texts of the parts (the real part alone when imag is None)."""
+    if imag is None:
         return real
     sign, imag = ("-", imag[1:]) if imag.startswith("-") else ("+", imag)
     return f"{real} {sign} {imag} i"

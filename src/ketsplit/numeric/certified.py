@@ -11,12 +11,13 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Sequence
 
 import mpmath
 from flint import acb, arb, ctx
 
 from ..base.document import Digits
-from .digits import certain_text, digits_cell
+from .digits import certain_text, digits_cell, scaled_texts
 
 BITS_PER_DIGIT = math.log2(10)
 EXACT_DECIMALS = 10 ** 6  # stands for 'every decimal' when a vector has no radius
@@ -61,14 +62,40 @@ class SchmidtVector:
     radius: Ball
     divisor: int = 1
 
-    def entries(self, bits: int = 0) -> list[acb]:
-        """The entries as complex balls (at ``bits`` bits, by default enough for the radius)."""
+    def entries(self, bits: int = 0, only: Sequence[int] | None = None) -> list[acb]:
+        """The entries (those at the positions ``only``, by default all) as complex balls, at
+        ``bits`` bits, by default enough for the radius."""
         rad = self.radius.arb()
         if not bits:
             bits = max(64, 16 - self.radius.exp - self.radius.man.bit_length())
+        pairs = list(zip(self.re, self.im))
         with ctx.workprec(bits):
-            out = [acb(arb((r, self.exp)), arb((i, self.exp))) / self.divisor for r, i in zip(self.re, self.im)]
+            out = [acb(arb((r, self.exp)), arb((i, self.exp))) / self.divisor
+                   for r, i in (pairs if only is None else [pairs[k] for k in only])]
             return [acb(z.real + arb(0, rad), z.imag + arb(0, rad)) for z in out]
+
+    def part_texts(self, digits: int) -> list[tuple[str, str | None]]:
+        """(real, imaginary) texts of each stored entry with only certain digits (at most
+        ``digits``), the imaginary one None where it is exactly zero.
+
+        Read from the integers in one pass (:func:`scaled_texts`); only an entry
+        part whose ball holds zero is enclosed as a ball, for its bound.
+        """
+        man, exp = self.radius.man, self.radius.exp
+        if self.radius.rad_man:  # the radius's own radius: bound it from above
+            low = min(exp, self.radius.rad_exp)
+            man, exp = (man << (exp - low)) + (self.radius.rad_man << (self.radius.rad_exp - low)), low
+        real = scaled_texts(self.re, self.exp, self.divisor, (man, exp), digits)
+        imag = scaled_texts(self.im, self.exp, self.divisor, (man, exp), digits)
+        holding_zero = [k for k, pair in enumerate(zip(real, imag)) if None in pair]
+        balls = dict(zip(holding_zero, self.entries(only=holding_zero)))
+        out = []
+        for k, (re, im) in enumerate(zip(real, imag)):
+            re = re if re is not None else certain_text(balls[k].real, digits)
+            if im is None:
+                im = None if self.exact and self.im[k] == 0 else certain_text(balls[k].imag, digits)
+            out.append((re, im))
+        return out
 
     def dense(self, size: int) -> list[acb]:
         """The whole vector of length ``size`` (zeros outside the block)."""

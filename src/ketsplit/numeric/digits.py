@@ -19,8 +19,8 @@ decimal enclosure contains the ball, so a digit certain for it is certain.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 from fractions import Fraction
+from typing import NamedTuple, Sequence
 
 from flint import arb, fmpz
 
@@ -30,9 +30,9 @@ SCIENTIFIC_BELOW, SCIENTIFIC_FROM = -5, 7  # decimal exponents printed without e
 GUARD_DIGITS = 5  # digits of the decimal enclosure beyond those asked for
 
 
-@dataclass(frozen=True)
-class Rounded:
-    """A certain decimal: sign, k significant digits, and the power of ten of the first."""
+class Rounded(NamedTuple):
+    """A certain decimal: sign, k significant digits, and the power of ten of the first
+    (a named tuple: thousands are made for one vector table, and it is the cheapest value)."""
 
     negative: bool
     digits: str       # k significant digits, without a point
@@ -67,15 +67,20 @@ def endpoints(ball: arb) -> tuple[Fraction, Fraction]:
     return mid - rad, mid + rad
 
 
+SHORT_BITS = 14000  # integers below 2^14000 have fewer than 4300 digits: Python's str() prints them
+
+
 def decimal_text(number: int) -> str:
     """The decimal digits of an integer of any length (Python's own str() refuses more than
-    4300 digits; python-flint's does not)."""
-    return str(fmpz(number))
+    4300 digits; python-flint's does not, but costs more on short ones)."""
+    return str(number) if number.bit_length() < SHORT_BITS else str(fmpz(number))
 
 
 def decimal_exponent(value: int | Fraction) -> int:
-    """floor(log10 |value|) for a nonzero integer or fraction, exactly (no str(): any length)."""
+    """floor(log10 |value|) for a nonzero integer or fraction, exactly (any length)."""
     value = abs(value)
+    if type(value) is int and value.bit_length() < SHORT_BITS:
+        return len(str(value)) - 1
     bits = value.numerator.bit_length() - value.denominator.bit_length()
     guess = math.floor(bits * LOG10_2)  # within one of the answer
     while _power_of_ten(guess) > value:
@@ -136,12 +141,50 @@ def certain_decimal(ball: arb, digits: int) -> Rounded | None:
     """The longest certain decimal with at most ``digits`` significant digits, or None."""
     if not ball.is_finite() or ball.contains(0):
         return None
-    lo, hi, exponent = decimal_enclosure(ball, digits)
+    return longest_certain(*decimal_enclosure(ball, digits), digits)
+
+
+def longest_certain(lo: int, hi: int, exponent: int, digits: int) -> Rounded | None:
+    """The longest certain decimal (at most ``digits`` significant) of [lo, hi] 10^exponent."""
     for significant in range(digits, 0, -1):
         found = round_at(lo, hi, significant)
         if found is not None:  # rounding commutes with the power of ten
             return Rounded(found.negative, found.digits, found.exponent + exponent)
     return None
+
+
+def scaled_texts(centres: Sequence[int], exponent: int, divisor: int, radius: tuple[int, int],
+                 digits: int) -> list[str | None]:
+    """Certain decimal texts of the balls [c 2^exponent / divisor +- r] for the integers c, with
+    r = man 2^exp given as ``radius`` = (man, exp); None where no digit is certain (a ball
+    that holds zero: the caller writes its bound, :func:`zero_bound_text`).
+
+    The entries of a certified vector share their scale and radius, so each
+    ball's exact ends are integers over one common denominator: the decimal
+    enclosure is an integer floor and ceiling (no ball conversion), with
+    GUARD_DIGITS more places than the radius or ``digits`` can make certain.
+    """
+    rad_man, rad_exp = radius
+    base = min(exponent, rad_exp, 0)
+    den = divisor << -base
+    spread = (rad_man * divisor) << (rad_exp - base)
+    shift = exponent - base
+    # -log10(radius) < this: places beyond it cannot be certain
+    places = (den.bit_length() - spread.bit_length() + 1) * LOG10_2 + 1 if spread else math.inf
+    out: list[str | None] = []
+    powers: dict[int, int] = {}
+    for c in centres:
+        centre = c << shift
+        lo, hi = centre - spread, centre + spread
+        if lo <= 0 <= hi:
+            out.append(None)
+            continue
+        low_bits = (abs(centre) - spread).bit_length() - den.bit_length() - 1  # |x| >= 2^low_bits
+        scale = max(0, int(min(places, digits - math.floor(low_bits * LOG10_2) + 1)) + GUARD_DIGITS)
+        power = powers.setdefault(scale, 10 ** scale)
+        found = longest_certain((lo * power) // den, -((-hi * power) // den), -scale, digits)
+        out.append(found.text() if found is not None else None)
+    return out
 
 
 def zero_bound_text(ball: arb) -> str:
