@@ -7,6 +7,7 @@ digits; "fact of the trade" for the Bell state and product states.
 from __future__ import annotations
 
 import random
+import re
 
 import numpy
 import pytest
@@ -115,3 +116,26 @@ def test_an_api_call_over_the_time_limit_is_a_limit_error():
     with limits.limits_set(seconds=0.2):
         with pytest.raises(ketsplit.LimitError, match="stopped after"):
             ketsplit.ket("sum(n=0..99999, t^(n/100)|0>) + |1>")
+
+
+def test_the_shell_names_the_polynomials_with_every_term():
+    # reference: numpy's roots of the polynomials read back from the shell's text, against
+    # numpy's SVD; the constant term is kept (the text once dropped a constant of +-1)
+    from ketsplit.commands.core import descending_text
+    assert descending_text([1, 0, -1, 3]) == "3 x^3 - x^2 + 1"
+    assert descending_text([-1, 5, 0, -1]) == "-x^3 + 5 x - 1"
+    text, vector = dense_state(6, 11)
+    report = ketsplit.Session().run(f"schmidt {text} 123|456")[-1].text()
+    line = next(l for l in report.splitlines() if "roots of" in l).split("roots of", 1)[1]
+    roots = []
+    for polynomial in line.strip(" :").split("; "):
+        coefficients: dict[int, int] = {}
+        for sign, size, power in re.findall(r"(-?|[+-] )(\d*) ?(x(?:\^\d+)?)?(?= [+-] |$)", polynomial):
+            if not size and not power:
+                continue
+            degree = 0 if not power else 1 if power == "x" else int(power[2:])
+            coefficients[degree] = (-1 if "-" in sign else 1) * int(size or 1)
+        top = max(coefficients)
+        roots += list(numpy.roots([float(coefficients.get(k, 0)) for k in range(top, -1, -1)]).real)
+    reference = sorted(numpy_coefficients(vector, 3) ** 2)  # numpy SVD
+    assert numpy.allclose(sorted(roots), reference, rtol=0, atol=1e-9)

@@ -86,12 +86,20 @@ def _certified_entry(value: sympy.Expr, digits: int) -> str:
     return complex_text(ball, digits)
 
 
-def descending_text(polynomial: sympy.Expr) -> str:
-    """A polynomial in x written from its highest power down, in our syntax."""
-    from ..language.printer import terms_text
-    x = sympy.Symbol("x")
-    terms = sympy.Poly(polynomial, x).terms()
-    return terms_text((c, "" if not k else "x" if k == 1 else f"x^{k}") for (k,), c in terms).rstrip()
+def descending_text(coefficients) -> str:
+    """The polynomial sum c_k x^k (integer coefficients, constant first) written from its
+    highest power down, in our syntax: 3 x^3 - x^2 + 1."""
+    pieces = []
+    for k in range(len(coefficients) - 1, -1, -1):
+        c = int(coefficients[k])
+        if c:
+            power = "" if not k else "x" if k == 1 else f"x^{k}"
+            body = power if abs(c) == 1 and power else f"{abs(c)} {power}".rstrip()
+            pieces.append(("-" if c < 0 else "+", body))
+    if not pieces:
+        return "0"
+    text = ("-" if pieces[0][0] == "-" else "") + pieces[0][1]
+    return text + "".join(f" {sign} {body}" for sign, body in pieces[1:])
 
 
 def decompose(call: CommandCall, vectors: bool = True) -> tuple[State, Cut, Decomposition]:
@@ -108,8 +116,8 @@ def run_schmidt(call: CommandCall) -> Report:
     state, cut, found = decompose(call)
     if found.certified is not None:
         report = certified_report(found.certified, state, cut, call.subject())
-        if found.algebraic:
-            roots_of = "; ".join(descending_text(p) for p in found.algebraic)
+        if found.factors:
+            roots_of = "; ".join(descending_text(p.coeffs()) for p in found.factors)
             report = report.with_items(Field("squared coefficients are the roots of", roots_of))
         return report.with_notes(*found.notes)
     return decomposition_report(found, call.subject(), call.session.settings.digits)
