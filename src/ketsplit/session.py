@@ -11,19 +11,20 @@ from __future__ import annotations
 import re
 import sys
 from dataclasses import dataclass, field, replace
-from typing import Iterator
+from typing import Iterable, Iterator
 
 import sympy
 
-from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue, evaluate, kind_of
+from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue, collection_paused, evaluate, \
+    kind_of
 from . import limits
 from .base.errors import InputError, LimitError, Span
 from .language.tokens import Kind, tokenize
-from .timebudget import time_limited
 from .base.document import Report
 from .commands import COMMANDS, dispatch
 from .commands.registry import Result
-from .states import KINDS, Parameter, Space, State, kind_of_symbol, make_symbol
+from .states import (KINDS, Parameter, Space, State, free_symbols, is_zero_number, kind_of_symbol,
+                     make_symbol)
 
 MIN_DIGITS, MAX_DIGITS = limits.Limits.min_digits, limits.Limits.max_digits  # defaults; see limits
 
@@ -112,10 +113,8 @@ class Session:
 
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""
-        seconds = self.limits.seconds
         try:
-            with limits.using(self.limits), time_limited(
-                    seconds, lambda: limits.over_time(seconds, Span(line, 1, len(statement)), statement)):
+            with limits.using(self.limits), limits.enforced(Span(line, 1, len(statement)), statement):
                 return dispatch(self, statement, line)
         except InputError as err:
             raise relocate(err, statement, line) from None
@@ -141,13 +140,13 @@ class Session:
         if isinstance(value, SymmetricKet):  # kept in the Dicke basis, never listed in 2^n labels
             names = self.space.names if self.space and len(self.space.names) == value.nparts else ()
             return value.symmetric_state(names, self.params)
-        if not value.terms or all(v == 0 for v in value.terms.values()):
+        if all(map(is_zero_number, value.terms.values())):  # stops at the first nonzero one
             raise InputError("the state is zero: every amplitude vanishes", span)
         fresh = value.dims is None  # written here, not (only) from bound states
         if fresh and self.space and len(self.space.dims) != value.nparts:
             raise InputError(f"this state has {value.nparts} part(s) but the declared space has "
                              f"{len(self.space.dims)}", span)
-        inferred = tuple(max(2, 1 + max(label[p] for label in value.terms)) for p in range(value.nparts))
+        inferred = tuple(max(2, 1 + max(column)) for column in zip(*value.terms))
         if fresh and self.space and any(i > d for i, d in zip(inferred, self.space.dims)):
             part = next(k for k, (i, d) in enumerate(zip(inferred, self.space.dims)) if i > d)
             raise InputError(f"part {self.space.names[part]} has a label {inferred[part] - 1}, "
@@ -155,10 +154,10 @@ class Session:
         dims = self.space.dims if self.space and len(self.space.dims) == value.nparts else (
             tuple(max(a, b) for a, b in zip(inferred, value.dims)) if value.dims else inferred)
         names = self.space.names if self.space and len(self.space.names) == value.nparts else ()
-        amplitudes = {k: v for k, v in value.terms.items() if v != 0}
         limits.check_shape(dims, span)
-        state = State(dims, amplitudes, names)
-        return replace_params(state, self.params)
+        with collection_paused():
+            params = declared_parameters(free_symbols(value.terms.values()), self.params)
+            return State(dims, value.terms, names, params)
 
     def set_digits(self, digits: int, span: Span | None = None) -> None:
         low, high = limits.current().min_digits, limits.current().max_digits
@@ -177,13 +176,14 @@ class Session:
                 or name in COMMANDS or name in KINDS or name in ("space", "sum", "with", "in"))
 
 
-def replace_params(state: State, declared: dict[str, Parameter]) -> State:
-    """Attach each symbol's Parameter (declared kind and range, else complex)."""
+def declared_parameters(symbols: Iterable[sympy.Symbol],
+                        declared: dict[str, Parameter]) -> tuple[Parameter, ...]:
+    """Each symbol's Parameter (its declared kind and range, else complex), by name."""
     params = []
-    for symbol in sorted(state.symbols, key=lambda s: s.name):
+    for symbol in sorted(symbols, key=lambda s: s.name):
         found = declared.get(symbol.name)
         params.append(found if found and found.symbol == symbol else Parameter(symbol.name, kind_of_symbol(symbol)))
-    return State(state.dims, state.amplitudes, state.names, tuple(params))
+    return tuple(params)
 
 
 def relocate(err: InputError, statement: str, line: int) -> InputError:

@@ -9,6 +9,7 @@ support costs.  Parameters carry their assumptions and declared ranges.
 from __future__ import annotations
 
 from dataclasses import dataclass, field, fields
+from itertools import chain
 from types import MappingProxyType
 from typing import Iterable, Mapping
 
@@ -87,19 +88,12 @@ class State:
     _cache: dict = field(default_factory=dict, repr=False, compare=False)
 
     def __post_init__(self) -> None:
-        # as_expr refuses a string amplitude: it never parses text
-        amps = {tuple(k): as_expr(v) for k, v in dict(self.amplitudes).items()
-                if v != 0}
+        amps = nonzero_amplitudes(self.amplitudes)
         object.__setattr__(self, "amplitudes", MappingProxyType(amps))
         object.__setattr__(self, "dims", tuple(int(d) for d in self.dims))
         if not self.names:
             object.__setattr__(self, "names", default_names(len(self.dims)))
-        for label in amps:
-            if len(label) != len(self.dims):
-                raise ValueError(f"label {label} does not have {len(self.dims)} parts")
-            for part, (value, dim) in enumerate(zip(label, self.dims)):
-                if not 0 <= value < dim:
-                    raise ValueError(f"label {label}: part {part + 1} outside dimension {dim}")
+        check_labels(amps, self.dims)
 
     # -- shape ---------------------------------------------------------
     @property
@@ -114,11 +108,10 @@ class State:
         return total
 
     @property
-    def symbols(self) -> set[sympy.Symbol]:
-        found: set[sympy.Symbol] = set()
-        for value in self.amplitudes.values():
-            found |= value.free_symbols
-        return found
+    def symbols(self) -> frozenset[sympy.Symbol]:
+        if "symbols" not in self._cache:
+            self._cache["symbols"] = free_symbols(self.amplitudes.values())
+        return self._cache["symbols"]
 
     def parameter(self, name: str) -> Parameter | None:
         return next((p for p in self.params if p.name == name), None)
@@ -240,6 +233,82 @@ class State:
     def _repr_latex_(self) -> str:
         from .language.latexprint import state_display
         return state_display(self)
+
+
+def nonzero_amplitudes(amplitudes: Mapping) -> dict[tuple, sympy.Basic]:
+    """The amplitudes as sympy values, those that are the number zero left out.
+
+    ``as_expr`` converts Python and mpmath numbers and refuses text: it never parses."""
+    found = {}
+    for label, value in dict(amplitudes).items():
+        if not isinstance(value, sympy.Basic):
+            value = as_expr(value)
+        if not (value.is_Number and not value):
+            found[tuple(label)] = value
+    return found
+
+
+def is_zero_number(value: sympy.Basic) -> bool:
+    """Whether ``value`` is the number zero, decided without a sympy comparison (a class
+    flag and the number's own truth value, exact).  An expression that merely
+    simplifies to zero is not, as under sympy's structural ``== 0``."""
+    return value.is_Number and not value
+
+
+def check_labels(labels: Iterable[tuple], dims: tuple[int, ...]) -> None:
+    """A ValueError unless every label has one level a part, inside its dimension.
+
+    Checked in C loops over all labels at once (their levels as bytes, a part
+    a slice); the label named in an error is looked for only when that fails."""
+    labels = tuple(labels)
+    if labels and not _labels_fit(labels, dims):
+        for label in labels:
+            if len(label) != len(dims):
+                raise ValueError(f"label {label} does not have {len(dims)} parts")
+            for part, (value, dim) in enumerate(zip(label, dims)):
+                if not 0 <= value < dim:
+                    raise ValueError(f"label {label}: part {part + 1} outside dimension {dim}")
+
+
+def _labels_fit(labels: tuple[tuple, ...], dims: tuple[int, ...]) -> bool:
+    """Every label has len(dims) levels, each in range; False also when a level is not
+    a byte (0..255), which only the label-by-label check tells apart."""
+    nparts = len(dims)
+    if set(map(len, labels)) != {nparts}:
+        return False
+    try:
+        levels = bytes(chain.from_iterable(labels))
+    except (TypeError, ValueError):
+        return False
+    return all(not levels[part::nparts].translate(None, bytes(range(min(dim, 256))))
+               for part, dim in enumerate(dims))
+
+
+def free_symbols(values: Iterable[sympy.Basic]) -> frozenset[sympy.Symbol]:
+    """The free symbols of ``values``.  A number (3, 2 + 5*I, sqrt(3)/3) is recognised
+    as one without collecting its symbols, which costs several times more; a
+    Gaussian rational by its shape alone, with no walk at all."""
+    found: set[sympy.Symbol] = set()
+    for value in values:
+        if not (is_gaussian_rational(value) or value.is_number):
+            found |= value.free_symbols
+    return frozenset(found)
+
+
+def is_gaussian_rational(value: sympy.Basic) -> bool:
+    """Whether ``value`` is p, q*I or p + q*I for rationals p, q, as sympy's arithmetic
+    writes them (the builder's numbers): read from class flags, nothing evaluated."""
+    if value.is_Rational or value is sympy.I:
+        return True
+    args = value.args
+    if value.is_Add:
+        if len(args) != 2 or not args[0].is_Rational:
+            return False
+        value = args[1]
+        if value is sympy.I:
+            return True
+        args = value.args
+    return value.is_Mul and len(args) == 2 and args[0].is_Rational and args[1] is sympy.I
 
 
 def rebuild_value(cls: type, values: dict):

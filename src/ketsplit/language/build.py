@@ -21,8 +21,9 @@ from __future__ import annotations
 import gc
 import inspect
 import re
+from contextlib import contextmanager
 from dataclasses import dataclass, field
-from typing import Callable, Mapping, Protocol
+from typing import Callable, Iterator, Mapping, Protocol
 
 import sympy
 
@@ -465,16 +466,24 @@ class Builder(OperatorBuilding):
 
 def evaluate(text: str, scope: Scope, line: int = 1,
              bound: Mapping[str, int] | None = None) -> tuple[Value, Span]:
-    """Parse and build one expression.
+    """Parse and build one expression (with the collector paused)."""
+    with collection_paused():
+        node = parse_expression(text, line, runs=True)
+        return Builder(scope, text, dict(bound or {})).build(node), node.span
 
-    The cyclic garbage collector is paused meanwhile: the syntax tree of a long
-    state is many small objects and nothing cyclic, and its generational passes
-    would otherwise cost more than the parse itself."""
+
+@contextmanager
+def collection_paused() -> Iterator[None]:
+    """The cyclic garbage collector paused meanwhile.
+
+    The syntax tree and the amplitudes of a long state are many small objects
+    and nothing cyclic; the collector's generational passes over them would
+    otherwise cost more than parsing the text (and again when a State is made
+    of them: session.make_state)."""
     collecting = gc.isenabled()
     gc.disable()
     try:
-        node = parse_expression(text, line, runs=True)
-        return Builder(scope, text, dict(bound or {})).build(node), node.span
+        yield
     finally:
         if collecting:
             gc.enable()
