@@ -109,3 +109,50 @@ def test_typed_cells_for_scripts():
     with mpmath.workdps(50):
         assert value["digits"] == mpmath.nstr(1 / mpmath.sqrt(2), 30)
     assert typed(sympy.Symbol("t", real=True) ** 2) == {"exact": "t^2"}
+
+
+def test_every_object_carries_its_statements_value(capsys):
+    # the "value" key describes Result.value: ranks as ints, settings as their new value,
+    # exact numbers with certified digits, verdicts true/false/"undecided"
+    rank, digits, verdict, undecided, budget, schmidt = objects(
+        capsys, "-c", "real t in [0, pi/2]\nrank |000> + |111> 1|23\ndigits 40\n"
+        "check cos(t)^2 + sin(t)^2 = 1\ncheck sin(t) = t\nbudget 0\n"
+        "schmidt (sqrt(3)|00> + |11>)/2", "--json")[1:]
+    assert rank["value"] == 2 and isinstance(rank["value"], int)  # GHZ across 1|23 (fact of the trade)
+    assert digits["value"] == 40 and budget["value"] == 0.0
+    value = schmidt["value"]
+    assert value["type"] == "decomposition" and value["rank"] == 2
+    first = value["coefficients"][0]  # budget 0: the certified route, 40 digits asked
+    assert first["exact"] is None and first["certain"] == 40
+    with mpmath.workdps(60):  # reference digits from mpmath
+        assert first["digits"] == mpmath.nstr(mpmath.sqrt(3) / 2, 40)
+    assert verdict["value"]["type"] == "verdict" and verdict["value"]["holds"] is True
+    # sin t = t only at t = 0: refuted at a point of (0, pi/2] (fact of the trade)
+    assert undecided["value"]["holds"] in (False, "undecided")
+
+
+def test_strata_value_points_are_objects(capsys):
+    # cos t|00> + sin t|11> on [0, pi/2]: rank 1 exactly at t = 0 and t = pi/2 (fact of the trade)
+    data = objects(capsys, "-c", "real t in [0, pi/2]\nstrata cos(t)|00> + sin(t)|11>", "--json")[1]
+    generic, low = data["value"]["strata"]
+    assert data["value"]["type"] == "strata" and (generic["rank"], low["rank"]) == (2, 1)
+    assert low["points"][0] == {"t": 0} and low["points"][1]["t"]["exact"] == "pi/2"
+    assert generic["sample"]["t"]["exact"] == "pi/4"
+
+
+def test_a_certified_value_has_no_exact_text_and_only_certain_digits(capsys):
+    # 1/sqrt(2) twice over: the Bell pair's coefficients on the certified route
+    data = objects(capsys, "-c", "numeric (|00> + |11>)/sqrt(2)", "--json")[0]
+    first = data["value"]["coefficients"][0]
+    assert first["exact"] is None and first["certain"] == 30
+    with mpmath.workdps(50):  # mpmath reference
+        assert first["digits"] == mpmath.nstr(1 / mpmath.sqrt(2), 30)
+
+
+def test_plot_value_names_the_files_asked_for(capsys, tmp_path):
+    target = tmp_path / "e.svg"
+    data = objects(capsys, "-c", f"real t in [0, pi]\nplot entropy cos(t)|00> + sin(t)|11> "
+                   f"over t --to {target}", "--json")[1]
+    assert data["value"]["type"] == "drawing" and data["value"]["picture"] == str(target)
+    assert data["value"]["chart"]["parameter"] == "t"
+    assert data["fields"]["written"]["value"] == str(target) and target.exists()

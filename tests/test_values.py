@@ -162,3 +162,109 @@ def test_a_statement_result_keeps_its_value():
         back = pickle.loads(pickle.dumps(result))  # the whole result: report, value and renderings
         assert back.value == result.value and back.report == result.report
         assert back.text() == result.text() and back.to_json() == result.to_json()
+
+
+# One statement a command (issue 12, item 3): each returns a typed value that behaves like a
+# value.  A command added without a line here fails test_every_command_is_covered.
+SETUP = "real t in [0, pi/2]\npsi = cos(t)|00> + sin(t)|11>\nbell = (|00> + |11>)/sqrt(2)"
+WERNER = "[[1, 0, 0, 1], [0, 1, 0, 0], [0, 0, 1, 0], [1, 0, 0, 1]]/4"
+STATEMENTS = {
+    "schmidt": "schmidt bell", "numeric": "numeric bell", "rank": "rank |000> + |111> 1|23",
+    "reduce": "reduce bell 1", "digits": "digits 40", "method": "method exact",
+    "budget": "budget 5", "strata_budget": "strata_budget 60", "limits": "limits seconds=100",
+    "figures": "figures bell", "cuts": "cuts |000> + |111>", "compare": "compare bell, |00>",
+    "plot": "plot entropy psi over t", "map": None, "units": "units nats",
+    "check": "check cos(t)^2 + sin(t)^2 = 1", "strata": "strata psi",
+    "class": "class (|000> + |111>)/sqrt(2)", "tangle": "tangle (|000> + |111>)/sqrt(2)",
+    "classes": "classes (|000> + |111>)/sqrt(2)",
+    "density": f"density {WERNER}", "ptranspose": f"ptranspose {WERNER} 2",
+    "negativity": f"negativity {WERNER} 1|2", "concurrence": f"concurrence {WERNER}",
+    "mixedness": "mixedness [[3, 1], [1, 1]]/4", "fidelity": "fidelity bell, |00>",
+    "separable": f"separable {WERNER} 1|2", "opschmidt": "opschmidt [[1, 0, 0, 0], [0, 0, 1, 0], "
+    "[0, 1, 0, 0], [0, 0, 0, 1]] 1|2", "schmidtbasis": "schmidtbasis bell",
+    "help": "help rank", "save": "save values.kss", "open": "open values.kss",
+}
+MAP = ("real u in [0, pi/2]\nreal v in [0, pi]\n"
+       "map entropy cos(u)|00> + sin(u)(cos(v)|11> + sin(v)|22>) 1|2 over u, v")
+
+
+def test_every_command_is_covered():
+    from ketsplit.commands import COMMANDS
+    assert set(STATEMENTS) == set(COMMANDS)
+
+
+@pytest.fixture(scope="module")
+def values(tmp_path_factory) -> dict:
+    """Each command's result, run in a session that knows SETUP, in a scratch directory."""
+    import os
+    session, found = ketsplit.Session(), {}
+    session.run(SETUP)
+    here = os.getcwd()
+    os.chdir(tmp_path_factory.mktemp("values"))
+    try:
+        for name, statement in STATEMENTS.items():
+            found[name] = (session.run(statement) if statement else ketsplit.Session().run(MAP))[-1]
+    finally:
+        os.chdir(here)
+    return found
+
+
+@pytest.mark.parametrize("name", sorted(STATEMENTS))
+def test_each_command_returns_a_value_that_round_trips(values, name):
+    value = values[name].value
+    assert value is not None, f"{name} returns no value"
+    for back in round_trips(value):
+        assert back == value and type(back) is type(value)
+    shown = repr(value)
+    assert not shown.startswith("<") and len(shown) < 5000  # no default object repr
+
+
+def test_values_answer_the_questions(values):
+    import math
+    from flint import arb
+    from ketsplit.mixed import Density, Mixedness
+    from ketsplit.plots import Drawing
+    assert values["rank"].value == 2 and type(values["rank"].value) is int  # GHZ, fact of the trade
+    rho = values["reduce"].value  # the Bell pair's reduced state is I/2 (fact of the trade)
+    assert isinstance(rho, Density) and rho.matrix == sympy.eye(2) / 2
+    assert values["digits"].value == 40 and values["method"].value == "exact"
+    assert values["budget"].value == 5.0 and values["strata_budget"].value == 60.0
+    assert values["limits"].value.seconds == 100 and values["units"].value == "nats"
+    entropy = values["figures"].value["entropy (bits)"]
+    assert entropy == 1  # a Bell pair carries one ebit (fact of the trade)
+    assert [s.rank for s in values["cuts"].value.summaries] == [2, 2, 2]  # GHZ: rank 2 on every cut
+    assert isinstance(values["plot"].value, Drawing) and values["plot"].value.picture is None
+    assert values["map"].value.chart.label == "entropy (bits)"
+    assert values["class"].value.kind == "GHZ"  # Dür, Vidal & Cirac 2000
+    assert values["tangle"].value.tau == 1      # GHZ: tau = 1 (Coffman, Kundu & Wootters 2000)
+    assert [s.found.kind for s in values["classes"].value] == ["GHZ"]
+    # WERNER = |Phi+><Phi+|/2 + (|01><01| + |10><10|)/4, an X state: C = 2 max(0, |rho_14| -
+    # sqrt(rho_22 rho_33)) = 2 (1/4 - 1/4) = 0 (Yu & Eberly 2007, recalled from memory); its
+    # partial transpose has eigenvalues 1/2, 1/4, 1/4, 0 (by hand): negativity 0, PPT, separable
+    assert values["concurrence"].value[0].value == 0
+    assert values["negativity"].value[0].value == 0 and values["separable"].value.regions[0].verdict == "separable"
+    mixed = values["mixedness"].value  # [[3, 1], [1, 1]]/4: tr rho^2 = (9 + 1 + 1 + 1)/16 = 3/4 (by hand)
+    assert isinstance(mixed, Mixedness) and mixed.purity == sympy.Rational(3, 4)
+    assert values["fidelity"].value == sympy.Rational(1, 2)  # |<00|bell>|^2 = 1/2 (by hand)
+    assert values["opschmidt"].value.rank == 4  # SWAP has operator Schmidt rank 4 (fact of the trade)
+    assert values["save"].value.name == values["open"].value.name == "values.kss"
+    assert "rank STATE" in values["help"].value
+    assert isinstance(values["numeric"].value.coefficients[0], arb)
+    assert math.isclose(float(values["numeric"].value.coefficients[0].mid()), 2 ** -0.5)
+
+
+def test_a_certified_figure_value_round_trips():
+    # a ball inside the value: the figures of a certified decomposition
+    from ketsplit.figures import Figures
+    session = ketsplit.Session()
+    [found] = session.run(f"figures {quartic_text()} 1|2")
+    assert isinstance(found.value, Figures)
+    assert any(not isinstance(v, sympy.Basic) for _, v in found.value.values)
+    for back in round_trips(found.value):
+        assert back == found.value and hash(back) == hash(found.value)
+
+
+def quartic_text() -> str:
+    """quartic_state() in the statement language: 4x4 amplitudes, part dimensions 4 and 4."""
+    amplitudes = [1, 2, 0, 1, 0, 1, 3, 0, 2, 0, 1, 1, 0, 1, 1, 4]
+    return " + ".join(f"{a}|{k // 4}{k % 4}>" for k, a in enumerate(amplitudes) if a)

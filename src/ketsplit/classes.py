@@ -39,9 +39,11 @@ from .decomposition import decompose
 from .exact.signs import box_of
 from .figures import overview
 from .numeric.enclose import NotEnclosable, enclose
+from .numeric.stored import BallValue
 from .numeric.values import certified_real
 from .states import State
 from .strata import DEFAULT_BUDGET, Stratum, Undecided, strata
+from .strata.model import NotedList
 from .strata.search import same_point, state_rank_at
 
 QUBITS = (2, 2, 2)
@@ -97,8 +99,8 @@ def one_party_cut(k: int) -> Cut:
 
 # -- the class -------------------------------------------------------------------
 
-@dataclass(frozen=True)
-class EntanglementClass:
+@dataclass(frozen=True, eq=False)
+class EntanglementClass(BallValue):
     """The class of a three-qubit pure state with the invariants that decide it.
 
     ``kind``: "product", "biseparable", "W", "GHZ", or "undecided".  ``splits``
@@ -241,8 +243,8 @@ def tangle_state(state: State) -> State:
 SIGMA_YY = sympy.Matrix(4, 4, lambda i, j: (-1 if i in (0, 3) else 1) if i + j == 3 else 0)
 
 
-@dataclass(frozen=True)
-class Term:
+@dataclass(frozen=True, eq=False)
+class Term(BallValue):
     """One CKW term: exact (``value``), certified (``ball``), or missing with ``note``."""
 
     name: str
@@ -392,7 +394,7 @@ def holds_from(found: Decided[int]) -> Decided[bool]:
 # -- class strata ----------------------------------------------------------------
 
 @dataclass(frozen=True, eq=False)
-class ClassStratum:
+class ClassStratum(BallValue):
     """Where a family has one class: ``points`` (a finite list) or a locus with ``equations``.
 
     ``cause`` says which invariant drops there; ``found`` is the class at the sample
@@ -406,14 +408,9 @@ class ClassStratum:
     description: str
 
 
-class ClassStrata(list):
-    """ClassStratum values, generic class first; notes and undecided loci beside them."""
-
-    def __init__(self, items=(), notes: tuple[str, ...] = (),
-                 undecided: tuple[tuple[str, Undecided], ...] = ()):
-        super().__init__(items)
-        self.notes = tuple(notes)
-        self.undecided = tuple(undecided)
+class ClassStrata(NotedList):
+    """ClassStratum values, generic class first; notes and undecided loci ((cause,
+    :class:`Undecided`) pairs) beside them."""
 
 
 @dataclass

@@ -29,7 +29,7 @@ probabilities are balls whose printed digits are certain.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, fields, replace
+from dataclasses import dataclass, replace
 from functools import cmp_to_key
 
 import sympy
@@ -44,7 +44,7 @@ from .exact.eigen import characteristic_polynomial, eigenvalues
 from .exact.errors import NoClosedForm
 from .exact.signs import box_of
 from .base.errors import InputError
-from .numeric.certified import Ball
+from .numeric.stored import BallValue
 from .planner import plan
 from .states import State
 
@@ -345,8 +345,8 @@ def matched(x: Vector, y: Vector, box: Box) -> Decided[bool] | None:
 # -- the comparison value --------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class Comparison:
+@dataclass(frozen=True, eq=False)
+class Comparison(BallValue):
     """Both spectra (descending, padded), their partial sums, and the verdicts.
 
     A verdict is True, False, or None (undecided); ``undecided`` says why and how
@@ -369,21 +369,6 @@ class Comparison:
     @property
     def incomparable(self) -> bool:
         return self.forward is False and self.backward is False
-
-    # -- a value: balls stored exactly (flint balls neither pickle nor compare by value) --
-    def _stored(self) -> dict:
-        return {f.name: _stored(getattr(self, f.name)) for f in fields(self)}
-
-    def __eq__(self, other: object) -> bool:
-        if not isinstance(other, Comparison):
-            return NotImplemented
-        return self._stored() == other._stored()
-
-    def __hash__(self) -> int:
-        return hash(tuple(self._stored().values()))
-
-    def __reduce__(self):
-        return (rebuild_comparison, (self._stored(),))
 
     def _repr_latex_(self) -> str:
         from .display import comparison_latex
@@ -566,35 +551,3 @@ def conversion_probability(source: State, target: State, cut: Cut | str | None =
     """The largest probability of turning source into target by LOCC (Vidal), exactly."""
     found = compare(source, target, cut)
     return settled(found.p_forward, found, "the conversion probability")
-
-
-def _stored(value):
-    """A ball as an exact Ball; tuples element by element; anything else as it is.
-
-    Making a ball from a Ball rounds its radius up once (flint's radius
-    conversion), so the Ball stored is that of the remade ball: a remade
-    ball then stores the same Ball, and the value equals its unpickled copy.
-    """
-    if isinstance(value, arb):
-        return Ball.of(_ball(Ball.of(value)))
-    if isinstance(value, tuple):
-        return tuple(_stored(v) for v in value)
-    return value
-
-
-def _ball(value: Ball) -> arb:
-    with ctx.workprec(max(ctx.prec, value.man.bit_length() + 2)):  # the midpoint exactly
-        return value.arb()
-
-
-def _restored(value):
-    if isinstance(value, Ball):
-        return _ball(value)
-    if isinstance(value, tuple):
-        return tuple(_restored(v) for v in value)
-    return value
-
-
-def rebuild_comparison(values: dict) -> Comparison:
-    """The unpickler of a Comparison: its balls made again from their exact Balls."""
-    return Comparison(**{name: _restored(value) for name, value in values.items()})

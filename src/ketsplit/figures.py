@@ -23,6 +23,7 @@ from .decomposition import Decomposition, decompose, symmetric_schmidt
 from .exact.signs import box_of, drop_abs
 from .base.errors import InputError
 from .exact.numbers import field_degree_bound
+from .numeric.stored import BallValue
 from .planner import MAX_FIELD_DEGREE
 from .states import State, simplify_real
 from .symmetric import SymmetricState, cut_classes
@@ -214,6 +215,27 @@ def unknown_figure(name: str) -> InputError:
                       "and renyi(ALPHA)")
 
 
+@dataclass(frozen=True, eq=False)
+class Figures(BallValue):
+    """Entanglement figures of one state across one cut: the squared Schmidt coefficients
+    and each figure asked for, by label (``entropy (bits)``, ``renyi(2) (nats)``,
+    ``concurrence``), each exact (a sympy expression) or a certified ball."""
+
+    squared: tuple[sympy.Expr | arb, ...]
+    values: tuple[tuple[str, sympy.Expr | arb], ...]
+    unit: str = "bits"
+
+    def __getitem__(self, label: str) -> sympy.Expr | arb:
+        return dict(self.values)[label]
+
+    def __repr__(self) -> str:
+        from .language.printer import text
+        from .numeric.digits import certain_text
+        shown = ", ".join(f"{label}: {certain_text(value, 30) if isinstance(value, arb) else text(value)}"
+                          for label, value in self.values)
+        return f"Figures({shown})"
+
+
 def figures(state: State, cut: Cut | str | None = None, unit: str = "bits") -> dict[str, sympy.Expr]:
     """Every entanglement figure of the normalised ``state`` across ``cut``, exactly.
 
@@ -258,8 +280,8 @@ def renyi(state: State, cut: Cut | str | None, alpha, unit: str = "bits") -> sym
 MAX_OVERVIEW_PARTS = 10  # 511 cuts
 
 
-@dataclass(frozen=True)
-class CutSummary:
+@dataclass(frozen=True, eq=False)
+class CutSummary(BallValue):
     cut: Cut
     rank: int | None          # None: undecided at the precision ceiling
     entropy: sympy.Expr | arb  # exact, or a certified ball

@@ -44,10 +44,14 @@ from .exact.eigen import NoClosedForm, eigenvalues, solve_factor
 from .numeric.digits import certain_count
 from .numeric.enclose import enclose
 from .states import Parameter, State
+from .strata.budget import Budget
+from .strata.proved import Undecidable
+from .strata.separability import UNDECIDED, Plane, plane_strata
 
 Number = Union[sympy.Expr, arb]           # exact, or a certified real ball
 MAX_DOUBLINGS = 5
 EXACT_SIDES = {(2, 2), (2, 3), (3, 2)}    # where PPT is equivalent to separability
+STRATA_BUDGET = 30.0                      # seconds of exact algebra for a two-parameter box
 
 
 @dataclass(frozen=True, eq=False)
@@ -170,24 +174,58 @@ def charpoly_coefficients(matrix: sympy.MatrixBase) -> list[sympy.Expr]:
 
 
 def _check_positive(matrix: sympy.MatrixBase, box) -> tuple[str, ...]:
-    """Refuse a matrix with a proved negative eigenvalue; a note when it is undecided."""
-    undecided = []
-    for k, a in enumerate(charpoly_coefficients(matrix)):
-        found = sign((-1) ** k * a, box)
+    """Refuse a matrix with a proved negative eigenvalue; a note when it is undecided.
+
+    Each condition of Descartes' rule (:func:`_factor_conditions`) is asked of the decision
+    layer in factored form; with two parameters the ones it leaves open go to the cells of the
+    box (:func:`plane_strata`), exactly.  A witness point of the decision layer refuses the
+    matrix only when the condition is proved negative there."""
+    open_conditions, undecided = [], []
+    coefficients = charpoly_coefficients(matrix)
+    symbols = sorted(set().union(*(a.free_symbols for a in coefficients)), key=lambda s: s.name)
+    conditions = _factor_conditions(coefficients, symbols) if symbols else \
+        [(-1) ** k * a for k, a in enumerate(coefficients)]
+    for k, condition in enumerate(conditions):
+        found = sign(sympy.factor(condition) if condition.free_symbols else condition, box)
         if found.value in (0, 1):
             continue
-        if found.value == -1 or (found.point is not None and not a.free_symbols):
+        if found.value == -1 or not condition.free_symbols:
             raise InputError("not a density matrix: it has a negative eigenvalue (Descartes' rule "
-                             f"on its characteristic polynomial, coefficient {k}: {found.proof})")
-        if found.point is not None:
-            where = ", ".join(f"{s} = {v}" for s, v in found.point.items())
-            raise InputError(f"not a density matrix over the whole declared range: at {where} it has "
-                             "a negative eigenvalue; narrow the range ('real p in [lo, hi]')")
+                             f"on its characteristic polynomial, condition {k}: {found.proof})")
+        if found.point is not None and sign(condition.xreplace(found.point)).value == -1:
+            _refuse_at(found.point)
+        open_conditions.append(condition)
         undecided.append(found.hint or found.proof)
+    if open_conditions and _plane_positive(open_conditions, box):
+        return ()
     if undecided:
         return (f"positivity is undecided over the declared ranges ({undecided[0]}); results "
                 "hold where the matrix is positive semidefinite",)
     return ()
+
+
+def _refuse_at(point) -> None:
+    where = ", ".join(f"{s} = {v}" for s, v in point.items())
+    raise InputError(f"not a density matrix over the whole declared range: at {where} it has "
+                     "a negative eigenvalue; narrow the range ('real p in [lo, hi]')")
+
+
+def _plane_positive(conditions: list[sympy.Expr], box) -> bool:
+    """Two parameters with ranges: every condition >= 0 on every cell of the box (True), a
+    cell where one is negative (refused), or a cell left undecided (False)."""
+    symbols = sorted(set().union(*(c.free_symbols for c in conditions)), key=lambda s: s.name)
+    if len(symbols) != 2 or not set(symbols) <= set(box) or \
+            any(compare(*box[s]).value != -1 for s in symbols):
+        return False
+    try:
+        plane = plane_strata(conditions, lambda signs: "negative" if min(signs) < 0 else "",
+                             *symbols, {s: box[s] for s in symbols}, Budget(STRATA_BUDGET))
+    except Undecidable:
+        return False
+    for cell in plane.cells:
+        if cell.verdict == "negative":
+            _refuse_at(cell.sample)
+    return UNDECIDED not in plane.verdicts
 
 
 # -- partial transpose ---------------------------------------------------------------
@@ -587,10 +625,15 @@ class Region:
 
 @dataclass(frozen=True)
 class Separability:
+    """The verdicts across a cut.  One parameter (or none): ``regions``.  Two parameters:
+    ``plane`` holds the cells of the box (:mod:`ketsplit.strata.separability`), and
+    ``regions`` is one region "everywhere" when every cell has one verdict, else empty."""
+
     regions: tuple[Region, ...]
     sides: tuple[int, int]       # dimensions of the two sides of the cut
     decisive: bool               # PPT is equivalent to separability on these sides
     transposed: tuple[int, ...]  # the parts transposed
+    plane: Plane | None = None
 
 
 def negative_count(coefficients: Sequence[sympy.Expr]) -> int:
@@ -607,10 +650,11 @@ def negative_count(coefficients: Sequence[sympy.Expr]) -> int:
     return sum(1 for x, y in zip(signs, signs[1:]) if x != y)
 
 
-def separability(rho: Density, cut: Cut) -> Separability:
-    """Every parameter value (one parameter) where rho is PPT or not across ``cut``.
+def separability(rho: Density, cut: Cut, budget: float = STRATA_BUDGET) -> Separability:
+    """Every parameter value (one or two parameters) where rho is PPT or not across ``cut``.
 
-    The right side of the cut is transposed.  A constant matrix gives one region."""
+    The right side of the cut is transposed.  A constant matrix gives one region; two
+    parameters give the cells of their box (``budget``: seconds of exact algebra)."""
     sides = (prod(rho.dims[p] for p in cut.left), prod(rho.dims[p] for p in cut.right))
     decisive = sides in EXACT_SIDES
     coefficients = charpoly_coefficients(partial_transpose(rho, cut.right))
@@ -619,6 +663,12 @@ def separability(rho: Density, cut: Cut) -> Separability:
     if not symbols:
         count = negative_count(coefficients)
         return Separability((Region(name(count), proof=_proof(count)),), sides, decisive, cut.right)
+    if len(symbols) == 2 and symbols <= set(rho.box):
+        plane = _plane(rho, coefficients, sides, name, budget)
+        verdicts = plane.verdicts
+        regions = (Region(verdicts.pop(), proof="every cell of the box has this verdict"),) \
+            if len(verdicts) == 1 and UNDECIDED not in verdicts else ()
+        return Separability(regions, sides, decisive, cut.right, plane)
     if len(symbols) > 1 or next(iter(symbols)) not in rho.box:
         return Separability((_whole_box(coefficients, symbols, rho.box, name),), sides, decisive,
                             cut.right)
@@ -639,9 +689,61 @@ def separability(rho: Density, cut: Cut) -> Separability:
     return Separability(_joined(regions), sides, decisive, cut.right)
 
 
+def _plane(rho: Density, coefficients: Sequence[sympy.Expr], sides: tuple[int, int],
+           name: Callable[[int], str], budget: float) -> Plane:
+    """Two parameters: the cells of their box.  On 2x2 the sign of det(rho^T) alone decides
+    (entangled iff det < 0: Augusiak, Demianowicz & Horodecki 2008; the partial transpose of an
+    entangled two-qubit state has full rank, and at most one negative eigenvalue); elsewhere
+    the coefficients of the characteristic polynomial at -x (PPT iff all are >= 0, Descartes)."""
+    x, y = (p.symbol for p in rho.params if p.symbol in rho.box and
+            any(p.symbol in a.free_symbols for a in coefficients))
+    if sides == (2, 2):
+        conditions = [coefficients[-1]]
+
+        def verdict(signs: Sequence[int]) -> str:
+            return name(1 if signs[0] < 0 else 0)
+    else:
+        conditions = _factor_conditions(coefficients, (x, y))
+
+        def verdict(signs: Sequence[int]) -> str:
+            return name(1 if any(s < 0 for s in signs) else 0)
+    box = {x: rho.box[x], y: rho.box[y]}
+    for symbol, (lo, hi) in box.items():
+        if compare(lo, hi).value != -1:
+            raise InputError(f"the range of {symbol} is one point: give it with 'with {symbol}=...'")
+    try:
+        return plane_strata(conditions, verdict, x, y, box, Budget(budget))
+    except Undecidable as why:
+        raise InputError(f"separability: {why}; fix one parameter with 'with'") from None
+
+
+def _factor_conditions(coefficients: Sequence[sympy.Expr], symbols) -> list[sympy.Expr]:
+    """(-1)^k b_k >= 0 for the coefficients b_k of each factor of the characteristic polynomial
+    over QQ[params]: each factor of a real-rooted polynomial is real-rooted, so Descartes' rule
+    holds factor by factor, with far smaller conditions than the whole product's.  (The
+    product is monic, so each factor's leading coefficient is a constant.)  The whole
+    polynomial's (-1)^k a_k when it is not a polynomial in the parameters."""
+    plain = [(-1) ** k * a for k, a in enumerate(coefficients)]
+    x = sympy.Dummy("x")
+    n = len(coefficients) - 1
+    charpoly = sympy.expand(sum(a * x ** (n - k) for k, a in enumerate(coefficients)))
+    try:
+        factors = sympy.factor_list(charpoly, x, *symbols)[1]
+    except sympy.PolynomialError:
+        return plain
+    conditions = []
+    for factor, _ in factors:
+        in_x = sympy.Poly(factor, x)
+        lead, *rest = in_x.all_coeffs()
+        if lead.free_symbols:
+            return plain
+        conditions += [sympy.expand((-1) ** (k + 1) * b / lead) for k, b in enumerate(rest)]
+    return conditions
+
+
 def _whole_box(coefficients: Sequence[sympy.Expr], symbols: set, box,
                name: Callable[[int], str]) -> Region:
-    """Several parameters: PPT on the whole box when every (-1)^k a_k >= 0 there is proved
+    """Three or more parameters: PPT on the whole box when every (-1)^k a_k >= 0 there is proved
     (no negative eigenvalue anywhere); otherwise the question is given back with a hint."""
     if not symbols <= set(box):
         raise InputError("separability of a family needs declared ranges for its parameters "
@@ -649,9 +751,9 @@ def _whole_box(coefficients: Sequence[sympy.Expr], symbols: set, box,
     for k, a in enumerate(coefficients):
         found = sign((-1) ** k * a, box)
         if found.value not in (0, 1):
-            raise InputError("with several parameters only 'PPT over the whole box' is decided, "
-                             f"and here it is not ({found.proof}); fix all parameters but one "
-                             "with 'with' for the regions")
+            raise InputError("with more than two parameters only 'PPT over the whole box' is "
+                             f"decided, and here it is not ({found.proof}); fix all parameters "
+                             "but two with 'with' for the regions")
     return Region(name(0), proof="every coefficient of the characteristic polynomial of the "
                   "partial transpose at -x is proved >= 0 over the whole box: no negative eigenvalue")
 

@@ -41,7 +41,7 @@ def class_report(found: EntanglementClass, state: State, name: str, digits: int)
     notes = found.proofs + (SOURCES,)
     if found.generic:
         notes += ("the class can change at special parameter values: see 'classes'",)
-    return Report(f"entanglement class of {name}", tuple(items), notes)
+    return Report(f"entanglement class of {name}", tuple(items), notes, value=found)
 
 
 def tau_fields(tau, ball, digits: int) -> list[Field]:
@@ -65,7 +65,7 @@ def many_parts_report(state: State, name: str) -> Report:
              "infinitely many SLOCC classes of four qubits (Verstraete, Dehaene, De Moor & Verschelde 2002, recalled from memory), and no "
              "classification of them is attempted",)
     return Report(f"what the class question decides for {name} ({state.nparts} parts)",
-                  tuple(items), notes)
+                  tuple(items), notes, value=found)
 
 
 @command("tangle", "tangle STATE [with NAME=VALUE, ...]",
@@ -92,7 +92,7 @@ def tangle_report(found: Monogamy, state: State, name: str, digits: int) -> Repo
         a, b, c = (t.name for t in (found.ab, found.ac, found.a_bc))
         items.append(Field(f"{a} + {b} <= {c}", verdict(found.holds)))
         items.append(Field(f"tau = {c} - {a} - {b}", verdict(found.gap_is_tau)))
-    return Report(f"three-tangle and CKW terms of {name}", tuple(items), (SOURCES,))
+    return Report(f"three-tangle and CKW terms of {name}", tuple(items), (SOURCES,), value=found)
 
 
 def term_cell(term: Term, digits: int):
@@ -140,7 +140,7 @@ def classes_report(found: ClassStrata, name: str, digits: int) -> Report:
     notes = found.notes + ("each class is decided afresh at its exact points; on a curve or "
                            "surface the class shown is the one at its sample point, and points "
                            "of a lower class on it have rows of their own", SOURCES)
-    return Report(f"class strata of {name}", tuple(items), notes)
+    return Report(f"class strata of {name}", tuple(items), notes, value=found)
 
 
 def where(stratum, digits: int) -> str:

@@ -3,7 +3,8 @@
 from __future__ import annotations
 
 from .. import limits
-from ..cuts import join_names, reduced
+from ..cuts import join_names
+from ..mixed import reduced_density
 import sympy
 
 from .. import decomposition
@@ -119,7 +120,7 @@ def run_schmidt(call: CommandCall) -> Report:
         if found.factors:
             roots_of = "; ".join(descending_text(p.coeffs()) for p in found.factors)
             report = report.with_items(Field("squared coefficients are the roots of", roots_of))
-        return report.with_notes(*found.notes)
+        return report.with_notes(*found.notes).with_value(found)
     return decomposition_report(found, call.subject(), call.session.settings.digits)
 
 
@@ -128,10 +129,9 @@ def run_schmidt(call: CommandCall) -> Report:
          "reduce (|00> + |01> + |10>)/sqrt(3) 1")
 def run_reduce(call: CommandCall) -> Report:
     state, keep = call.state_and_parts()
-    rho = reduced(state, keep)
-    notes = () if state.is_normalised() else ("the state was normalised first",)
+    rho = reduced_density(state, keep)
     kept = join_names(state, keep)
-    return Report(f"reduced state on {kept}", (Field(f"rho_{kept}", rho),), notes)
+    return Report(f"reduced state on {kept}", (Field(f"rho_{kept}", rho.matrix),), rho.notes, value=rho)
 
 
 @command("rank", "rank STATE [CUT] [with NAME=VALUE, ...]",
@@ -143,7 +143,7 @@ def run_rank(call: CommandCall) -> Report:
         rank = found.rank if found.rank is not None else Between(found.certified.rank_text(),
                                                                  *found.certified.rank_bounds)
         return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", rank),), found.notes,
-                      value=found.rank)
+                      value=rank)
     note = () if not state.symbols or call.point else (
         "generic rank: it can drop at special parameter values (see 'strata')",)
     return Report(f"Schmidt rank across {cut.describe(state)}", (Field("rank", found.rank),), note,
@@ -160,7 +160,11 @@ def run_digits(call: CommandCall) -> Report:
     if len(text) > 9:
         raise limits.refuse(f"digits {text[:9]}…", "max_digits", call.whole_span(), call.source)
     call.session.set_digits(int(text), call.whole_span())
-    return Report(f"digits {int(text)}")
+    return Report(f"digits {int(text)}", value=int(text))
+
+
+DECLARATIONS = ("declarations: real|positive|complex|integer NAMES [in [lo, hi]]; space A:2 B:3; "
+                "assignment: NAME = STATE")
 
 
 @command("help", "help [COMMAND]", "the list of commands, or one command with a worked example",
@@ -169,10 +173,9 @@ def run_help(call: CommandCall) -> Report:
     topic = call.args.strip()
     if not topic:
         rows = tuple((c.usage, c.summary) for c in sorted(COMMANDS.values(), key=lambda c: c.name))
-        return Report("commands", (Table(("usage", "what it does"), rows),
-                                   Note("declarations: real|positive|complex|integer NAMES [in [lo, hi]];"
-                                        " space A:2 B:3; assignment: NAME = STATE"),
-                                   Note(more_topics())))
+        notes = (DECLARATIONS, more_topics())
+        return Report("commands", (Table(("usage", "what it does"), rows), *map(Note, notes)),
+                      value="\n".join([*(f"{usage}: {does}" for usage, does in rows), *notes]))
     found = COMMANDS.get(topic)
     if found is None and topic in TOPICS:
         return topic_report(topic)
@@ -182,4 +185,5 @@ def run_help(call: CommandCall) -> Report:
         hint = f"; did you mean {close[0]!r}?" if close else ""
         raise call.error(f"no help topic {topic!r}{hint}", call.offset + call.args.index(topic), len(topic))
     return Report(f"help {found.name}", (Field("usage", found.usage), Field("does", found.summary),
-                                         Field("example", found.example)))
+                                         Field("example", found.example)),
+                  value=f"{found.usage}\n{found.summary}\nexample: {found.example}")

@@ -48,7 +48,8 @@ def declare(session: "Session", statement: str, start: int, line: int) -> Report
     names = [name for name, _ in declaration.names]
     session.declare(names, kind, rng)
     where = f" in [{language_text(rng[0])}, {language_text(rng[1])}]" if rng else ""
-    return Report(f"declared {kind} {', '.join(names)}{where}")
+    return Report(f"declared {kind} {', '.join(names)}{where}",
+                  value=tuple(session.params[name] for name in names))
 
 
 def range_bounds(session: "Session", declaration: Declaration, statement: str
@@ -107,7 +108,7 @@ def space(session: "Session", statement: str, start: int, line: int) -> Report:
     limits.check_shape(tuple(dims), Span(line, start + 1, len(statement) - start), statement)
     session.space = Space(tuple(names), tuple(dims))
     listing = " ".join(f"{n}:{d}" for n, d in zip(names, dims))
-    return Report(f"space {listing}")
+    return Report(f"space {listing}", value=session.space)
 
 
 def assign(session: "Session", name: str, statement: str, start: int, line: int) -> Report:
@@ -128,7 +129,7 @@ def assign(session: "Session", name: str, statement: str, start: int, line: int)
         session.bindings[name] = state
         return state_report(f"{name} =", state, session.params)
     session.bindings[name] = value
-    return Report(f"{name} = {language_text(value)}", (Field("kind", kind_of(value)),))
+    return Report(f"{name} = {language_text(value)}", (Field("kind", kind_of(value)),), value=value)
 
 
 def state_report(title: str, state: State, declared: Mapping[str, object] | None = None) -> Report:
@@ -150,7 +151,7 @@ def state_report(title: str, state: State, declared: Mapping[str, object] | None
     if not state.is_normalised():
         items.append(Note(f"not normalised (norm² = {ket_norm_text(norm2)}); results use the "
                           "normalised state"))
-    return Report(title, tuple(items))
+    return Report(title, tuple(items), value=state)
 
 
 def ket_norm_text(norm2: sympy.Expr) -> str:
@@ -164,8 +165,9 @@ def show(session: "Session", statement: str, line: int) -> Report:
         state = session.make_state(value, Span(line, 1, len(statement)))
         return state_report("state", state, session.params)
     if isinstance(value, sympy.MatrixBase):
-        return Report("matrix", (Field("value", value),))
-    return Report("value", (Field("value", sympy.simplify(value)),))
+        return Report("matrix", (Field("value", value),), value=value)
+    simplified = sympy.simplify(value)
+    return Report("value", (Field("value", simplified),), value=simplified)
 
 
 def parse_point(session: "Session", text: str, offset: int, line: int, statement: str

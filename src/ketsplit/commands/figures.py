@@ -13,7 +13,7 @@ from ..cuts import CUT_PATTERN, parse_cut
 from ..decomposition import decompose
 from ..numeric.digits import digits_cell
 from ..numeric.values import certified_real
-from ..figures import (certified_figures, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
+from ..figures import (certified_figures, Figures, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
                        unknown_figure, verdict, without_extrema)
 from ..base.errors import Span
 from ..plots import COEFFICIENTS, Drawing, Family, family_chart, figure_label, terminal_lines
@@ -135,6 +135,7 @@ def run_figures(call: CommandCall) -> Report:
         rows = tuple((figure_label(w, unit), "no closed form", digits_cell(balls[w], digits))
                      for w in wanted)
         squared = [digits_cell(ball, digits) for ball in d.squared]
+        values = {figure_label(w, unit): balls[w] for w in wanted}
     else:
         values = _figure_values(Spectrum.of(d), wanted, unit)
         rows = tuple((label, value, certified(value, digits)) for label, value in values.items())
@@ -143,7 +144,7 @@ def run_figures(call: CommandCall) -> Report:
              Table(("figure", "exact", f"certified digits (up to {digits})"), rows,
                    ("figure", "exact", "certified_digits")))
     return Report(f"entanglement figures of {trimmed.subject()} across {cut.describe(state)}",
-                  items, d.notes)
+                  items, d.notes, value=Figures(tuple(d.squared), tuple(values.items()), unit))
 
 
 @command("cuts", "cuts STATE [with NAME=VALUE, ...]",
@@ -166,7 +167,7 @@ def run_cuts(call: CommandCall) -> Report:
         if found.generic else ()
     return Report(f"every cut of {trimmed.args.strip()} ({len(rows)} bipartitions)",
                   (Table(("cut", "rank", f"entropy ({unit})", "certified digits"), rows),
-                   Field("verdict", verdict(found, state))), notes)
+                   Field("verdict", verdict(found, state))), notes, value=found)
 
 
 # -- compare ------------------------------------------------------------------
@@ -392,4 +393,4 @@ def run_units(call: CommandCall) -> Report:
         raise call.error(f"units: expected bits or nats, found {word!r}",
                          call.offset + len(call.args) - len(call.args.lstrip()), len(word) or 1)
     call.session.settings = replace(call.session.settings, entropy_unit=word)
-    return Report(f"units {word}")
+    return Report(f"units {word}", value=word)

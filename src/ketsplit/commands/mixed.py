@@ -290,9 +290,12 @@ def region_text(region: mixed.Region) -> str:
         return "everywhere"
     if region.is_point:
         return f"{region.symbol} = {language_text(region.lo)}"
-    left = "[" if region.closed[0] else "("
-    right = "]" if region.closed[1] else ")"
-    return f"{region.symbol} in {left}{language_text(region.lo)}, {language_text(region.hi)}{right}"
+    return interval_text(region.symbol, language_text(region.lo), language_text(region.hi),
+                         region.closed)
+
+
+def interval_text(name, lo: str, hi: str, closed: tuple[bool, bool]) -> str:
+    return f"{name} in {'[' if closed[0] else '('}{lo}, {hi}{']' if closed[1] else ')'}"
 
 
 def _threshold_digits(regions: tuple[mixed.Region, ...], digits: int) -> tuple:
@@ -301,23 +304,84 @@ def _threshold_digits(regions: tuple[mixed.Region, ...], digits: int) -> tuple:
     return tuple(Field("threshold", exact_cell(p, digits)) for p in shown)
 
 
+def plane_items(plane: "mixed.Plane", digits: int) -> tuple:
+    """Two parameters: the cells (where, verdict, the exact point it was decided at), the
+    boundary curves, the thresholds in the second parameter and the critical values' digits."""
+    rows = tuple((cell_text(plane, c), c.verdict, _point_text(c.sample)) for c in plane.cells)
+    items: tuple = (Table(("where", "verdict", "decided at"), rows),)
+    if plane.boundary:
+        items += (Field("boundary", "; ".join(f"{language_text(f)} = 0" for f in plane.boundary)),)
+    thresholds = tuple(_thresholds(plane))
+    if thresholds:
+        items += (Table((f"where {plane.x} is", f"threshold in {plane.y}", "below", "above"),
+                        thresholds),)
+    shown = [v for v in plane.critical if not v.is_Rational]
+    return items + tuple(Field(f"critical {plane.x}", exact_cell(v, digits)) for v in shown)
+
+
+def cell_text(plane: "mixed.Plane", cell) -> str:
+    x, y = plane.x, plane.y
+    where = f"{x} = {language_text(cell.x_lo)}" if cell.on_line else \
+        f"{x} in ({language_text(cell.x_lo)}, {language_text(cell.x_hi)})"
+    if cell.on_curve:
+        return f"{where}, {y} = {bound_text(cell.y_lo, y)}"
+    return f"{where}, " + interval_text(y, bound_text(cell.y_lo, y), bound_text(cell.y_hi, y),
+                                        cell.closed)
+
+
+def bound_text(bound, y) -> str:
+    """A number, a closed form in the first parameter, or 'root k in y of f = 0'."""
+    if isinstance(bound, sympy.Expr):
+        return language_text(bound)
+    if bound.closed is not None:
+        return language_text(bound.closed)
+    return f"root {bound.index + 1} in {y} of {language_text(bound.poly)} = 0"
+
+
+def _thresholds(plane: "mixed.Plane"):
+    """Over each interval of the first parameter, the sections between different verdicts."""
+    for below, above in zip(plane.cells, plane.cells[1:]):
+        same_column = (below.x_lo, below.x_hi) == (above.x_lo, above.x_hi)
+        if same_column and not below.on_line and below.verdict != above.verdict:
+            edge = below.y_hi if above.on_curve else above.y_lo
+            yield (f"({language_text(below.x_lo)}, {language_text(below.x_hi)})",
+                   f"{plane.y} = {bound_text(edge, plane.y)}", below.verdict, above.verdict)
+
+
+def _point_text(point) -> str:
+    return ", ".join(f"{s} = {language_text(v)}" for s, v in point.items())
+
+
+def plane_note(sides: tuple[int, int]) -> str:
+    rule = ("entangled exactly where det(rho^T) < 0 (Augusiak, Demianowicz & Horodecki 2008)"
+            if sides == (2, 2) else "PPT exactly where every coefficient of the characteristic "
+            "polynomial of rho^T at -x is >= 0 (Descartes' rule)")
+    return ("two parameters: the box is cut into cells on which no condition changes sign "
+            f"(cylindrical decomposition); {rule}; each cell decided exactly at the point shown")
+
+
 @command("separable", "separable RHO [CUT] [with NAME=VALUE, ...]",
-         "where a density matrix (or a family of one parameter) is separable or entangled: the PPT "
-         "criterion, decisive on 2x2 and 2x3; larger sides are labelled PPT",
+         "where a density matrix (or a family of one or two parameters) is separable or entangled: "
+         "the PPT criterion, decisive on 2x2 and 2x3; larger sides are labelled PPT",
          "separable [[1, 0, 0, 1], [0, 1, 0, 0], [0, 0, 1, 0], [1, 0, 0, 1]]/4 1|2",
          topic=MIXED_TOPIC)
 def run_separable(call: CommandCall) -> Report:
     rho, cut = density_and_cut(call)
-    found = mixed.separability(rho, cut)
-    rows = tuple((region_text(r), r.verdict) for r in found.regions)
-    items: tuple = (Table(("where", "verdict"), rows),)
-    items += _threshold_digits(found.regions, _digits(call))
+    found = mixed.separability(rho, cut, call.session.settings.strata_budget)
+    if found.plane is not None:
+        items: tuple = plane_items(found.plane, _digits(call))
+        notes = (plane_note(found.sides),)
+    else:
+        rows = tuple((region_text(r), r.verdict) for r in found.regions)
+        items = (Table(("where", "verdict"), rows),) + _threshold_digits(found.regions, _digits(call))
+        notes = ()
     a, b = found.sides
     note = (f"PPT criterion (Peres 1996) on {a}x{b}: necessary and sufficient there (Horodecki, "
             "Horodecki & Horodecki 1996)" if found.decisive else
             f"on {a}x{b} PPT does not prove separability (PPT entangled states exist, Horodecki "
             "1997): PPT regions are labelled PPT, not separable")
-    return Report(f"separability across {cut.describe(_frame(rho))}", items, rho.notes + (note,))
+    return Report(f"separability across {cut.describe(_frame(rho))}", items,
+                  rho.notes + notes + (note,))
 
 
 def operator_and_cut(call: CommandCall) -> tuple[sympy.MatrixBase, tuple[int, ...], State, Cut]:

@@ -35,7 +35,7 @@ def certified_report(result: CertifiedSchmidt, state: State, cut: Cut, name: str
         notes += cluster_notes(result)
     items = (Field("rank", result.rank if result.rank is not None else result.rank_text()), table)
     return Report(f"Schmidt coefficients of {name} across {cut.describe(state)} "
-                  f"(certified numeric, {result.digits} digits)", items, tuple(notes))
+                  f"(certified numeric, {result.digits} digits)", items, tuple(notes), value=result)
 
 
 def vector_table(result: CertifiedSchmidt, state: State, cut: Cut) -> Table:
@@ -109,7 +109,7 @@ def run_method(call: CommandCall) -> Report:
         raise call.error(f"method: expected one of {', '.join(METHODS)}, found {text!r}",
                          column, len(text) or 1)
     call.session.settings = replace(call.session.settings, method=text)
-    return Report(f"method {text}")
+    return Report(f"method {text}", value=text)
 
 
 @command("budget", "budget SECONDS",
@@ -120,7 +120,7 @@ def run_budget(call: CommandCall) -> Report:
     seconds = seconds_argument(call)
     method = "certified" if seconds == 0 else "auto"
     call.session.settings = replace(call.session.settings, exact_budget=seconds, method=method)
-    return Report(f"budget {seconds:g} s: method {method}",
+    return Report(f"budget {seconds:g} s: method {method}", value=seconds,
                   notes=("the route is chosen from the state's structure, never from the clock; "
                          "'budget 0' asks for certified numbers (as 'method certified')",))
 
@@ -132,7 +132,7 @@ def run_budget(call: CommandCall) -> Report:
 def run_strata_budget(call: CommandCall) -> Report:
     seconds = seconds_argument(call)
     call.session.settings = replace(call.session.settings, strata_budget=seconds)
-    return Report(f"strata_budget {seconds:g} s")
+    return Report(f"strata_budget {seconds:g} s", value=seconds)
 
 
 def seconds_argument(call: CommandCall) -> float:

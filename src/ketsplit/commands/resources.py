@@ -23,4 +23,5 @@ def run_limits(call: CommandCall) -> Report:
     rows = tuple((name, limits.shown(value), limits.MEANINGS[name]) for name, value in now.items())
     return Report("resource limits" if not text else f"limits {text}",
                   (Table(("limit", "value", "bounds"), rows),
-                   Note("change with 'limits NAME=VALUE'; the limits hold for this session")))
+                   Note("change with 'limits NAME=VALUE'; the limits hold for this session")),
+                  value=call.session.limits)

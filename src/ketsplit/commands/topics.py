@@ -48,7 +48,8 @@ TOPICS: dict[str, tuple[str, ...]] = {
 def topic_report(topic: str) -> Report:
     """The topic as a report: one note a paragraph (or a row of a two-column list, whose
     lines wrap under the second column)."""
-    return Report(f"help {topic}", tuple(Note(line) for line in TOPICS[topic]))
+    return Report(f"help {topic}", tuple(Note(line) for line in TOPICS[topic]),
+                  value="\n".join(TOPICS[topic]))
 
 
 def more_topics() -> str:

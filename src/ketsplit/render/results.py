@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, fields
 
 from ..session import Result
+from .described import described
 from .jsonout import to_data
 from .latex import to_display_latex, to_latex
 from .text import to_text
@@ -28,7 +29,7 @@ class ShownResult(Result):
     def to_json(self) -> dict:
         data = to_data(self.report)
         return {"schema": data.pop("schema"), "statement": self.statement, "kind": self.kind,
-                "line": self.line, **data}
+                "line": self.line, **data, "value": described(self.value)}
 
     def __str__(self) -> str:
         return self.text()

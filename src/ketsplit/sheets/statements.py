@@ -64,7 +64,7 @@ def run_save(call: CommandCall) -> Report:
     except OSError as err:
         raise call.error(f"cannot write {path}: {err.strerror or err}; nothing was saved and "
                          "the session goes on", *argument_place(call)) from None
-    return Report(f"saved {len(sheet.lines)} lines to {path}")
+    return Report(f"saved {len(sheet.lines)} lines to {path}", value=path)
 
 
 def is_worksheet(path: Path) -> bool:
@@ -95,7 +95,7 @@ def run_open(call: CommandCall) -> Report:
              + [f"line {d.line}: the result differs from the one recorded" for d in changed]
              + [f"line {o.entry.line} failed: {o.error.message}" for o in outcomes if o.error])
     ran = sum(1 for o in outcomes if o.runs)
-    return Report(f"opened {path}: {ran} lines replayed", items, tuple(notes))
+    return Report(f"opened {path}: {ran} lines replayed", items, tuple(notes), value=path)
 
 
 def replayed_items(outcome: Outcome) -> list[Field]:

@@ -70,23 +70,17 @@ class Undecided(ByValue):
     hint: str
 
 
-class Strata(list):
-    """A list of :class:`Stratum`, generic first, with the notes of the computation.
+class NotedList(list):
+    """A list of strata with the notes of the computation and the undecided loci beside it:
+    equal by value, pickled as itself (its class, items, notes and undecided loci)."""
 
-    Every listed stratum is proved (with a verified sample point); loci proved
-    to hold no point inside the ranges are named in ``notes``; loci that were
-    neither are in ``undecided``, never in the list.  A computation that runs
-    out of time raises :class:`~ketsplit.base.errors.LimitError` instead of
-    returning part of the list.
-    """
-
-    def __init__(self, items=(), notes: tuple[str, ...] = (), undecided: tuple[Undecided, ...] = ()):
+    def __init__(self, items=(), notes: tuple[str, ...] = (), undecided: tuple = ()):
         super().__init__(items)
         self.notes = tuple(notes)
         self.undecided = tuple(undecided)
 
     def __eq__(self, other: object) -> bool:
-        if not isinstance(other, Strata):
+        if type(other) is not type(self):
             return NotImplemented
         return (list(self) == list(other) and self.notes == other.notes
                 and self.undecided == other.undecided)
@@ -94,12 +88,23 @@ class Strata(list):
     __hash__ = None  # type: ignore[assignment]  # a list
 
     def __reduce__(self):
-        return (Strata, (list(self), self.notes, self.undecided))
+        return (type(self), (list(self), self.notes, self.undecided))
 
     def __repr__(self) -> str:
         more = "".join(f", {name}={value!r}" for name, value in
                        (("notes", self.notes), ("undecided", self.undecided)) if value)
-        return f"Strata({list.__repr__(self)}{more})"
+        return f"{type(self).__name__}({list.__repr__(self)}{more})"
+
+
+class Strata(NotedList):
+    """A list of :class:`Stratum`, generic first, with the notes of the computation.
+
+    Every listed stratum is proved (with a verified sample point); loci proved
+    to hold no point inside the ranges are named in ``notes``; loci that were
+    neither are in ``undecided`` (:class:`Undecided` values), never in the list.
+    A computation that runs out of time raises
+    :class:`~ketsplit.base.errors.LimitError` instead of returning part of the list.
+    """
 
     def _repr_latex_(self) -> str:
         from ..display import strata_latex

@@ -1,0 +1,346 @@
+"""Separability strata of a mixed family of two parameters, exactly.
+
+The question is "where in the box of declared ranges is this density matrix
+separable (PPT), and where entangled?".  The answer is semialgebraic: the
+signs of a few polynomials c_1, ..., c_m in the parameters (x, y) decide it
+at every point (:func:`ketsplit.mixed.separability` says which: on 2x2 the
+determinant of the partial transpose alone, entangled iff det < 0, Augusiak,
+Demianowicz & Horodecki 2008; otherwise the coefficients of its
+characteristic polynomial at -x, PPT iff all are >= 0, Descartes' rule for a
+real-rooted polynomial).
+
+So the box is cut into cells on which every c_k has one sign (a cylindrical
+decomposition, Collins 1975, in two variables):
+
+- the irreducible factors f of the c_k over QQ are projected on x: the
+  leading coefficient and discriminant of each f in y, f on the lower and
+  upper edges of the box, and the resultant in y of each pair.  Their real
+  roots inside the range of x are the critical values; between two of them
+  the real roots in y of every f are continuous, distinct functions of x
+  (none meets another, none leaves the box through an edge), so each column
+  is a stack of cells;
+- over an open interval of x the stack is read at one rational x0: its
+  sections are "root k (ascending) of f(x, y) = 0 in y", with the closed form
+  in x where f has degree <= 2 in y, and between them lie open regions;
+  over a critical value the line itself is a column of its own;
+- every cell is decided at one exact sample point (rational inside open
+  regions, algebraic on sections and critical lines) by the decision layer
+  (:mod:`ketsplit.arith.decide`): the verdict holds on the whole cell since
+  no c_k changes sign on it.  A cell whose sample cannot be decided is
+  "undecided", with a hint; there is no guessing.
+
+Neighbouring cells of one column with one verdict are joined.  The boundary
+between the verdicts lies on the curves f = 0 that separate cells of
+different verdicts, given as exact polynomial equations.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import cmp_to_key
+from itertools import combinations
+from typing import Callable, Sequence, Union
+
+import sympy
+
+from ..arith.decide import drop_abs, sign
+from ..arith.ranges import rational_inside
+from ..language.coerce import as_expr
+from .budget import Budget
+from .proved import Undecidable, inside, order, zero
+from .solve import common_factor, real_roots
+
+Verdict = Callable[[Sequence[int]], str]   # the signs of c_1..c_m at a point -> a verdict
+Point = dict[sympy.Symbol, sympy.Expr]
+UNDECIDED = "undecided"
+CLOSED_DEGREE = 2   # sections of factors of degree <= 2 in y get closed forms
+
+
+@dataclass(frozen=True)
+class Section:
+    """Root ``index`` (0-based, ascending among all real roots in y) of ``poly`` = 0, as a
+    function of x over a column; ``closed`` is its formula in x when there is one."""
+
+    poly: sympy.Expr
+    index: int
+    closed: sympy.Expr | None = None
+
+
+Bound = Union[sympy.Expr, Section]   # an exact number (a box edge, a root on a line), or a section
+
+
+@dataclass(frozen=True)
+class Cell:
+    """Where ``verdict`` holds: x in the open interval (x_lo, x_hi), or x = x_lo when they are
+    equal; y between ``y_lo`` and ``y_hi`` (a point or a section when they are equal), each end
+    included or not by ``closed``.  ``sample`` is the exact point the verdict was decided at."""
+
+    verdict: str
+    x_lo: sympy.Expr
+    x_hi: sympy.Expr
+    y_lo: Bound
+    y_hi: Bound
+    closed: tuple[bool, bool]
+    sample: Point
+    proof: str
+
+    @property
+    def on_line(self) -> bool:
+        return self.x_lo == self.x_hi
+
+    @property
+    def on_curve(self) -> bool:
+        return self.y_lo == self.y_hi
+
+
+@dataclass(frozen=True)
+class Plane:
+    """The cells of the box, column by column (x ascending, y ascending in each)."""
+
+    x: sympy.Symbol
+    y: sympy.Symbol
+    cells: tuple[Cell, ...]
+    boundary: tuple[sympy.Expr, ...]   # the curves f = 0 between cells of different verdicts
+    critical: tuple[sympy.Expr, ...]   # the critical values of x inside its range
+
+    @property
+    def verdicts(self) -> set[str]:
+        return {c.verdict for c in self.cells}
+
+
+def plane_strata(conditions: Sequence[sympy.Expr], verdict: Verdict, x: sympy.Symbol,
+                 y: sympy.Symbol, box, budget: Budget) -> Plane:
+    """The cells of ``box`` (x and y to (lo, hi), rational or algebraic ends, lo < hi) on which
+    every condition has one sign, each with its verdict."""
+    factors = _factors(conditions, x, y)
+    (x_lo, x_hi), (y_lo, y_hi) = ((as_expr(lo), as_expr(hi)) for lo, hi in (box[x], box[y]))
+    critical = _critical_values(factors, x, y, (x_lo, x_hi), (y_lo, y_hi), budget)
+    ends = [x_lo, *critical, x_hi]
+    judge = _Judge(conditions, verdict, x, y)
+    cells: list[Cell] = []
+    for k, end in enumerate(ends):
+        budget.check()
+        cells.extend(_column(factors, judge, end, end, (y_lo, y_hi)))
+        if k + 1 < len(ends):
+            cells.extend(_column(factors, judge, end, ends[k + 1], (y_lo, y_hi)))
+    cells = _joined(cells)
+    boundary = _boundary(cells) + _vertical_boundary(cells, factors, x)
+    return Plane(x, y, tuple(cells), tuple(dict.fromkeys(boundary)), tuple(critical))
+
+
+# -- projection ------------------------------------------------------------------------
+
+
+def _factors(conditions: Sequence[sympy.Expr], x, y) -> list[sympy.Poly]:
+    """The distinct irreducible factors over QQ, of positive degree, of the conditions."""
+    found: dict[sympy.Poly, None] = {}
+    for c in conditions:
+        poly = sympy.Poly(sympy.expand(c), x, y)
+        if not (poly.domain.is_ZZ or poly.domain.is_QQ):
+            raise Undecidable(f"the condition {c} has coefficients outside the rationals")
+        for factor, _ in poly.factor_list()[1]:
+            if factor.total_degree() > 0:
+                found[_normal(factor)] = None
+    return list(found)
+
+
+def _normal(factor: sympy.Poly) -> sympy.Poly:
+    """Integer coefficients without a common divisor, positive leading one: one name per curve."""
+    primitive = factor.clear_denoms(convert=True)[1].primitive()[1]
+    return -primitive if primitive.LC() < 0 else primitive
+
+
+def _critical_values(factors: list[sympy.Poly], x, y, x_range, y_range, budget: Budget
+                     ) -> list[sympy.Expr]:
+    """The real roots strictly inside the range of x of the projection polynomials, sorted."""
+    projected: list[sympy.Poly] = []
+    with_y = [f for f in factors if f.degree(y) > 0]
+    for f in factors:
+        if f.degree(y) == 0:
+            projected.append(sympy.Poly(f.as_expr(), x))
+    for f in with_y:
+        budget.check()
+        expr = f.as_expr()
+        projected.append(sympy.Poly(sympy.Poly(expr, y).LC(), x))
+        if f.degree(y) > 1:
+            projected.append(sympy.Poly(sympy.discriminant(expr, y), x))
+        projected.extend(sympy.Poly(expr.subs(y, end), x) for end in y_range)
+    for f, g in combinations(with_y, 2):
+        budget.check()
+        projected.append(sympy.Poly(sympy.resultant(f.as_expr(), g.as_expr(), y), x))
+    roots: list[sympy.Expr] = []
+    for poly in projected:
+        if poly.degree() <= 0:
+            continue
+        for root in real_roots(common_factor([poly.as_expr()], x), x):
+            if inside(root, *x_range, strict=True) and not any(zero(root - r) for r in roots):
+                roots.append(root)
+    return sorted(roots, key=cmp_to_key(order))
+
+
+# -- columns ----------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class _Judge:
+    conditions: Sequence[sympy.Expr]
+    verdict: Verdict
+    x: sympy.Symbol
+    y: sympy.Symbol
+
+    def at(self, point: Point) -> tuple[str, str]:
+        """(verdict, proof) at an exact point: each condition's sign by the decision layer."""
+        signs = []
+        for c in self.conditions:
+            if _vanishes(c, point):
+                signs.append(0)
+                continue
+            found = sign(sympy.expand(c.xreplace(point)))
+            if found.value is None:
+                return UNDECIDED, (f"the sign of {c} at {_point_text(point)} is undecided: "
+                                   f"{found.proof}; {found.hint or 'ask at a nearby point'}")
+            signs.append(found.value)
+        return self.verdict(signs), f"decided at {_point_text(point)} (exact signs {signs})"
+
+
+def _vanishes(c: sympy.Expr, point: Point) -> bool:
+    """c is proved zero at a point with at most one irrational coordinate v: c at the other
+    coordinates is a polynomial h in that one, and h(v) = 0 iff the minimal polynomial of v
+    divides h (exact division over QQ); False when not proved so."""
+    irrational = [s for s, v in point.items() if not v.is_Rational]
+    if len(irrational) > 1:
+        return False
+    value = sympy.expand(c.xreplace(point))
+    if not irrational or value == 0:
+        return value == 0
+    (symbol,) = irrational
+    rest = sympy.expand(c.xreplace({s: v for s, v in point.items() if s != symbol}))
+    minimal = sympy.minimal_polynomial(point[symbol], symbol)
+    return sympy.rem(rest, minimal, symbol) == 0
+
+
+def _point_text(point: Point) -> str:
+    return ", ".join(f"{s} = {v}" for s, v in point.items())
+
+
+def _column(factors: list[sympy.Poly], judge: _Judge, lo, hi, y_range) -> list[Cell]:
+    """The cells over x = lo (lo == hi) or over the open interval (lo, hi), bottom to top."""
+    x, y = judge.x, judge.y
+    x0 = lo if lo == hi else rational_inside(lo, hi)
+    try:
+        roots = _fiber_roots(factors, x, y, x0, y_range)
+    except (Undecidable, ArithmeticError, NotImplementedError, sympy.PolynomialError) as why:
+        sample = {x: x0, y: rational_inside(*y_range)}
+        return [Cell(UNDECIDED, lo, hi, y_range[0], y_range[1], (True, True), sample,
+                     f"the roots in {y} over {x} = {x0} were not found exactly ({why}); ask "
+                     f"with '{x}' fixed ('with {x}=...')")]
+    over_interval = lo != hi
+    marks = [y_range[0]] + [r for r, _ in roots] + [y_range[1]]
+    bounds: list[Bound] = [y_range[0]] + [
+        _section(f, x, y, (lo, hi, x0), r) if over_interval else r for r, f in roots] + [y_range[1]]
+    cells = []
+    for k, mark in enumerate(marks):
+        verdict, proof = judge.at({x: x0, y: mark})
+        cells.append(Cell(verdict, lo, hi, bounds[k], bounds[k], (True, True), {x: x0, y: mark}, proof))
+        if k + 1 < len(marks):
+            middle = rational_inside(mark, marks[k + 1])
+            verdict, proof = judge.at({x: x0, y: middle})
+            cells.append(Cell(verdict, lo, hi, bounds[k], bounds[k + 1], (False, False),
+                              {x: x0, y: middle}, proof))
+    return cells
+
+
+def _fiber_roots(factors: list[sympy.Poly], x, y, x0, y_range) -> list[tuple[sympy.Expr, sympy.Poly]]:
+    """The distinct roots strictly inside the range of y of the factors at x = x0, ascending,
+    each with one factor it is a root of."""
+    found: list[tuple[sympy.Expr, sympy.Poly]] = []
+    for f in factors:
+        g = sympy.expand(f.as_expr().xreplace({x: x0}))
+        if y not in g.free_symbols:
+            continue  # a constant on the line (zero: the whole line lies on f)
+        for root in real_roots(common_factor([g], y), y):
+            if inside(root, *y_range, strict=True) and not any(zero(root - r) for r, _ in found):
+                found.append((root, f))
+    return sorted(found, key=cmp_to_key(lambda a, b: order(a[0], b[0])))
+
+
+def _section(f: sympy.Poly, x, y, column, root) -> Section:
+    """The section of f through (x0, root), ``column`` = (lo, hi, x0): its index among the real
+    roots in y of f(x0, y) (constant over the column) and its closed form in x where the degree
+    in y allows."""
+    x0 = column[2]
+    g = sympy.expand(f.as_expr().xreplace({x: x0}))
+    roots = sorted(real_roots(common_factor([g], y), y), key=cmp_to_key(order))
+    index = next(k for k, r in enumerate(roots) if zero(r - root))
+    return Section(f.as_expr(), index, _closed_form(f, x, y, column, root))
+
+
+def _closed_form(f: sympy.Poly, x, y, column, root) -> sympy.Expr | None:
+    """-b/a, or the one of (-b +- sqrt(b^2 - 4ac))/(2a) through the sample, with each |g| whose
+    sign is proved over the column written as +-g (:func:`ketsplit.arith.decide.drop_abs`)."""
+    lo, hi, x0 = column
+    in_y = sympy.Poly(f.as_expr(), y)
+    if in_y.degree() > CLOSED_DEGREE:
+        return None
+    coeffs = in_y.all_coeffs()
+    if in_y.degree() == 1:
+        candidates = [sympy.cancel(-coeffs[1] / coeffs[0])]
+    else:
+        a, b, c = coeffs
+        root_disc = sympy.sqrt(sympy.factor(b * b - 4 * a * c))
+        candidates = [(-b + s * root_disc) / (2 * a) for s in (1, -1)]
+    for candidate in candidates:
+        if zero(sympy.expand(candidate.xreplace({x: x0})) - root):
+            return sympy.factor(drop_abs(candidate, {x: (lo, hi)}))
+    return None
+
+
+# -- joining and the boundary -------------------------------------------------------------
+
+
+def _joined(cells: list[Cell]) -> list[Cell]:
+    """Neighbours in one column with one verdict (not undecided) as one cell."""
+    result: list[Cell] = []
+    for cell in cells:
+        last = result[-1] if result else None
+        if (last is not None and last.verdict == cell.verdict != UNDECIDED
+                and (last.x_lo, last.x_hi) == (cell.x_lo, cell.x_hi)):
+            keep = last if not last.on_curve or cell.on_curve else cell  # an open cell's sample
+            result[-1] = Cell(last.verdict, last.x_lo, last.x_hi, last.y_lo, cell.y_hi,
+                              (last.closed[0], cell.closed[1]), keep.sample, keep.proof)
+        else:
+            result.append(cell)
+    return result
+
+
+def _boundary(cells: list[Cell]) -> tuple[sympy.Expr, ...]:
+    """The curves of the sections between stacked cells of different verdicts over intervals
+    of x (every curve between two open regions of different verdicts is one of them)."""
+    found: dict[sympy.Expr, None] = {}
+    for below, above in zip(cells, cells[1:]):
+        if (below.x_lo, below.x_hi) != (above.x_lo, above.x_hi) or below.verdict == above.verdict:
+            continue
+        for edge in (below.y_hi, above.y_lo):
+            if isinstance(edge, Section):
+                found[edge.poly] = None
+    return tuple(found)
+
+
+def _vertical_boundary(cells: list[Cell], factors: list[sympy.Poly], x) -> tuple[sympy.Expr, ...]:
+    """The factors in x alone whose line x = c has columns of different verdicts beside it."""
+    columns: dict[tuple, list[str]] = {}
+    for cell in cells:
+        columns.setdefault((cell.x_lo, cell.x_hi), []).append(cell.verdict)
+    found = []
+    for f in (f for f in factors if f.as_expr().free_symbols == {x}):
+        for lo, hi in columns:
+            if lo != hi or not zero(f.as_expr().xreplace({x: lo})):
+                continue
+            left = next((v for (a, b), v in columns.items() if b == lo and a != b), None)
+            right = next((v for (a, b), v in columns.items() if a == lo and a != b), None)
+            if left is not None and right is not None and left != right:
+                found.append(f.as_expr())
+    return tuple(found)
+
+
+__all__ = ["plane_strata", "Plane", "Cell", "Section", "UNDECIDED"]
