@@ -41,7 +41,7 @@ def test_with_values_may_use_declared_parameters_and_constants():
     session = ketsplit.Session()
     session.run("real t, s; psi = cos(t)|00> + sin(t)|11>")
     s = sympy.Symbol("s", real=True)
-    from ketsplit.commands.declarations import parse_point
+    from ketsplit.commands.registry import parse_point
     statement = "rank psi with t=2 s, s=pi/6"
     point = parse_point(session, statement[14:], 14, 1, statement)
     assert point == {"t": 2 * s, "s": sympy.pi / 6}

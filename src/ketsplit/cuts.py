@@ -10,7 +10,6 @@ conversions to plain sympy matrices happen at the edges.
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from functools import cached_property
 
@@ -20,8 +19,8 @@ from sympy.polys.constructor import construct_domain
 
 from . import limits
 from .base.errors import InputError, Span
+from .language.statements import CutSpec, PartsSpec, parse_cut_text, parse_parts_text
 from .states import State, simplify_real
-
 
 
 @dataclass(frozen=True)
@@ -44,17 +43,18 @@ def join_names(state: State, parts: tuple[int, ...]) -> str:
     return sep.join(names)
 
 
-CUT_PATTERN = re.compile(r"^[A-Za-z0-9_,]+\|[A-Za-z0-9_,]+$")
-PARTS_PATTERN = re.compile(r"^[A-Za-z0-9_,]+$")
-
-
-def parse_parts(text: str, state: State, span: Span | None = None, source: str | None = None
+def parse_parts(parts: str | PartsSpec, state: State, source: str | None = None
                 ) -> tuple[int, ...]:
-    """Part list such as ``13``, ``1,3``, ``AC`` or ``A,C`` -> sorted 0-based indices."""
-    pieces = text.split(",") if "," in text else (
-        [text] if state.part_index(text) is not None and not text.isdigit() else list(text))
-    indices = []
-    for piece in pieces:
+    """A part list (``13``, ``1,3``, ``AC``, ``A,C``, as text or as read by the statement
+    grammar) -> sorted 0-based indices.  Without commas the word is one part's name when
+    the state has a part of that name (not a number), else one part a character."""
+    if isinstance(parts, str):
+        source = parts if source is None else source
+        parts = parse_parts_text(parts)
+    named = not parts.commas and state.part_index(parts.text) is not None and \
+        not parts.text.isdigit()
+    indices: list[int] = []
+    for piece, span in parts.pieces if parts.commas or named else parts.characters():
         index = state.part_index(piece)
         if index is None:
             known = ", ".join(state.names)
@@ -65,28 +65,31 @@ def parse_parts(text: str, state: State, span: Span | None = None, source: str |
     return tuple(sorted(indices))
 
 
-def parse_cut(text: str | None, state: State, span: Span | None = None,
+def parse_cut(cut: str | CutSpec | None, state: State, where: Span | None = None,
               source: str | None = None) -> Cut:
-    """``1|2``, ``13|2``, ``1,3|2``, ``A|BC``; ``None`` for a two-part state."""
-    if text is None:
+    """A cut (``1|2``, ``13|2``, ``1,3|2``, ``A|BC``, as text or as read by the statement
+    grammar) on the parts of ``state``; ``None`` for a two-part state, else an error at
+    ``where`` (where the cut was expected)."""
+    if cut is None:
         if state.nparts == 2:
             return Cut((0,), (1,))
         raise InputError(f"this state has {state.nparts} parts: name a cut such as "
                          f"{join_names(state, (0,))}|{join_names(state, tuple(range(1, state.nparts)))}",
-                         span, source)
-    if not CUT_PATTERN.match(text):
-        raise InputError(f"expected a cut such as 1|2 or A|BC, found {text!r}", span, source)
-    left_text, right_text = text.split("|")
-    left = parse_parts(left_text, state, span, source)
-    right = parse_parts(right_text, state, span, source)
+                         where, source)
+    if isinstance(cut, str):
+        source = cut if source is None else source
+        cut = parse_cut_text(cut)
+    left = parse_parts(cut.left, state, source)
+    right = parse_parts(cut.right, state, source)
     both = set(left) & set(right)
     if both:
-        raise InputError(f"part {state.names[min(both)]} stands on both sides of the cut", span, source)
+        raise InputError(f"part {state.names[min(both)]} stands on both sides of the cut",
+                         cut.span, source)
     missing = set(range(state.nparts)) - set(left) - set(right)
     if missing:
         names = ", ".join(state.names[m] for m in sorted(missing))
         raise InputError(f"the cut leaves out part(s) {names}; every part must be on one side",
-                         span, source)
+                         cut.span, source)
     return Cut(left, right)
 
 

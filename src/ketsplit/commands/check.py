@@ -13,29 +13,25 @@
 
 from __future__ import annotations
 
-import re
-
 import sympy
 
 from ..checking.checker import compare_values
 from ..checking.claims import rank_claim, reduced_claim, schmidt_claim, schmidt_form_claim
 from ..checking.forms import FormTerm, read_form
-from ..cuts import CUT_PATTERN, Cut
+from ..cuts import Cut
 from ..checking.decide import Options, decide
 from ..checking.sides import parameters
 from ..checking.verdict import DIFFERENCE, WHERE, Verdict
 from ..language.build import KetValue, is_scalar
 from ..base.errors import InputError
-from ..language.tokens import KET_CHARS
+from ..language.statements import NAME, Words, bracketed, split_claim, split_commas
 from ..language.printer import text
 from ..base.document import Field, Point, Report, Truth
 from ..states import State
 from ..symmetric import SymmetricKet
-from .declarations import split_top_level
 from .registry import CommandCall, command
 
 CLAIMS = ("schmidt", "reduce", "rank")
-FIRST_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
 
 
 @command("check", "check LHS = RHS | LHS ~ RHS | STATE CUT = c1 (u1)(w1) + ... | "
@@ -56,52 +52,31 @@ def statement_verdict(session, text: str, options: Options) -> Verdict:
 def claim_verdict(call: CommandCall, options: Options | None = None) -> Verdict:
     """The verdict on the claim in the call's text (any of the forms listed above)."""
     options = options or _options(call)
-    left, operator, right, right_offset = _split(call)
-    claim = left.split(None, 1)[0] if left.strip() else ""
+    left, operator, right_words = _split(call)
+    right, right_offset = right_words.text().strip(), right_words.start
+    first = left.items[0] if left.items else None
+    claim = first.text if first is not None and first.kind == NAME else ""
     try:
-        if claim in CLAIMS and operator == "=" and len(left.split(None, 1)) == 2:
-            return _claim(call, claim, left, right, right_offset, options)
+        if claim in CLAIMS and operator == "=" and len(left) > 1:
+            return _claim(call, claim, left, right_words, options)
         return _identity(call, left, right, right_offset, operator == "~", options)
     except InputError as err:
         if err.span is not None:
             raise
-        raise call.error(err.message, right_offset, len(right.strip()) or 1) from None
+        raise call.error(err.message, right_offset, len(right) or 1) from None
 
 
-def _split(call: CommandCall) -> tuple[str, str, str, int]:
-    """(left text, '=' or '~', right text, column of the right text)."""
-    found = list(_top_level(call.args, "=~"))
-    if not found:
+def _split(call: CommandCall) -> tuple[Words, str, Words]:
+    """``claim := expr ('=' | '~') expr``: (left words, '=' or '~', right words)."""
+    sides = split_claim(call.words())
+    if len(sides) == 1:
         raise call.error("check: expected LHS = RHS or LHS ~ RHS", call.offset,
                          len(call.args.strip()) or 1)
-    if len(found) > 1:
+    if len(sides) > 2:
         raise call.error("check: expected one '=' or '~' between the two sides, found another",
-                         call.offset + found[1])
-    at = found[0]
-    right = call.args[at + 1:]
-    lead = len(right) - len(right.lstrip())
-    return call.args[:at], call.args[at], right.lstrip(), call.offset + at + 1 + lead
-
-
-def _top_level(text: str, operators: str):
-    """Positions of ``operators`` outside brackets and kets.
-
-    A bar opens a ket only when a '>' closes it over ket characters; otherwise
-    it is the bar of a cut such as ``1|2``.
-    """
-    depth, k = 0, 0
-    while k < len(text):
-        ch = text[k]
-        close = text.find(">", k + 1) if ch == "|" else -1
-        if close > 0 and all(c in KET_CHARS for c in text[k + 1:close]):
-            k = close
-        elif ch in "([":
-            depth += 1
-        elif ch in ")]":
-            depth -= 1
-        elif ch in operators and depth == 0:
-            yield k
-        k += 1
+                         sides[2][0].start)
+    (_, left), (operator, right) = sides
+    return left, operator.text, right
 
 
 def _options(call: CommandCall) -> Options:
@@ -110,18 +85,19 @@ def _options(call: CommandCall) -> Options:
     return Options(digits=settings.digits, exact_share=settings.exact_budget)
 
 
-def _identity(call: CommandCall, left: str, right: str, right_offset: int, phase: bool,
+def _identity(call: CommandCall, left: Words, right: str, right_offset: int, phase: bool,
               options: Options) -> Verdict:
-    sub = _sub_call(call, "check", left, call.offset)
-    _, cut_text, column = sub.split_last(CUT_PATTERN)
-    if cut_text is not None and phase:
+    sub = _sub_call(call, "check", left)
+    _, cut_spec = sub.split_cut()
+    if cut_spec is not None and phase:
         raise call.error("check: a cut goes with '=' and a claimed Schmidt form; '~' compares "
-                         "whole states up to a phase", column, len(cut_text))
-    if cut_text is not None:
+                         "whole states up to a phase", cut_spec.span.column - 1,
+                         cut_spec.span.length)
+    if cut_spec is not None:
         state, cut = sub.state_and_cut()
         return _form_claim(call, state, cut, right, right_offset, len(cut.left), options)
-    raw = call.value(left, call.offset)
-    if not phase and FIRST_NAME.fullmatch(left.strip()) and isinstance(raw, KetValue):
+    raw = call.value(left.text(), left.start)
+    if not phase and len(left) == 1 and left.items[0].kind == NAME and isinstance(raw, KetValue):
         state = call.at_point(call.session.make_state(raw))
         terms = read_form(right, right_offset, call.line, call.session, None)
         if terms is not None and 0 < terms[0].left.nparts < state.nparts:
@@ -145,8 +121,10 @@ def _form_claim(call: CommandCall, state: State, cut: Cut, right: str, right_off
     return schmidt_form_claim(state, cut, terms, _declared(call, state), options)
 
 
-def _sub_call(call: CommandCall, name: str, text: str, offset: int) -> CommandCall:
-    return CommandCall(call.session, name, text, offset, call.line, call.source, call.point)
+def _sub_call(call: CommandCall, name: str, words: Words) -> CommandCall:
+    """A call of ``name`` on some of the words (the left side of a claim)."""
+    return CommandCall(call.session, name, words.text(), words.start, call.line, call.source,
+                       call.point, words)
 
 
 def _at_point(call: CommandCall, value):
@@ -173,10 +151,10 @@ def _symbols(value) -> set[sympy.Symbol]:
     return value.free_symbols
 
 
-def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: int,
+def _claim(call: CommandCall, claim: str, left: Words, right_words: Words,
            options: Options) -> Verdict:
-    head = len(left) - len(left.lstrip()) + len(claim)
-    sub = _sub_call(call, claim, left[head:], call.offset + head)
+    right, right_offset = right_words.text().strip(), right_words.start
+    sub = _sub_call(call, claim, left[1:])
     if claim == "reduce":
         state, keep = sub.state_and_parts()
         claimed = call.value(right, right_offset)
@@ -195,7 +173,7 @@ def _claim(call: CommandCall, claim: str, left: str, right: str, right_offset: i
     if claim == "schmidt" and not right.strip().startswith("["):
         return _form_claim(call, state, cut, right, right_offset, len(cut.left), options)
     if claim == "schmidt":
-        coefficients = [_at_point(call, c) for c in _claimed_list(call, right, right_offset)]
+        coefficients = [_at_point(call, c) for c in _claimed_list(call, right_words)]
         params = _params(call, state, *coefficients)
         return schmidt_claim(state, cut, coefficients, params, options)
     rank = call.value(right, right_offset)
@@ -218,23 +196,20 @@ def _declared(call: CommandCall, state: State) -> dict:
     return declared
 
 
-def _claimed_list(call: CommandCall, text: str, offset: int) -> list[sympy.Expr]:
+def _claimed_list(call: CommandCall, words: Words) -> list[sympy.Expr]:
     """``[c1, c2, ...]`` (brackets optional): each piece evaluated as a number."""
-    stripped = text.strip()
-    start = offset + len(text) - len(text.lstrip())
-    if stripped.startswith("[") and stripped.endswith("]"):
-        stripped, start = stripped[1:-1], start + 1
-    values, column = [], start
-    for piece in split_top_level(stripped, ","):
-        if not piece.strip():
-            raise call.error("check schmidt: expected a coefficient between the commas", column)
-        value = call.value(piece, column)
+    inner = bracketed(words)
+    pieces = split_commas(inner, 1) if inner is not None else split_commas(words)
+    values = []
+    for piece in pieces:
+        if not piece.items:
+            raise call.error("check schmidt: expected a coefficient between the commas",
+                             piece.start)
+        value = call.value(piece.text(), piece.start)
         if not is_scalar(value):
-            lead = len(piece) - len(piece.lstrip())
             raise call.error("check schmidt: each claimed coefficient must be a number",
-                             column + lead, len(piece.strip()))
+                             piece.start, len(piece.text()))
         values.append(value)
-        column += len(piece) + 1
     return values
 
 

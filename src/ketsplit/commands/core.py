@@ -153,10 +153,10 @@ def run_rank(call: CommandCall) -> Report:
 @command("digits", "digits N", "set the number of certified digits shown for numeric values",
          "digits 40", topic="settings")
 def run_digits(call: CommandCall) -> Report:
-    text = call.args.strip()
+    text, column = call.setting()
     if not (text.isascii() and text.isdigit()):
-        raise call.error(f"digits: expected a whole number, found {text!r}",
-                         call.offset + len(call.args) - len(call.args.lstrip()), len(text) or 1)
+        raise call.error(f"digits: expected a whole number, found {text!r}", column,
+                         len(text) or 1)
     if len(text) > 9:
         raise limits.refuse(f"digits {text[:9]}…", "max_digits", call.whole_span(), call.source)
     call.session.set_digits(int(text), call.whole_span())
@@ -170,7 +170,7 @@ DECLARATIONS = ("declarations: real|positive|complex|integer NAMES [in [lo, hi]]
 @command("help", "help [COMMAND]", "the list of commands, or one command with a worked example",
          "help schmidt", topic="settings")
 def run_help(call: CommandCall) -> Report:
-    topic = call.args.strip()
+    topic, column = call.setting()
     if not topic:
         rows = tuple((c.usage, c.summary) for c in sorted(COMMANDS.values(), key=lambda c: c.name))
         notes = (DECLARATIONS, more_topics())
@@ -183,7 +183,7 @@ def run_help(call: CommandCall) -> Report:
         import difflib
         close = difflib.get_close_matches(topic, [*COMMANDS, *TOPICS], n=1)
         hint = f"; did you mean {close[0]!r}?" if close else ""
-        raise call.error(f"no help topic {topic!r}{hint}", call.offset + call.args.index(topic), len(topic))
+        raise call.error(f"no help topic {topic!r}{hint}", column, len(topic))
     return Report(f"help {found.name}", (Field("usage", found.usage), Field("does", found.summary),
                                          Field("example", found.example)),
                   value=f"{found.usage}\n{found.summary}\nexample: {found.example}")

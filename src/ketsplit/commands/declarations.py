@@ -2,24 +2,22 @@
 
 from __future__ import annotations
 
-import re
 from typing import TYPE_CHECKING, Callable, Mapping
 
 import sympy
 
 from .. import limits
 from ..states import Space
-from ..language.build import CONSTANTS, Builder, KetValue, is_scalar, kind_of
+from ..language.build import Builder, KetValue, is_scalar, kind_of
 from ..base.errors import InputError, Span
-from ..language.syntax import Number
-from ..language.statements import Declaration, parse_declaration, parse_space, \
-    parse_with_clause, trailing_words
+from ..language.statements import (NAME, Declaration, Word, leading_words, parse_declaration,
+                                   parse_space)
 from ..language.printer import ket_text
 from ..base.document import Field, Kets, Note, Report
 from ..language.printer import label_text
 from ..language.printer import text as language_text
 from ..states import KINDS, State
-from .registry import BINDERS
+from .registry import BINDERS, read_call
 
 if TYPE_CHECKING:
     from ..session import Session
@@ -70,25 +68,6 @@ def range_bounds(session: "Session", declaration: Declaration, statement: str
     return bounds[0], bounds[1]
 
 
-def split_top_level(text: str, separator: str) -> list[str]:
-    """Split at ``separator`` outside brackets and kets."""
-    pieces, depth, start, in_ket = [], 0, 0, False
-    for k, ch in enumerate(text):
-        if ch == "|":
-            in_ket = True
-        elif ch == ">" and in_ket:
-            in_ket = False
-        elif ch in "([" and not in_ket:
-            depth += 1
-        elif ch in ")]" and not in_ket:
-            depth -= 1
-        elif ch == separator and depth == 0 and not in_ket:
-            pieces.append(text[start:k])
-            start = k + 1
-    pieces.append(text[start:])
-    return pieces
-
-
 def space(session: "Session", statement: str, start: int, line: int) -> Report:
     """``space A:2 B:3 C:2`` (names and dimensions) or ``space 2 3 2`` (dimensions only)."""
     parts = parse_space(statement, start, line).parts
@@ -111,18 +90,20 @@ def space(session: "Session", statement: str, start: int, line: int) -> Report:
     return Report(f"space {listing}", value=session.space)
 
 
-def assign(session: "Session", name: str, statement: str, start: int, line: int) -> Report:
-    column = statement.index(name)
+def assign(session: "Session", assigned: Word, statement: str, line: int) -> Report:
+    """``NAME = expr``, or ``NAME = BINDER arguments`` (``rho = reduce psi 1``)."""
+    name, column = assigned.text, assigned.start
     if session.reserved(name):
         raise _error(f"{name!r} is a reserved word; choose another name", line, column, len(name),
                      statement)
     if name in session.params:
         raise _error(f"{name!r} is a declared parameter; choose another name for the value", line,
                      column, len(name), statement)
-    word = re.match(r"\s*([A-Za-z_]+)\b", statement[start:])
-    binder = BINDERS.get(word.group(1)) if word else None  # NAME = reduce ...: a density matrix
-    if binder is not None:
-        return binder(session, name, statement, start, line)
+    start = statement.index("=", assigned.end) + 1
+    word = next(iter(leading_words(statement, line, 1, start)), None)
+    binder = BINDERS.get(word.text) if word is not None and word.kind == NAME else None
+    if binder is not None:  # NAME = reduce ...: a density matrix
+        return binder(read_call(session, word.text, statement, word.end, line), name)
     value = session.evaluate(statement[start:], start, line)
     if isinstance(value, KetValue):
         state = session.make_state(value, Span(line, start + 1, len(statement) - start))
@@ -168,37 +149,6 @@ def show(session: "Session", statement: str, line: int) -> Report:
         return Report("matrix", (Field("value", value),), value=value)
     simplified = sympy.simplify(value)
     return Report("value", (Field("value", simplified),), value=simplified)
-
-
-def parse_point(session: "Session", text: str, offset: int, line: int, statement: str
-                ) -> dict[str, sympy.Expr]:
-    """``with t=pi/6, phi=0`` -> {name: exact value}; ``text`` is the statement from the
-    0-based column ``offset`` on.  A value may use numbers, constants, declared parameters
-    and bound names only, and may not end in a juxtaposed number or unknown name: a word
-    typed after the clause (``with t=pi/6 purity``) would otherwise join the value as a
-    product with a new parameter."""
-    point: dict[str, sympy.Expr] = {}
-    for assignment in parse_with_clause(statement, offset, line).assignments:
-        stray = next((w for w in trailing_words(assignment.value) if isinstance(w, Number) or
-                      unknown(session, w.name)), None)
-        if stray is not None:
-            word = stray.text if isinstance(stray, Number) else stray.name
-            raise InputError(f"expected ',' or the end of the statement after the value of "
-                             f"{assignment.name}, found {word!r}: a with clause is "
-                             f"NAME=VALUE, NAME=VALUE, and the command's other words go before "
-                             f"'with'", stray.span, statement)
-        value = Builder(session, statement, closed=f"the value of {assignment.name}"
-                        ).build(assignment.value)
-        if not is_scalar(value):
-            raise InputError(f"{assignment.name} must be set to a number", assignment.value.span,
-                             statement)
-        point[assignment.name] = value
-    return point
-
-
-def unknown(session: "Session", name: str) -> bool:
-    """Neither bound, declared nor a constant: no value a with clause could use."""
-    return session.lookup(name) is None and name not in CONSTANTS
 
 
 STATEMENTS: dict[str, Callable[["Session", str, int, int], Report]] = {

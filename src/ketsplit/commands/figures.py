@@ -2,80 +2,74 @@
 
 from __future__ import annotations
 
-import re
 from dataclasses import replace
 
 import sympy
 from flint import arb
 
 from ..compare import compare_across
-from ..cuts import CUT_PATTERN, parse_cut
 from ..decomposition import decompose
 from ..numeric.digits import digits_cell
 from ..numeric.values import certified_real
 from ..figures import (certified_figures, Figures, NAMES, Spectrum, overview, renyi_of, spectrum_figures,
                        unknown_figure, verdict, without_extrema)
-from ..base.errors import Span
 from ..plots import COEFFICIENTS, Drawing, Family, family_chart, figure_label, terminal_lines
 from ..base.document import Digits, Field, Note, Plot, Report, Table, Truth
 from ..states import State
+from ..language.statements import (CutSpec, Figure, Option, PlotStatement, Words, figure_list,
+                                   read_plot, split_commas, split_cut, split_spaced,
+                                   trailing_figures)
 from .registry import CommandCall, command
 
 UNIT_WORDS = ("bits", "nats")
-RENYI = re.compile(r"^renyi\((.+)\)$")
 
 
-# -- options after the state: units and figure names ---------------------------
-def _is_option(word: str) -> bool:
-    return word in UNIT_WORDS or word in NAMES or bool(RENYI.match(word))
+# -- figure words after the state: units and figure names ---------------------------
+def _is_option(figure: Figure) -> bool:
+    if figure.argument is not None:
+        return figure.name == "renyi"
+    return figure.name in UNIT_WORDS or figure.name in NAMES
 
 
-def split_options(call: CommandCall) -> tuple[CommandCall, list[tuple[str, int]]]:
-    """The call without its trailing option words, and those words with their columns.
+def split_options(call: CommandCall) -> tuple[Words, CutSpec | None, tuple[Figure, ...]]:
+    """``expr (cut figure* | figure*)``: the state's words, the cut and the figure words.
 
-    Options follow the cut; without a cut, trailing words that are options (or
-    unbound bare names, which can only be misspelt options) are taken.
-    """
-    words = [(m.group(), m.start()) for m in re.finditer(r"\S+", call.args)]
-    cut_at = next((k for k in range(len(words) - 1, 0, -1) if CUT_PATTERN.match(words[k][0])), None)
-    if cut_at is not None:
-        first = cut_at + 1
-    else:
-        first = len(words)
-        while first > 1 and (_is_option(words[first - 1][0]) or _unbound_name(call, words[first - 1][0])):
-            first -= 1
-    options = [(w, call.offset + at) for w, at in words[first:]]
-    end = words[first][1] if first < len(words) else len(call.args)
-    return replace(call, args=call.args[:end]), options
+    Figure words follow the cut; without a cut, trailing words that are figures (or
+    unbound bare names, which can only be misspelt figures) are taken."""
+    body, cut, rest = split_cut(call.words())
+    if cut is not None:
+        return body, cut, figure_list(rest)
+    body, figures = trailing_figures(body, lambda figure: _is_option(figure) or (
+        figure.argument is None and call.session.lookup(figure.name) is None))
+    return body, None, figures
 
 
-def _unbound_name(call: CommandCall, word: str) -> bool:
-    return word.isidentifier() and call.session.lookup(word) is None
-
-
-def _selection(call: CommandCall, options: list[tuple[str, int]]) -> tuple[str, list[str | sympy.Expr]]:
+def _selection(call: CommandCall, options: tuple[Figure, ...]
+               ) -> tuple[str, list[str | sympy.Expr]]:
     """(unit, wanted figures): names, or Renyi orders as sympy numbers."""
     unit, wanted = call.session.settings.entropy_unit, []
-    for word, column in options:
-        if word in UNIT_WORDS:
-            unit = word
-        elif word in NAMES:
-            wanted.append(word)
-        elif RENYI.match(word):
-            wanted.append(renyi_order(call, word, column))
+    for figure in options:
+        if figure.argument is None and figure.name in UNIT_WORDS:
+            unit = figure.name
+        elif figure.argument is None and figure.name in NAMES:
+            wanted.append(figure.name)
+        elif figure.name == "renyi" and figure.argument is not None:
+            wanted.append(renyi_order(call, figure))
         else:
-            raise call.error(unknown_figure(word).message, column, len(word))
+            raise call.error(unknown_figure(figure.text).message, figure.span.column - 1,
+                             figure.span.length)
     return unit, wanted or list(NAMES)
 
 
-def renyi_order(call: CommandCall, word: str, column: int) -> sympy.Expr:
-    inner = RENYI.match(word).group(1)
-    if inner in ("inf", "oo"):
+def renyi_order(call: CommandCall, figure: Figure) -> sympy.Expr:
+    """The order of ``renyi(ALPHA)``: a real number >= 0, or inf."""
+    inner = figure.argument
+    if inner.text.strip() in ("inf", "oo"):
         return sympy.oo
-    value = call.value(inner, column + len("renyi("))
+    value = call.value(inner.text, inner.start)
     if not isinstance(value, sympy.Expr) or not value.is_number or not value.is_real or value < 0:
-        raise call.error(f"renyi(ALPHA) needs a real order ALPHA >= 0, found {inner!r}",
-                         column, len(word))
+        raise call.error(f"renyi(ALPHA) needs a real order ALPHA >= 0, found "
+                         f"{inner.text.strip()!r}", figure.span.column - 1, figure.span.length)
     return value
 
 
@@ -125,9 +119,9 @@ def _decimal(value: sympy.Rational) -> str:
          "entanglement figures across a cut: entropy, Renyi, purity, concurrence, negativity, ...",
          "real t; figures cos(t)|00> + sin(t)|11> 1|2 nats")
 def run_figures(call: CommandCall) -> Report:
-    trimmed, options = split_options(call)
+    body, cut_spec, options = split_options(call)
     unit, wanted = _selection(call, options)
-    state, cut = trimmed.state_and_cut()
+    state, cut = call.state_across(body, cut_spec)
     digits = call.session.settings.digits
     d = decompose(state, cut, digits=digits, vectors=False)
     if d.certified is not None:
@@ -143,7 +137,7 @@ def run_figures(call: CommandCall) -> Report:
     items = (Field("squared Schmidt coefficients", squared),
              Table(("figure", "exact", f"certified digits (up to {digits})"), rows,
                    ("figure", "exact", "certified_digits")))
-    return Report(f"entanglement figures of {trimmed.subject()} across {cut.describe(state)}",
+    return Report(f"entanglement figures of {body.text().strip()} across {cut.describe(state)}",
                   items, d.notes, value=Figures(tuple(d.squared), tuple(values.items()), unit))
 
 
@@ -151,65 +145,51 @@ def run_figures(call: CommandCall) -> Report:
          "every bipartition of a many-part state: Schmidt rank, entropy, and which parts split off",
          "cuts |000> + |111>")
 def run_cuts(call: CommandCall) -> Report:
-    trimmed, options = split_options(call)
+    body, cut, options = split_options(call)
+    if cut is not None:
+        raise call.error("cuts: every cut is listed; write the state alone",
+                         cut.span.column - 1, cut.span.length)
     unit = call.session.settings.entropy_unit
-    for word, column in options:
-        if word not in UNIT_WORDS:
-            raise call.error(f"cuts: expected only bits or nats after the state, found {word!r}",
-                             column, len(word))
-        unit = word
-    state = trimmed.state()
+    for figure in options:
+        if figure.argument is not None or figure.name not in UNIT_WORDS:
+            raise call.error(f"cuts: expected only bits or nats after the state, found "
+                             f"{figure.text!r}", figure.span.column - 1, figure.span.length)
+        unit = figure.name
+    state = call.state_of(body.expression())
     found = overview(state, unit)
     digits = call.session.settings.digits
     rows = tuple((s.cut.describe(state), s.rank if s.rank is not None else "undecided",
                   *entropy_cells(s.entropy, digits)) for s in found.summaries)
     notes = ("ranks are generic: they can drop at special parameter values (see 'strata')",) \
         if found.generic else ()
-    return Report(f"every cut of {trimmed.args.strip()} ({len(rows)} bipartitions)",
+    return Report(f"every cut of {body.text().strip()} ({len(rows)} bipartitions)",
                   (Table(("cut", "rank", f"entropy ({unit})", "certified digits"), rows),
                    Field("verdict", verdict(found, state))), notes, value=found)
 
 
 # -- compare ------------------------------------------------------------------
-def top_level_comma(text: str) -> int | None:
-    """The first comma outside brackets and kets, or None."""
-    depth, in_ket = 0, False
-    for k, ch in enumerate(text):
-        if in_ket:
-            in_ket = ch != ">"
-        elif ch == "|":
-            in_ket = True
-        elif ch in "([":
-            depth += 1
-        elif ch in ")]":
-            depth -= 1
-        elif ch == "," and depth == 0:
-            return k
-    return None
-
-
-def two_states(call: CommandCall) -> tuple[tuple[str, State], tuple[str, State], str | None, int]:
-    """Both states of ``compare A B CUT`` (or ``compare EXPR, EXPR CUT``), the cut text
-    and its column."""
-    text, cut_text, column = call.split_last(CUT_PATTERN)
-    comma = top_level_comma(text)
-    if comma is not None:
-        pieces = [(text[:comma], 0), (text[comma + 1:], comma + 1)]
-    else:
-        words = [(m.group(), m.start()) for m in re.finditer(r"\S+", text)]
-        if len(words) != 2:
-            raise call.error("compare: expected two states, as in 'compare psi chi 1|2' or "
-                             "'compare EXPR, EXPR 1|2'", call.offset, len(text) or 1)
-        pieces = words
+def two_states(call: CommandCall) -> tuple[tuple[str, State], tuple[str, State], CutSpec | None,
+                                           int]:
+    """``pair cut?``: both states of ``compare A B CUT`` (or ``compare EXPR, EXPR CUT``), the
+    cut, and the column after the states."""
+    body, cut = call.split_cut()
+    pieces = split_commas(body)
+    if len(pieces) == 1:
+        pieces = split_spaced(body)
+    if len(pieces) != 2:
+        raise call.error("compare: expected two states, as in 'compare psi chi 1|2' or "
+                         "'compare EXPR, EXPR 1|2'", body.start, len(body.text()) or 1)
+    expressions = [piece.expression() for piece in pieces]
     bare = replace(call, point={})
-    states = tuple(bare.state(piece, call.offset + at) for piece, at in pieces)
+    states = tuple(bare.state_of(expression) for expression in expressions)
     unused = set(call.point) - {s.name for state in states for s in state.symbols}
     if unused:
         raise call.error(f"neither state has a parameter named {sorted(unused)[0]!r}")
     placed = tuple(replace(call, point={k: v for k, v in call.point.items()
                                         if k in {s.name for s in state.symbols}}).at_point(state)
                    for state in states)
-    return ((pieces[0][0].strip(), placed[0]), (pieces[1][0].strip(), placed[1]), cut_text, column)
+    return ((expressions[0].text.strip(), placed[0]), (expressions[1].text.strip(), placed[1]),
+            cut, body.end)
 
 
 def _yes(flag: bool | None, method: str = "") -> Truth:
@@ -221,11 +201,10 @@ def _yes(flag: bool | None, method: str = "") -> Truth:
          "LU-equivalent? convertible by LOCC either way (majorization)? optimal probability?",
          "compare |00> + |11>, cos(pi/8)|00> + sin(pi/8)|11> 1|2")
 def run_compare(call: CommandCall) -> Report:
-    (a_text, a), (b_text, b), cut_text, column = two_states(call)
-    a_name, b_name = (t if re.fullmatch(r"[A-Za-z_][A-Za-z0-9_]{0,11}", t) else label
+    (a_text, a), (b_text, b), cut, end = two_states(call)
+    a_name, b_name = (t if t.isascii() and t.isidentifier() and len(t) <= 12 else label
                       for t, label in ((a_text, "A"), (b_text, "B")))
-    span = Span(call.line, column + 1, len(cut_text or "x"))
-    cut_a, cut_b = (parse_cut(cut_text, s, span, call.source) for s in (a, b))
+    cut_a, cut_b = (call.cut_of(cut, s, end) for s in (a, b))
     digits = call.session.settings.digits
     found = compare_across(a, cut_a, b, cut_b, digits)
     rows = tuple((k + 1, *(_ball_cell(v, digits) for v in values), _yes(step)) for k, (*values, step)
@@ -274,8 +253,6 @@ def _exact_and_digits(value: sympy.Expr, digits: int):
 
 
 # -- plot ---------------------------------------------------------------------
-PLOT = re.compile(r"^(\s*)(\S+)(\s+)(.*?)\s+over\s+([A-Za-z_][A-Za-z0-9_]*)((?:\s+--\S+\s+\S+)*)\s*$")
-FILE_OPTIONS = re.compile(r"--(\S+)\s+(\S+)")
 PLOT_USAGE = ("plot FIGURE[,FIGURE...] STATE[, STATE...] [CUT] over NAME [--to FILE.svg|.pdf|.png] "
               "[--data FILE.csv] [with NAME=VALUE, ...]")
 
@@ -306,44 +283,41 @@ def plotted_parameter(call: CommandCall, state: State, name: str, column: int, o
     return symbols[name], param.range
 
 
-def file_options(call: CommandCall, text: str, start: int) -> dict[str, str]:
+def file_options(call: CommandCall, options: tuple[Option, ...]) -> dict[str, str]:
     """``--to FILE`` and ``--data FILE`` after the parameter names."""
     found = {}
-    for match in FILE_OPTIONS.finditer(text):
-        if match.group(1) not in ("to", "data"):
-            raise call.error(f"{call.name}: unknown option --{match.group(1)}; the options are "
+    for option in options:
+        if option.name not in ("to", "data"):
+            raise call.error(f"{call.name}: unknown option --{option.name}; the options are "
                              "--to FILE (.svg, .pdf, .png) and --data FILE.csv",
-                             start + match.start(), len(match.group(1)) + 2)
-        found[match.group(1)] = match.group(2)
+                             option.span.column - 1, option.span.length)
+        found[option.name] = option.value
     return found
 
 
-def plot_families(call: CommandCall, text: str, offset: int) -> list[Family]:
+def plot_families(call: CommandCall, plot: PlotStatement) -> list[Family]:
     """The states of ``STATE[, STATE...] [CUT]``, each at the ``with`` point and with its cut."""
-    inner = replace(call, args=text, offset=offset)
-    body, cut_text, column = inner.split_last(CUT_PATTERN)
-    pieces, start = [], 0
-    while (comma := top_level_comma(body[start:])) is not None:
-        pieces.append((body[start:start + comma], start))
-        start += comma + 1
-    pieces.append((body[start:], start))
+    end = plot.states_span.column - 1 + plot.states_span.length
     families = []
-    for piece, at in pieces:
-        bare = replace(call, point={})
-        state = bare.state(piece, offset + at)
+    for expression in plot.states:
+        state = replace(call, point={}).state_of(expression)
         names = {s.name for s in state.symbols}
         state = replace(call, point={k: v for k, v in call.point.items() if k in names}).at_point(state)
-        span = Span(call.line, column + 1, len(cut_text or "x"))
-        families.append(Family(piece.strip(), state, parse_cut(cut_text, state, span, call.source)))
+        families.append(Family(expression.text.strip(), state, call.cut_of(plot.cut, state, end)))
     return families
 
 
-def plot_figures(call: CommandCall, words: str, column: int) -> list:
-    figures, at = [], column
-    for word in words.split(","):
-        figures.append(_plot_figure(call, word, at))
-        at += len(word) + 1
-    return figures
+def plot_figures(call: CommandCall, figures: tuple[Figure, ...]) -> list:
+    return [_plot_figure(call, figure) for figure in figures]
+
+
+def plot_parameters(call: CommandCall, plot: PlotStatement, count: int, usage: str
+                    ) -> list[tuple[str, int]]:
+    """The ``count`` names after ``over`` and their 0-based columns."""
+    if len(plot.over) != count:
+        place = plot.over[min(count, len(plot.over) - 1)][1]
+        raise call.error(f"{call.name}: expected '{usage}'", place.column - 1, place.length)
+    return [(name, span.column - 1) for name, span in plot.over]
 
 
 def drawing(chart, options: dict[str, str]) -> Drawing:
@@ -355,16 +329,15 @@ def drawing(chart, options: dict[str, str]) -> Drawing:
 @command("plot", PLOT_USAGE,
          "figures (or 'coefficients') of one or more states across the declared range of one "
          "real parameter, rank drops marked; --to writes svg, pdf or png, --data the samples as CSV",
-         "real t in [0, pi]; plot entropy,concurrence cos(t)|00> + sin(t)|11> 1|2 over t")
+         "real t in [0, pi]; plot entropy,concurrence cos(t)|00> + sin(t)|11> 1|2 over t",
+         options=True)
 def run_plot(call: CommandCall) -> Report:
-    match = PLOT.match(call.args)
-    if match is None:
-        raise call.error(f"plot: expected '{PLOT_USAGE}'", call.offset, len(call.args.rstrip()) or 1)
+    plot = read_plot(call.words(), PLOT_USAGE)
     unit = call.session.settings.entropy_unit
-    figures = plot_figures(call, match.group(2), call.offset + match.start(2))
-    options = file_options(call, match.group(6), call.offset + match.start(6))
-    families = plot_families(call, match.group(4), call.offset + match.start(4))
-    name, name_at = match.group(5), call.offset + match.start(5)
+    figures = plot_figures(call, plot.figures)
+    options = file_options(call, plot.options)
+    families = plot_families(call, plot)
+    [(name, name_at)] = plot_parameters(call, plot, 1, PLOT_USAGE)
     symbol, bounds = plotted_parameter(call, families[0].state, name, name_at)
     for family in families[1:]:
         plotted_parameter(call, family.state, name, name_at)
@@ -376,21 +349,20 @@ def run_plot(call: CommandCall) -> Report:
     return Report(title, (Plot(terminal_lines(chart)),), notes, value=drawing(chart, options))
 
 
-def _plot_figure(call: CommandCall, word: str, column: int) -> str | sympy.Expr:
-    if word == COEFFICIENTS or word in NAMES:
-        return word
-    if RENYI.match(word):
-        return renyi_order(call, word, column)
-    raise call.error(unknown_figure(word).message + f"; or {COEFFICIENTS} for every Schmidt coefficient",
-                     column, len(word))
+def _plot_figure(call: CommandCall, figure: Figure) -> str | sympy.Expr:
+    if figure.argument is None and (figure.name == COEFFICIENTS or figure.name in NAMES):
+        return figure.name
+    if figure.name == "renyi" and figure.argument is not None:
+        return renyi_order(call, figure)
+    raise call.error(unknown_figure(figure.text).message + f"; or {COEFFICIENTS} for every "
+                     "Schmidt coefficient", figure.span.column - 1, figure.span.length)
 
 
 @command("units", "units bits|nats", "the unit of entropies, Renyi entropies and log-negativity",
          "units nats", topic="settings")
 def run_units(call: CommandCall) -> Report:
-    word = call.args.strip()
+    word, column = call.setting()
     if word not in UNIT_WORDS:
-        raise call.error(f"units: expected bits or nats, found {word!r}",
-                         call.offset + len(call.args) - len(call.args.lstrip()), len(word) or 1)
+        raise call.error(f"units: expected bits or nats, found {word!r}", column, len(word) or 1)
     call.session.settings = replace(call.session.settings, entropy_unit=word)
     return Report(f"units {word}", value=word)

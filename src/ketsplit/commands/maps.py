@@ -2,15 +2,13 @@
 
 from __future__ import annotations
 
-import re
-
 from ..base.document import Plot, Report
 from ..plots import family_map, figure_label, map_lines
-from .figures import drawing, file_options, plot_families, plot_figures, plotted_parameter
+from ..language.statements import read_plot
+from .figures import (drawing, file_options, plot_families, plot_figures, plot_parameters,
+                      plotted_parameter)
 from .registry import CommandCall, command
 
-MAP = re.compile(r"^(\s*)(\S+)(\s+)(.*?)\s+over\s+([A-Za-z_][A-Za-z0-9_]*)\s*,\s*([A-Za-z_][A-Za-z0-9_]*)"
-                 r"((?:\s+--\S+\s+\S+)*)\s*$")
 MAP_USAGE = ("map FIGURE STATE [CUT] over NAME, NAME [--to FILE.svg|.pdf|.png] [--data FILE.csv] "
              "[with NAME=VALUE, ...]")
 
@@ -19,25 +17,25 @@ MAP_USAGE = ("map FIGURE STATE [CUT] over NAME, NAME [--to FILE.svg|.pdf|.png] [
          "a figure over the declared ranges of two real parameters: a filled contour with the "
          "rank-drop sets drawn on top",
          "real t in [0, pi/2]; real phi in [0, pi]; "
-         "map entropy cos(t)|00> + sin(t)(cos(phi)|11> + sin(phi)|22>) 1|2 over t, phi")
+         "map entropy cos(t)|00> + sin(t)(cos(phi)|11> + sin(phi)|22>) 1|2 over t, phi",
+         options=True)
 def run_map(call: CommandCall) -> Report:
-    match = MAP.match(call.args)
-    if match is None:
-        raise call.error(f"map: expected '{MAP_USAGE}'", call.offset, len(call.args.rstrip()) or 1)
+    plot = read_plot(call.words(), MAP_USAGE)
     unit = call.session.settings.entropy_unit
-    figures = plot_figures(call, match.group(2), call.offset + match.start(2))
-    if len(figures) != 1:
-        raise call.error("map: one figure at a time", call.offset + match.start(2), len(match.group(2)))
-    options = file_options(call, match.group(7), call.offset + match.start(7))
-    families = plot_families(call, match.group(4), call.offset + match.start(4))
-    if len(families) != 1:
-        raise call.error("map: one state at a time", call.offset + match.start(4), len(match.group(4)))
-    family = families[0]
-    axes = [plotted_parameter(call, family.state, match.group(k), call.offset + match.start(k), 1)
-            for k in (5, 6)]
-    if match.group(5) == match.group(6):
-        raise call.error("map: two different parameters, as in 'over t, phi'",
-                         call.offset + match.start(6), len(match.group(6)))
+    if len(plot.figures) != 1:
+        raise call.error("map: one figure at a time", plot.figures_span.column - 1,
+                         plot.figures_span.length)
+    figures = plot_figures(call, plot.figures)
+    options = file_options(call, plot.options)
+    if len(plot.states) != 1:
+        raise call.error("map: one state at a time", plot.states_span.column - 1,
+                         plot.states_span.length)
+    names = plot_parameters(call, plot, 2, MAP_USAGE)
+    [family] = plot_families(call, plot)
+    axes = [plotted_parameter(call, family.state, name, column, 1) for name, column in names]
+    if names[0][0] == names[1][0]:
+        raise call.error("map: two different parameters, as in 'over t, phi'", names[1][1],
+                         len(names[1][0]))
     title = (f"{figure_label(figures[0], unit)} of {family.subject} across "
              f"{family.cut.describe(family.state)}")
     chart, notes = family_map(title, figures[0], family, (axes[0][0], axes[1][0]),

@@ -4,22 +4,21 @@ mixedness, fidelity, separable, opschmidt, schmidtbasis; and ``NAME = reduce ...
 
 from __future__ import annotations
 
-import re
-
 import sympy
 from flint import arb
 
 from .. import mixed
 from ..base.document import Field, Note, Report, Table
 from ..base.errors import InputError
-from ..cuts import CUT_PATTERN, PARTS_PATTERN, Cut, parse_cut, parse_parts, reduced
+from ..cuts import Cut, parse_parts, reduced
+from ..language.statements import split_commas, trailing_parts
 from ..language.build import KetValue, kind_of
 from ..language.printer import text as language_text
 from ..mixed import Density, Number, Piece
 from ..numeric.digits import digits_cell
 from ..numeric.values import exact_cell
 from ..states import Parameter, State
-from .registry import BINDERS, WITH_CLAUSE, CommandCall, command
+from .registry import BINDERS, CommandCall, command
 
 MIXED_TOPIC = "mixed"
 
@@ -89,22 +88,24 @@ def _frame(rho: Density) -> State:
 
 
 def density_and_cut(call: CommandCall) -> tuple[Density, Cut]:
-    text, cut_text, column = call.split_last(CUT_PATTERN)
-    rho = density_operand(call, text, call.offset)
-    span = call.error("", column, len(cut_text or "x")).span
-    return rho, parse_cut(cut_text, _frame(rho), span, call.source)
+    """``expr cut?``: the density matrix and the cut on its parts."""
+    body, cut = call.split_cut()
+    expression = body.expression()
+    rho = density_operand(call, expression.text, expression.start)
+    return rho, call.cut_of(cut, _frame(rho), body.end)
 
 
 def density_and_parts(call: CommandCall) -> tuple[Density, tuple[int, ...]]:
-    text, parts_text, column = call.split_last(PARTS_PATTERN)
-    rho = density_operand(call, text, call.offset)
-    if parts_text is None:
+    """``expr parts?``: the density matrix and the parts named (the second of two if none)."""
+    body, parts = trailing_parts(call.words())
+    expression = body.expression()
+    rho = density_operand(call, expression.text, expression.start)
+    if parts is None:
         if len(rho.dims) != 2:
             raise call.error(f"{call.name}: name the parts after the matrix, as in "
-                             f"'{call.name} rho 2'", column)
+                             f"'{call.name} rho 2'", body.end)
         return rho, (1,)
-    span = call.error("", column, len(parts_text)).span
-    return rho, parse_parts(parts_text, _frame(rho), span, call.source)
+    return rho, parse_parts(parts, _frame(rho), call.source)
 
 
 # -- cells -------------------------------------------------------------------------------
@@ -148,26 +149,14 @@ def _digits(call: CommandCall) -> int:
 
 
 BINDING_WORDS = ("reduce", "density")
-FIRST = re.compile(r"\s*([A-Za-z_]+)\b")
 
 
-def bound_value(session, name: str, statement: str, start: int, line: int) -> Report:
+def bound_value(call: CommandCall, name: str) -> Report:
     """``NAME = reduce STATE PARTS`` or ``NAME = density EXPR``: bind a density matrix
-    (registered in BINDERS for those two words)."""
-    from . import declarations
-    word = FIRST.match(statement, start)
-    args_start = word.end()
-    args = statement[args_start:]
-    point = {}
-    clause = WITH_CLAUSE.search(args)
-    if clause:
-        point = declarations.parse_point(session, args[clause.end():], args_start + clause.end(),
-                                         line, statement)
-        args = args[:clause.start()]
-    call = CommandCall(session, word.group(1), args, args_start, line, statement, point)
-    rho = _reduced_density(call) if word.group(1) == "reduce" else density_operand(
+    (registered in BINDERS for those two words; ``call`` holds the words after the word)."""
+    rho = _reduced_density(call) if call.name == "reduce" else density_operand(
         call, call.args, call.offset)
-    session.bindings[name] = rho
+    call.session.bindings[name] = rho
     return density_report(f"{name} =", rho)
 
 
@@ -264,14 +253,14 @@ def run_mixedness(call: CommandCall) -> Report:
 
 
 def _split_pair(call: CommandCall) -> tuple[tuple[str, int], tuple[str, int]]:
-    depth = 0
-    for k, ch in enumerate(call.args):
-        depth += ch in "([|" and ch != "|"
-        depth -= ch in ")]"
-        if ch == "," and depth == 0:
-            return (call.args[:k], call.offset), (call.args[k + 1:], call.offset + k + 1)
-    raise call.error("fidelity: give two states or density matrices separated by a comma, "
-                     "as in 'fidelity rho, sigma'")
+    """``pair := expr ',' expr``."""
+    pieces = split_commas(call.words())
+    if len(pieces) != 2:
+        place = pieces[1].end if len(pieces) > 2 else call.offset
+        raise call.error("fidelity: give two states or density matrices separated by a comma, "
+                         "as in 'fidelity rho, sigma'", place)
+    first, second = (piece.expression() for piece in pieces)
+    return (first.text, first.start), (second.text, second.start)
 
 
 @command("fidelity", "fidelity A, B [with NAME=VALUE, ...]",
@@ -385,9 +374,11 @@ def run_separable(call: CommandCall) -> Report:
 
 
 def operator_and_cut(call: CommandCall) -> tuple[sympy.MatrixBase, tuple[int, ...], State, Cut]:
-    text, cut_text, column = call.split_last(CUT_PATTERN)
-    found = call.session.bindings.get(text.strip())
-    matrix = found.matrix if isinstance(found, Density) else call.value(text, call.offset)
+    body, cut = call.split_cut()
+    expression = body.expression()
+    found = call.session.bindings.get(expression.text.strip())
+    matrix = found.matrix if isinstance(found, Density) else call.value(expression.text,
+                                                                         expression.start)
     if not isinstance(matrix, sympy.MatrixBase) or matrix.rows != matrix.cols:
         raise call.error(f"{call.name}: expected a square matrix, found a {kind_of(matrix)}",
                          call.offset)
@@ -397,11 +388,10 @@ def operator_and_cut(call: CommandCall) -> tuple[sympy.MatrixBase, tuple[int, ..
         raise call.error(f"a {matrix.rows}x{matrix.rows} operator: declare its parts with 'space'",
                          call.offset)
     frame = State(dims, {}, names)
-    span = call.error("", column, len(cut_text or "x")).span
     if call.point:
         matrix = matrix.subs({sympy.Symbol(n, **_assumptions(call, n)): v
                               for n, v in call.point.items()})
-    return matrix, dims, frame, parse_cut(cut_text, frame, span, call.source)
+    return matrix, dims, frame, call.cut_of(cut, frame, body.end)
 
 
 def _assumptions(call: CommandCall, name: str) -> dict:

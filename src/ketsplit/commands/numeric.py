@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from ..cuts import CUT_PATTERN, Cut, join_names, side_label
+from ..cuts import Cut, join_names, side_label
 from ..numeric.certified import SchmidtVector
 from ..numeric.digits import certain_text, digits_cell
 from ..numeric.schmidt import CertifiedSchmidt, certified_schmidt
@@ -96,16 +96,15 @@ def cluster_notes(result: CertifiedSchmidt) -> list[str]:
 def run_numeric(call: CommandCall) -> Report:
     state, cut = call.state_and_cut()
     result = certified_schmidt(state, cut, call.session.settings.digits)
-    return certified_report(result, state, cut, call.split_last(CUT_PATTERN)[0].strip())
+    return certified_report(result, state, cut, call.subject())
 
 
 @command("method", "method auto|exact|certified",
          "which route answers: auto (chosen from the state's structure), exact, or certified",
          "method certified", topic="settings")
 def run_method(call: CommandCall) -> Report:
-    text = call.args.strip()
+    text, column = call.setting()
     if text not in METHODS:
-        column = call.offset + len(call.args) - len(call.args.lstrip())
         raise call.error(f"method: expected one of {', '.join(METHODS)}, found {text!r}",
                          column, len(text) or 1)
     call.session.settings = replace(call.session.settings, method=text)
@@ -137,8 +136,7 @@ def run_strata_budget(call: CommandCall) -> Report:
 
 def seconds_argument(call: CommandCall) -> float:
     """The one argument of a budget statement: seconds from 0 to MAX_BUDGET."""
-    text = call.args.strip()
-    column = call.offset + len(call.args) - len(call.args.lstrip())
+    text, column = call.setting()
     plain = text.replace(".", "", 1)
     seconds = float(text) if plain.isascii() and plain.isdigit() else None
     if seconds is None or not 0 <= seconds <= MAX_BUDGET:

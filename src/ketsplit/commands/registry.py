@@ -7,14 +7,16 @@ worked example; the shell's help and completion, the worksheet runner and
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Callable
 
 import sympy
 
-from ..cuts import CUT_PATTERN, PARTS_PATTERN, Cut, parse_cut, parse_parts
-from ..language.build import KetValue, kind_of
+from ..cuts import Cut, parse_cut, parse_parts
+from ..language.build import CONSTANTS, Builder, KetValue, is_scalar, kind_of
+from ..language.statements import (CutSpec, Expression, Words, parse_with_clause, read_arguments,
+                                   setting_word, split_cut, trailing_parts, trailing_words)
+from ..language.syntax import Number
 from ..base.errors import InputError, Span
 from ..base.document import Report
 from ..states import State
@@ -24,8 +26,9 @@ if TYPE_CHECKING:
 
 
 # Words that make an assignment bind something other than an expression (``rho = reduce psi 1``):
-# word -> binder(session, name, statement, start, line) -> Report, registered by command modules.
-BINDERS: dict[str, Callable[..., Report]] = {}
+# word -> binder(call, name) -> Report, the call holding the words after that word; registered
+# by command modules.
+BINDERS: dict[str, Callable[["CommandCall", str], Report]] = {}
 
 
 @dataclass(frozen=True)
@@ -56,25 +59,32 @@ class Command:
     example: str
     run: Callable[["CommandCall"], Report]
     topic: str = "commands"
+    options: bool = False   # takes ``--NAME VALUE`` options (plot, map)
+
+    @property
+    def takes_point(self) -> bool:
+        """Whether a with clause may follow the words: settings take none (``help with``
+        asks for help on 'with'), nor do worksheets (``save FILE``: a file name is no word
+        of the language, and is read only by the statement)."""
+        return self.topic not in ("settings", "worksheets")
 
 
 COMMANDS: dict[str, Command] = {}
 
 
-def command(name: str, usage: str, summary: str, example: str, topic: str = "commands"):
+def command(name: str, usage: str, summary: str, example: str, topic: str = "commands",
+            options: bool = False):
     """Register the decorated function as the statement ``name``."""
     def register(run: Callable[["CommandCall"], Report]) -> Callable[["CommandCall"], Report]:
-        COMMANDS[name] = Command(name, usage, summary, example, run, topic)
+        COMMANDS[name] = Command(name, usage, summary, example, run, topic, options)
         return run
     return register
 
 
-WITH_CLAUSE = re.compile(r"\swith\s")
-
-
 @dataclass
 class CommandCall:
-    """A command's argument text, placed on its line, with its ``with`` point."""
+    """A command's argument text, placed on its line, with its ``with`` point, and the words
+    the statement grammar reads in it (language/statements.py)."""
 
     session: "Session"
     name: str
@@ -83,6 +93,7 @@ class CommandCall:
     line: int
     source: str          # the whole statement
     point: dict[str, sympy.Expr] = field(default_factory=dict)
+    read: Words | None = None   # the words of ``args`` (read on first use)
 
     def error(self, message: str, column: int | None = None, length: int = 1) -> InputError:
         col = self.offset + 1 if column is None else column + 1
@@ -91,15 +102,21 @@ class CommandCall:
     def whole_span(self) -> Span:
         return Span(self.line, self.offset + 1, max(1, len(self.args.rstrip())))
 
-    # -- pieces of the argument text -----------------------------------
-    def split_last(self, pattern: re.Pattern[str]) -> tuple[str, str | None, int]:
-        """(leading text, last word if it matches ``pattern``, that word's column)."""
-        stripped = self.args.rstrip()
-        cut = stripped.rfind(" ")
-        last = stripped[cut + 1:]
-        if cut >= 0 and pattern.match(last) and stripped[:cut].strip():
-            return stripped[:cut], last, self.offset + cut + 1
-        return stripped, None, self.offset + len(stripped)
+    # -- the words of the arguments --------------------------------------
+    def words(self) -> Words:
+        if self.read is None:
+            placed = self.source[self.offset:self.offset + len(self.args)] == self.args
+            text = self.source[:self.offset + len(self.args)] if placed else \
+                " " * self.offset + self.args
+            self.read = read_arguments(text, self.offset, self.line, point=False).words
+        return self.read
+
+    def setting(self) -> tuple[str, int]:
+        """``setting := WORD``: the word as typed and its 0-based column; when the words are
+        not one token, all of them (for the command's error message)."""
+        words = self.words()
+        word = setting_word(words)
+        return (word.text, word.start) if word is not None else (words.text().strip(), words.start)
 
     def value(self, text: str | None = None, offset: int | None = None):
         text = self.args if text is None else text
@@ -117,6 +134,9 @@ class CommandCall:
         state = self.session.make_state(value, self.whole_span())
         return self.at_point(state)
 
+    def state_of(self, expression: Expression) -> State:
+        return self.state(expression.text, expression.start)
+
     def at_point(self, state: State) -> State:
         if not self.point:
             return state
@@ -126,24 +146,86 @@ class CommandCall:
         check_point_ranges(self, state)
         return state.subs(self.point)
 
+    def split_cut(self) -> tuple[Words, CutSpec | None]:
+        """``expr cut?``: the words of the expression, and the cut; nothing may follow it."""
+        body, cut, rest = split_cut(self.words())
+        rest.expect_end("nothing after the cut but a with clause")
+        return body, cut
+
     def subject(self) -> str:
         """The state as typed, without the cut: the name a report gives it."""
-        return self.split_last(CUT_PATTERN)[0].strip()
+        return self.split_cut()[0].text().strip()
+
+    def cut_of(self, cut: CutSpec | None, state: State, end: int) -> Cut:
+        """The cut on the parts of ``state``; None is the only cut of a two-part state, else
+        an error at the 0-based column ``end`` (just after the state)."""
+        return parse_cut(cut, state, Span(self.line, end + 1, 1), self.source)
+
+    def state_across(self, body: Words, cut: CutSpec | None) -> tuple[State, Cut]:
+        """The state written in ``body`` and the cut on its parts."""
+        if cut is not None and not body.items:
+            raise self.error(f"{self.name}: expected a state before the cut",
+                             cut.span.column - 1, cut.span.length)
+        state = self.state_of(body.expression())
+        return state, self.cut_of(cut, state, body.end)
 
     def state_and_cut(self) -> tuple[State, Cut]:
-        text, cut_text, column = self.split_last(CUT_PATTERN)
-        state = self.state(text, self.offset)
-        span = Span(self.line, column + 1, len(cut_text or "x"))
-        return state, parse_cut(cut_text, state, span, self.source)
+        return self.state_across(*self.split_cut())
 
     def state_and_parts(self) -> tuple[State, tuple[int, ...]]:
-        text, parts_text, column = self.split_last(PARTS_PATTERN)
-        if parts_text is None:
+        body, parts = trailing_parts(self.words())
+        if parts is None:
             raise self.error(f"{self.name}: name the parts to keep after the state, "
-                             f"as in '{self.name} psi 1'", column)
-        state = self.state(text, self.offset)
-        span = Span(self.line, column + 1, len(parts_text))
-        return state, parse_parts(parts_text, state, span, self.source)
+                             f"as in '{self.name} psi 1'", self.words().end)
+        state = self.state_of(body.expression())
+        return state, parse_parts(parts, state, self.source)
+
+
+def read_call(session: "Session", name: str, statement: str, start: int, line: int,
+              options: bool = False) -> CommandCall:
+    """The call of the command ``name`` whose words start at 0-based column ``start``: its
+    words, and its ``with`` clause as a point (settings take none)."""
+    found = COMMANDS.get(name)
+    if found is not None and not found.takes_point:   # its words are read when asked for
+        return CommandCall(session, name, statement[start:], start, line, statement)
+    arguments = read_arguments(statement, start, line, True, found is not None and found.options)
+    point = {}
+    if arguments.with_span is not None:
+        after = arguments.with_span.column + 3
+        point = parse_point(session, statement[after:], after, line, statement)
+    args = statement[start:arguments.words.end]
+    return CommandCall(session, name, args, start, line, statement, point, arguments.words)
+
+
+def parse_point(session: "Session", text: str, offset: int, line: int, statement: str
+                ) -> dict[str, sympy.Expr]:
+    """``with t=pi/6, phi=0`` -> {name: exact value}; ``text`` is the statement from the
+    0-based column ``offset`` on.  A value may use numbers, constants, declared parameters
+    and bound names only, and may not end in a juxtaposed number or unknown name: a word
+    typed after the clause (``with t=pi/6 purity``) would otherwise join the value as a
+    product with a new parameter."""
+    point: dict[str, sympy.Expr] = {}
+    for assignment in parse_with_clause(statement, offset, line).assignments:
+        stray = next((w for w in trailing_words(assignment.value) if isinstance(w, Number) or
+                      unknown(session, w.name)), None)
+        if stray is not None:
+            word = stray.text if isinstance(stray, Number) else stray.name
+            raise InputError(f"expected ',' or the end of the statement after the value of "
+                             f"{assignment.name}, found {word!r}: a with clause is "
+                             f"NAME=VALUE, NAME=VALUE, and the command's other words go before "
+                             f"'with'", stray.span, statement)
+        value = Builder(session, statement, closed=f"the value of {assignment.name}"
+                        ).build(assignment.value)
+        if not is_scalar(value):
+            raise InputError(f"{assignment.name} must be set to a number", assignment.value.span,
+                             statement)
+        point[assignment.name] = value
+    return point
+
+
+def unknown(session: "Session", name: str) -> bool:
+    """Neither bound, declared nor a constant: no value a with clause could use."""
+    return session.lookup(name) is None and name not in CONSTANTS
 
 
 def check_point_ranges(call: CommandCall, state: State) -> None:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from .. import limits
 from ..base.document import Note, Report, Table
+from ..language.statements import limit_assignments
 from .registry import CommandCall, command
 
 
@@ -12,13 +13,20 @@ from .registry import CommandCall, command
          "with NAME=VALUE, change them for this session",
          "limits parts=128 seconds=60", topic="settings")
 def run_limits(call: CommandCall) -> Report:
-    text = call.args.strip()
-    if text:
+    words = call.words()
+    text, changes = words.text(), {}
+    for name, value, span in limit_assignments(words):
         try:
-            call.session.limits = limits.changed(call.session.limits,
-                                                 **limits.parse_assignments(text))
+            if name not in limits.NAMES:
+                raise ValueError(f"expected NAME=VALUE with NAME one of {', '.join(limits.NAMES)}, "
+                                 f"found {call.source[span.column - 1:][:span.length]!r}")
+            changes[name] = limits.parse_value(name, value)
         except ValueError as err:
-            raise call.error(f"limits: {err}", call.offset + call.args.index(text), len(text))
+            raise call.error(f"limits: {err}", span.column - 1, span.length) from None
+    try:
+        call.session.limits = limits.changed(call.session.limits, **changes)
+    except ValueError as err:
+        raise call.error(f"limits: {err}", words.start, len(text)) from None
     now = call.session.limits.as_dict()
     rows = tuple((name, limits.shown(value), limits.MEANINGS[name]) for name, value in now.items())
     return Report("resource limits" if not text else f"limits {text}",

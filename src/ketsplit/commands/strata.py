@@ -24,9 +24,7 @@ def run_strata(call: CommandCall) -> Report:
     except InputError as err:
         if err.span is not None:
             raise
-        subject = call.subject()
-        place = call.error(err.message, call.offset + call.args.index(subject), len(subject))
-        raise err.located(place.span, place.source) from None  # a LimitError stays one
+        raise err.located(call.split_cut()[0].span(), call.source) from None  # a LimitError stays one
     rows = tuple((s.rank, where(s, digits), point_cell(s.sample, digits)) for s in found)
     items = [Table(("rank", "where", "sample point"), rows)]
     notes = list(found.notes) + unused_ranges(call, state)

@@ -17,7 +17,6 @@ from __future__ import annotations
 
 import contextlib
 import functools
-import re
 import shutil
 import sys
 import time
@@ -33,6 +32,7 @@ from prompt_toolkit.output import Output
 
 from ..commands import COMMANDS
 from ..base.errors import InputError
+from ..language.statements import leading_words
 from ..render.text import wrap_lines
 from ..api import Session
 from ..session import UNRECORDED as FILE_STATEMENTS, strip_comment
@@ -48,8 +48,20 @@ from .spinner import DELAY, Spinner
 from .status import Status, continuation, prompt, toolbar
 from .terminal import no_echo
 
-HELP = re.compile(r"^help(?:\s+(\S+))?$")
-DISPLAY = re.compile(r"^display\s+(pretty|linear)$")
+
+
+def words_of(code: str) -> tuple[str, ...]:
+    """The first three words of a line by the statement grammar (none if it has no tokens)."""
+    try:
+        return tuple(word.text for word in leading_words(code, 1, 3))
+    except InputError:
+        return ()
+
+
+def help_topic(code: str) -> str | None:
+    """TOPIC of ``help TOPIC``: the shell adds its scenario to the statement's result."""
+    words = words_of(code)
+    return words[1] if len(words) == 2 and words[0] == "help" else None
 
 
 class Shell:
@@ -93,8 +105,8 @@ class Shell:
         if any(r.kind in FILE_STATEMENTS for r in results):
             self.saved = len(self.session.worklog)
         text = results_text(results, self.mode.pretty, self.columns)
-        topic = HELP.match(code)
-        extra = helptext.scenario_text(topic.group(1)) if topic and topic.group(1) else None
+        topic = help_topic(code)
+        extra = helptext.scenario_text(topic) if topic else None
         self.show(text + (f"\n{wrap_lines(extra, self.columns)}" if extra else ""))
 
     def directive(self, code: str) -> bool:
@@ -110,12 +122,12 @@ class Shell:
             else:
                 self.leaving = self.may_leave()
             return True
-        chosen = DISPLAY.match(code)
-        if chosen is None:
+        chosen = words_of(code)[1:]
+        if chosen not in (("pretty",), ("linear",)):
             self.console.lines(error_lines(InputError(
                 "display: expected 'display pretty' or 'display linear'")))
             return True
-        self.mode = Mode(chosen.group(1) == "pretty", self.mode.fold)
+        self.mode = Mode(chosen == ("pretty",), self.mode.fold)
         self.console.line(f"display {self.mode.name}")
         return True
 

@@ -27,6 +27,7 @@ from .. import limits
 from ..base.version import VERSION as __version__
 from ..arith import decide
 from ..language.build import KetValue
+from ..language.statements import first_name
 from ..base.errors import InputError, Span
 from ..render.jsonout import values_line
 from ..render.text import to_text
@@ -146,17 +147,16 @@ def run_line(session: Session, entry: SheetLine, files: bool = False) -> Outcome
 def refusal(entry: SheetLine) -> InputError | None:
     """Why a line may not run from a file: it would read or write files, or change
     the process-wide resource limits that protect the reader from the file."""
-    from ..commands import FIRST_WORD
     for statement, _ in split_statements(entry.source):
-        word = FIRST_WORD.match(statement)
-        name = word.group(1) if word else ""
+        word = first_name(statement)
+        name = word.text if word else ""
         option = FILE_OPTION.search(statement)
         if name in UNRECORDED:
             return refused(entry, f"a worksheet cannot run {name!r}: worksheets hold computations "
-                                  "only", word.start(1), len(name))
-        if name == "limits" and statement[word.end():].strip():
+                                  "only", word.start, len(name))
+        if name == "limits" and statement[word.end:].strip():
             return refused(entry, "a worksheet cannot change the resource limits; set them in "
-                                  "the shell before opening it", word.start(1), len(name))
+                                  "the shell before opening it", word.start, len(name))
         if option:
             return refused(entry, "a worksheet cannot write files: run this line without "
                                   f"'{option.group().strip()}'", option.start() + 1,
