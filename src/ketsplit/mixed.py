@@ -39,10 +39,11 @@ from sympy.polys.matrices import DomainMatrix
 from .arith.decide import Decided, compare, drop_abs, exact_zeros, is_zero, sign
 from .arith.ranges import rational_inside
 from .base.errors import InputError
-from .cuts import Cut
+from .cuts import Cut, reduced
 from .exact.eigen import NoClosedForm, eigenvalues, solve_factor
 from .numeric.digits import certain_count
 from .numeric.enclose import enclose
+from .numeric.stored import BallValue
 from .states import Parameter, State
 from .strata.budget import Budget
 from .strata.proved import Undecidable
@@ -55,7 +56,7 @@ STRATA_BUDGET = 30.0                      # seconds of exact algebra for a two-p
 
 
 @dataclass(frozen=True, eq=False)
-class Density:
+class Density(BallValue):
     """A checked density matrix on parts of dimensions ``dims``."""
 
     matrix: sympy.ImmutableMatrix
@@ -78,6 +79,10 @@ class Density:
 
     def part_names(self) -> tuple[str, ...]:
         return self.names or tuple(str(k + 1) for k in range(len(self.dims)))
+
+    def __repr__(self) -> str:
+        from .language.printer import text
+        return f"Density({text(self.matrix)}; dims={self.dims})"
 
 
 # -- making a density matrix -------------------------------------------------------
@@ -105,6 +110,15 @@ def density(matrix: sympy.MatrixBase, dims: Sequence[int] | None = None, names: 
     matrix, notes = _unit_trace(matrix, box)
     notes += _check_positive(matrix, box)
     return Density(matrix, dims, tuple(names), params, notes)
+
+
+def reduced_density(state: State, keep: Sequence[int]) -> Density:
+    """The reduced state of the normalised ``state`` on the parts ``keep`` (the partial trace
+    over the others), with the parameters it still depends on."""
+    matrix = sympy.ImmutableMatrix(reduced(state, tuple(keep)))
+    notes = () if state.is_normalised() else ("the state was normalised first",)
+    return Density(matrix, tuple(state.dims[k] for k in keep), tuple(state.names[k] for k in keep),
+                   tuple(p for p in state.params if p.symbol in matrix.free_symbols), notes)
 
 
 def pure_density(state: State) -> Density:
@@ -257,8 +271,8 @@ def partial_transpose(rho: Density, parts: Sequence[int]) -> sympy.ImmutableMatr
 # -- spectra -------------------------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class Spectrum:
+@dataclass(frozen=True, eq=False)
+class Spectrum(BallValue):
     """Eigenvalues with multiplicities, exact; or certified real balls (``exact`` False)."""
 
     values: tuple[tuple[Number, int], ...]
@@ -434,6 +448,20 @@ def _ball_entropy(values: list[arb], base: int) -> arb:
     return total / arb(base).log()
 
 
+@dataclass(frozen=True, eq=False)
+class Mixedness(BallValue):
+    """How mixed a density matrix is: purity tr rho^2, linear entropy 1 - tr rho^2 and von
+    Neumann entropy in bits, each exact or a certified ball."""
+
+    purity: Number
+    linear_entropy: Number
+    entropy: Number
+
+
+def mixedness(rho: Density, digits: int = 30) -> Mixedness:
+    return Mixedness(purity(rho), linear_entropy(rho), von_neumann_entropy(rho, digits))
+
+
 def fidelity(a: Density | State, b: Density | State, digits: int = 30) -> Number:
     """(tr sqrt(sqrt(a) b sqrt(a)))^2: |<psi|phi>|^2 and <psi|rho|psi> exactly; two mixed states
     through the eigenvalues of a b, which equal those of sqrt(a) b sqrt(a) (all >= 0)."""
@@ -467,8 +495,8 @@ def _root_ball(value: arb) -> arb:
 SIGMA_YY = sympy.ImmutableMatrix([[0, 0, 0, -1], [0, 0, 1, 0], [0, 1, 0, 0], [-1, 0, 0, 0]])
 
 
-@dataclass(frozen=True)
-class Piece:
+@dataclass(frozen=True, eq=False)
+class Piece(BallValue):
     """``value`` on the closed interval [lo, hi] of ``symbol`` (no symbol: a constant)."""
 
     value: Number
@@ -800,8 +828,8 @@ def _joined(regions: list[Region]) -> tuple[Region, ...]:
 # -- operator Schmidt decomposition ------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class OperatorSchmidt:
+@dataclass(frozen=True, eq=False)
+class OperatorSchmidt(BallValue):
     """O = sum_k coefficients[k] left[k] (x) right[k], the operators orthonormal in the
     Hilbert-Schmidt inner product tr(A^dagger B)."""
 
