@@ -111,10 +111,6 @@ _NEW_INTEGER = getattr(sympy.Integer.__new__, "__wrapped__", sympy.Integer.__new
 _INTEGER, _I, _ONE, _NEW_BASIC = sympy.Integer, sympy.I, sympy.S.One, sympy.Basic.__new__
 
 
-def _sympy_rational(numerator: int, den: int) -> sympy.Rational:
-    return _NEW_INTEGER(_INTEGER, numerator) if den == 1 else sympy.Rational(numerator, den)
-
-
 def to_sympy(a: Gaussian) -> sympy.Expr:
     """The sympy number, built as sympy's arithmetic would canonically give it
     (re + im*I with re first, im*I a Mul of a Rational and I), without the
@@ -124,9 +120,10 @@ def to_sympy(a: Gaussian) -> sympy.Expr:
     them, inline: for a state of many thousand terms that call's checks cost
     a third of the conversion."""
     re, im, den = a
+    real = _NEW_INTEGER(_INTEGER, re) if den == 1 else sympy.Rational(re, den)
     if not im:
-        return _sympy_rational(re, den)
-    factor = _sympy_rational(im, den)
+        return real
+    factor = _NEW_INTEGER(_INTEGER, im) if den == 1 else sympy.Rational(im, den)
     if factor is _ONE:
         imaginary = _I
     else:
@@ -134,6 +131,6 @@ def to_sympy(a: Gaussian) -> sympy.Expr:
         imaginary.is_commutative = True
     if not re:
         return imaginary
-    total = _NEW_BASIC(Add, _sympy_rational(re, den), imaginary)
+    total = _NEW_BASIC(Add, real, imaginary)
     total.is_commutative = True
     return total

@@ -53,8 +53,14 @@ def plus(a: Scalar, b: Scalar) -> Scalar:
 
 
 def times(a: Scalar, b: Scalar) -> Scalar:
-    if type(a) is Gaussian and type(b) is Gaussian:
-        return numbers.multiply(a, b)
+    """a b; a factor that is exactly 1 (a basis ket's coefficient) leaves the other as it is."""
+    if type(a) is Gaussian:
+        if type(b) is Gaussian:
+            return numbers.multiply(a, b)
+        if a == numbers.ONE:
+            return b
+    elif type(b) is Gaussian and b == numbers.ONE:
+        return a
     return to_sympy(a) * to_sympy(b)
 
 
