@@ -231,3 +231,20 @@ def test_a_worksheet_from_a_file_may_not_ask_for_a_data_file(tmp_path):
     _, outcomes = replay(sheet)
     assert "cannot write files" in outcomes[-1].error.message
     assert not target.exists()
+
+
+def test_the_interactive_shell_and_the_command_line_write_what_plot_asks_for(tmp_path, capsys):
+    import io
+    from ketsplit.cli import main
+    from ketsplit.repl.loop import Shell
+    shell = Shell(out=io.StringIO(), colour=False, spinner=False)
+    picture = tmp_path / "shell.png"
+    shell.handle(f"{FAMILY}\nplot entropy psi over t --to {picture}")
+    assert picture.read_bytes().startswith(b"\x89PNG")  # file signature (fact of the trade)
+    assert f"written: {picture}" in shell.console.stream.getvalue().replace("\n", " ")
+    data = tmp_path / "cli.csv"
+    assert main(["-c", f"{FAMILY}\nplot entropy psi over t --data {data}"]) == 0
+    assert next(csv.reader(data.open())) == ["t", "entropy (bits)"]
+    unwritable = tmp_path / "missing" / "e.svg"  # no such folder: an error, nothing written
+    assert main(["-c", f"{FAMILY}\nplot entropy psi over t --to {unwritable}"]) == 2
+    assert "no folder" in capsys.readouterr().err
