@@ -154,8 +154,9 @@ Item = Union[Field, Table, Note, Plot]
 
 @dataclass(frozen=True)
 class Report:
-    """``value``: the computed value the report describes (a Decomposition, a Verdict, ...),
-    kept for callers that want the value itself; renderers read only the items."""
+    """``value``: the computed value the report describes (a Decomposition, a Verdict, the new
+    setting, ...; every statement sets one), kept for callers that want the value itself;
+    the text, LaTeX and Markdown renderers read only the items, JSON describes the value too."""
 
     title: str
     items: tuple[Item, ...] = ()
