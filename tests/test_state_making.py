@@ -1,0 +1,114 @@
+"""Making a State: zero amplitudes, labels, symbols and parameters, checked against sympy.
+
+The State is made once from a built ket (session.make_state); these checks pin what
+that one pass decides without sympy's generic comparisons: which amplitudes are the
+number zero, which labels fit, and which symbols the amplitudes hold.  The reference
+for every value is sympy's own arithmetic and its ``free_symbols``.
+"""
+
+from __future__ import annotations
+
+import random
+from fractions import Fraction
+
+import mpmath
+import pytest
+import sympy
+
+import ketsplit
+from ketsplit.states import State, free_symbols, is_gaussian_rational, is_zero_number
+
+t, u = sympy.symbols("t u", real=True)
+z = sympy.Symbol("z", complex=True)
+
+
+def gaussian_rationals(count: int, seed: int) -> list[sympy.Expr]:
+    """p + q i for random rationals p, q, written with sympy's arithmetic (the reference form)."""
+    rng = random.Random(seed)
+    values = []
+    for _ in range(count):
+        p = sympy.Rational(rng.randint(-50, 50), rng.randint(1, 9))
+        q = sympy.Rational(rng.randint(-50, 50), rng.randint(1, 9))
+        values.append(p + q * sympy.I)
+    return values
+
+
+NOT_GAUSSIAN = [sympy.sqrt(2), sympy.pi, t, 1 + t, sympy.I * sympy.sqrt(2),
+                (1 + sympy.I) * sympy.sqrt(3), sympy.exp(sympy.I * t), sympy.Float(0.5),
+                sympy.Rational(1, 3) + sympy.sqrt(2) * sympy.I, t * sympy.I]
+
+
+def test_gaussian_rationals_are_told_by_their_shape():
+    # fact of the trade: Q(i) is {p + q i : p, q rational}; sympy writes its elements as
+    # a Rational, a Rational times I, or their sum, and nothing else has that shape
+    for value in gaussian_rationals(300, 1):
+        assert is_gaussian_rational(value), value
+    for value in NOT_GAUSSIAN:
+        assert not is_gaussian_rational(value), value
+
+
+def test_free_symbols_agree_with_sympy():
+    # reference: sympy's free_symbols of each value, united
+    values = gaussian_rationals(50, 2) + NOT_GAUSSIAN + [z * sympy.sqrt(3), u ** 2 - t, sympy.Integer(0)]
+    expected = set().union(*(v.free_symbols for v in values))
+    assert free_symbols(values) == expected == {t, u, z}
+    assert free_symbols(gaussian_rationals(20, 3)) == frozenset()
+
+
+def test_zero_is_the_number_zero_only():
+    # the exact zeros of sympy's number classes (Integer, Rational, Float); an expression
+    # that only simplifies to zero is not a zero number (sympy's structural == 0 agrees)
+    assert all(is_zero_number(v) for v in (sympy.Integer(0), sympy.Rational(0, 5), sympy.Float(0)))
+    unsimplified = sympy.Add(t, -t, evaluate=False)
+    for value in (sympy.Integer(1), sympy.Rational(-1, 7), sympy.I, sympy.nan, sympy.oo, t,
+                  unsimplified):
+        assert not is_zero_number(value), value
+    assert (unsimplified == 0) is False
+
+
+def test_a_state_keeps_exactly_its_nonzero_amplitudes():
+    # Python, Fraction and mpmath zeros are zero (their == 0 says so); every kept value is exact
+    state = State((2, 3), {(0, 0): 0, (0, 1): 0.0, (0, 2): 0j, (1, 0): mpmath.mpf(0),
+                           (1, 1): Fraction(0, 3), (1, 2): Fraction(1, 3)})
+    assert dict(state.amplitudes) == {(1, 2): sympy.Rational(1, 3)}
+    assert State((2,), {(0,): 0.5, (1,): 3}).amplitudes[(0,)] == sympy.Rational(1, 2)
+    with pytest.raises(ValueError, match="not an exact value"):
+        State((2,), {(0,): "1"})
+
+
+@pytest.mark.parametrize("labels, dims, message", [
+    ([(0, 1), (2, 0)], (2, 2), r"label \(2, 0\): part 1 outside dimension 2"),
+    ([(0, 1), (1,)], (2, 2), r"label \(1,\) does not have 2 parts"),
+    ([(0, -1)], (2, 2), r"label \(0, -1\): part 2 outside dimension 2"),
+    ([(0, 299), (0, 300)], (1, 300), r"label \(0, 300\): part 2 outside dimension 300"),
+])
+def test_labels_outside_the_dimensions_are_named(labels, dims, message):
+    with pytest.raises(ValueError, match=message):
+        State(dims, {label: 1 for label in labels})
+
+
+def test_levels_past_a_byte_are_accepted():
+    state = State((1, 300), {(0, 299): 1, (0, 0): 2})
+    assert state.dims == (1, 300) and len(state.amplitudes) == 2
+
+
+def test_ket_amplitudes_equal_sympys_arithmetic():
+    # reference: the same amplitudes computed by sympy's arithmetic, compared structurally
+    state = ketsplit.ket("(1+2i)/3|00> + (2-i)/6|01> - 4i|10> + 5|11> + |01> - |01>")
+    i = sympy.I
+    assert dict(state.amplitudes) == {
+        (0, 0): (1 + 2 * i) / 3, (0, 1): (2 - i) / 6, (1, 0): -4 * i, (1, 1): sympy.Integer(5)}
+    assert state.dims == (2, 2)
+    assert state.params == () and state.symbols == frozenset()
+
+
+def test_ket_parameters_are_its_symbols_with_their_declarations():
+    state = ketsplit.ket("cos(t)|00> + s|11> + (2+i)|01>", real="t", ranges={"t": (0, "pi")})
+    assert [(p.name, p.kind) for p in state.params] == [("s", "complex"), ("t", "real")]
+    assert state.parameter("t").range == (0, sympy.pi)
+    assert state.symbols == {sympy.Symbol("t", real=True), sympy.Symbol("s", complex=True)}
+
+
+def test_a_ket_whose_amplitudes_cancel_is_refused():
+    with pytest.raises(ketsplit.InputError, match="the state is zero"):
+        ketsplit.ket("(1+i)|01> - (1+i)|01>")
