@@ -21,9 +21,9 @@ from flint import ctx, fmpz_poly
 
 from .cuts import Cut, parse_cut, side_label
 from .exact.order import order_pieces, scaled
-from .exact.schmidt import nonzero_entries, schmidt_pieces
+from .exact.schmidt import nonzero_entries, schmidt_pieces, schmidt_spectrum
 from .exact.selfcheck import DecompositionError as DecompositionError  # re-exported
-from .exact.selfcheck import verify_rebuild
+from .exact.selfcheck import verify_rebuild, verify_spectrum
 from .exact.signs import box_of, drop_abs
 from .language.printer import label_text
 from .language.printer import text as language_text
@@ -155,14 +155,24 @@ def rebuild_decomposition(values: dict) -> Decomposition:
     return Decomposition(**values)
 
 
-def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
-    """The exact Schmidt decomposition of the normalised ``state`` across ``cut``."""
+def schmidt(state: State, cut: Cut | str | None = None, vectors: bool = True) -> Decomposition:
+    """The exact Schmidt decomposition of the normalised ``state`` across ``cut``.
+
+    ``vectors=False`` on a state of numbers gives the coefficients alone (no
+    vectors: ``left`` and ``right`` are empty), checked against the power sums
+    of each block's reduced state instead of rebuilding the state.
+    """
     if isinstance(state, SymmetricState):
-        return symmetric_schmidt(state, cut)
+        return symmetric_schmidt(state, cut, vectors)
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
     normal = state.normalised()
-    pieces, _ = schmidt_pieces(state, cut)
+    spectrum_only = not vectors and not state.symbols
+    if spectrum_only:
+        groups = schmidt_spectrum(state, cut)
+        pieces = [(sigma, None, None) for _, sigmas in groups for sigma in sigmas]
+    else:
+        pieces, _ = schmidt_pieces(state, cut)
     if normal is not state:  # decompose as typed, then scale: keeps symbolic forms short
         scale = 1 / sympy.sqrt(state.norm_squared())
         pieces = [(scaled(sigma, scale), u, w) for sigma, u, w in pieces]
@@ -170,15 +180,21 @@ def schmidt(state: State, cut: Cut | str | None = None) -> Decomposition:
     if box:  # the declared ranges prove signs: |cos t| is cos t on [0, pi/2]
         pieces = [(drop_abs(sigma, box), u.applyfunc(lambda v: drop_abs(v, box)),
                    w.applyfunc(lambda v: drop_abs(v, box))) for sigma, u, w in pieces]
+    if spectrum_only:
+        found = iter(p[0] for p in pieces)
+        verify_spectrum([(block, [next(found) for _ in sigmas]) for block, sigmas in groups],
+                        state.norm_squared())
     pieces, ordered = order_pieces(pieces, box)
     notes = []
     if normal is not state:
         notes.append(f"the state was normalised (its squared norm was {language_text(state.norm_squared())})")
     if not ordered:
         notes.append("the order of the coefficients depends on the parameters")
-    decomposition = Decomposition(normal, cut, [p[0] for p in pieces], [p[1] for p in pieces],
-                                  [p[2] for p in pieces], True, ordered, tuple(notes))
-    verify_rebuild(decomposition)
+    vectors_of = (lambda k: []) if spectrum_only else (lambda k: [p[k] for p in pieces])
+    decomposition = Decomposition(normal, cut, [p[0] for p in pieces], vectors_of(1), vectors_of(2),
+                                  True, ordered, tuple(notes))
+    if not spectrum_only:
+        verify_rebuild(decomposition)
     return decomposition
 
 
@@ -197,7 +213,7 @@ def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
     if chosen.route == "certified":
         return certified_decomposition(state, cut, digits, chosen.reason, chosen.factors, vectors)
     try:
-        found = schmidt(state, cut)
+        found = schmidt(state, cut, vectors)
     except NoClosedForm as why:
         if method == "exact" or state.symbols:
             raise no_closed_form(state, str(why)) from None
@@ -233,17 +249,18 @@ def certified_decomposition(state: State, cut: Cut | str | None, digits: int, re
 def symmetric_spectrum(state: SymmetricState, cut: Cut | str | None) -> list[sympy.Expr]:
     """The squared Schmidt coefficients across ``cut``, descending where the order is decided;
     for a single Dicke state (or a GHZ-like sum) read off M directly (:func:`monomial_schmidt`)."""
-    return symmetric_schmidt(state, cut).squared
+    return symmetric_schmidt(state, cut, vectors=False).squared
 
 
 DICKE_NOTE = ("symmetric state: the vectors are in the Dicke bases of the two sides, "
               "|m> on a side of k parts standing for D(k, m)")
 
 
-def symmetric_schmidt(state: SymmetricState, cut: Cut | str | None):
-    """The exact Schmidt decomposition of a symmetric state, computed on M (never on 2^n labels)."""
+def symmetric_schmidt(state: SymmetricState, cut: Cut | str | None, vectors: bool = True):
+    """The exact Schmidt decomposition of a symmetric state, computed on M (never on 2^n labels);
+    ``vectors=False``: the coefficients alone where that is cheaper (:func:`schmidt`)."""
     split, split_cut = dicke_split(state, cut)
-    decomposition = monomial_schmidt(split) or schmidt(split, split_cut)
+    decomposition = monomial_schmidt(split) or schmidt(split, split_cut, vectors)
     return replace(decomposition, notes=decomposition.notes + (DICKE_NOTE,))
 
 

@@ -155,16 +155,20 @@ def without_extrema(expr: sympy.Expr) -> sympy.Expr:
                         lambda e: fold(e.args, 1 if isinstance(e, sympy.Max) else -1))
 
 
-def _log(x: sympy.Expr) -> sympy.Expr:
-    """log x, with a rational x < 1 written as -log(1/x) so the sign shows."""
-    x = tidy(x)
+def _log(x: sympy.Expr, tidied: bool = True) -> sympy.Expr:
+    """log x, with a rational x < 1 written as -log(1/x) so the sign shows (x tidied first,
+    unless asked not to: then a real sum, a positive p of the spectrum, is not evaluated, as
+    log would only spend its time asking for the sign)."""
+    x = tidy(x) if tidied else x
     if x.is_Rational and 0 < x < 1:
         return -sympy.log(1 / x)
+    if not tidied and x.is_Add and x.is_number and not x.has(sympy.I):
+        return sympy.log(x, evaluate=False)
     return sympy.log(x)
 
 
-def _entropy(p: Sequence[sympy.Expr], base: sympy.Expr) -> sympy.Expr:
-    return -sympy.Add(*(x * _log(x) for x in p if x != 1)) / base
+def _entropy(p: Sequence[sympy.Expr], base: sympy.Expr, tidied: bool = True) -> sympy.Expr:
+    return -sympy.Add(*(x * _log(x, tidied) for x in p if x != 1)) / base
 
 
 def _purity(p: Sequence[sympy.Expr]) -> sympy.Expr:
@@ -341,10 +345,22 @@ def overview(state: State, unit: str = "bits") -> Overview:
     summaries = []
     for cut in every_cut(state.nparts):
         found = decompose(state, cut, vectors=False)
-        entropy = certified_figures(found, ("entropy",), unit) if found.certified is not None else \
-            spectrum_figures(Spectrum.of(found), unit, ("entropy",))
-        summaries.append(CutSummary(cut, found.rank, entropy["entropy"]))
+        summaries.append(CutSummary(cut, found.rank, cut_entropy(found, unit)))
     return Overview(tuple(summaries), product_groups(state.nparts, summaries), bool(state.symbols))
+
+
+def cut_entropy(found: Decomposition, unit: str) -> sympy.Expr | arb:
+    """The entropy across one cut for the overview: a ball on the certified route, tidied
+    closed forms for a family.  For a state of numbers -sum p log p is built from the exact
+    squared coefficients as they are, the exact route's expanded closed forms (simplify
+    rewrites nothing there and, the first time it runs, costs more than the decomposition);
+    with rational p the logarithms are still split into primes (no simplify is involved)."""
+    if found.certified is not None:
+        return certified_figures(found, ("entropy",), unit)["entropy"]
+    if found.state.symbols:
+        return spectrum_figures(Spectrum.of(found), unit, ("entropy",))["entropy"]
+    entropy = _entropy(found.squared, unit_log(unit), tidied=False)
+    return tidy(entropy) if all(p.is_Rational for p in found.squared) else entropy
 
 
 def product_groups(nparts: int, summaries: Sequence[CutSummary]) -> tuple[tuple[int, ...], ...]:
@@ -478,9 +494,8 @@ def symmetric_overview(state: SymmetricState, unit: str = "bits"):
                  f"of {n} parts)")
     summaries = []
     for cut in cut_classes(n):
-        spectrum = Spectrum.of(symmetric_schmidt(state, cut))
-        summaries.append(CutSummary(cut, spectrum.rank,
-                                    spectrum_figures(spectrum, unit, ("entropy",))["entropy"]))
+        found = symmetric_schmidt(state, cut, vectors=False)
+        summaries.append(CutSummary(cut, found.rank, cut_entropy(found, unit)))
     product = summaries[0].rank == 1
     groups = tuple((p,) for p in range(n)) if product else (tuple(range(n)),)
     return Overview(tuple(summaries), groups, bool(state.symbols))

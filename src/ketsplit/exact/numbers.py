@@ -28,12 +28,14 @@ takes the symbolic route or declines with NoClosedForm).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from fractions import Fraction
 
 import sympy
 from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 from sympy.polys.polyerrors import BasePolynomialError, CoercionFailed
 
+from ..numeric.blocks import gaussian_rational
 from .eigen import LAMBDA, NoClosedForm, refusal, solve_factor
 from .tidy import expanded
 
@@ -105,6 +107,11 @@ def number_block(block: sympy.Matrix) -> NumberBlock | None:
     if all(v.is_Rational for v in values):  # the common case, without construct_domain
         elements = [sympy.QQ(int(v.p), int(v.q)) for v in values]
         return _block(block.shape, elements + elements, sympy.QQ, values)
+    parts = [gaussian_rational(v) if not v.has(sympy.Float) else None for v in values]
+    if all(part is not None for part in parts):  # p/q + i r/s: QQ(i), again without construct_domain
+        field = sympy.QQ_I
+        elements = [field(x, y) for x, y in parts] + [field(x, -y) for x, y in parts]
+        return _block(block.shape, elements, field, values)
     degree = field_degree_bound(values)
     if degree is None or degree > MAX_FIELD_DEGREE:
         return None
@@ -183,12 +190,7 @@ def number_pieces(found: NumberBlock) -> list[Piece]:
         return [rank_one(found)]
     rho = found.matrix.matmul(found.conjugate.transpose())
     field = found.field
-    poly = sympy.Poly([field.to_sympy(c) for c in rho.charpoly()], LAMBDA, domain=field)
-    _, factors = poly.factor_list()
-    factors = [(f.monic(), k) for f, k in factors]
-    for f, _ in factors:  # the structure decides at once, before any eigenvector work
-        if refusal(f):
-            raise NoClosedForm(refusal(f))
+    factors = eigen_factors(found, rho)
     minimal = sympy.Poly(1, LAMBDA, domain=field)
     for f, _ in factors:
         minimal = minimal * f
@@ -205,6 +207,64 @@ def number_pieces(found: NumberBlock) -> list[Piece]:
         else:
             pieces += multiple_pieces(found, projector, multiplicity)
     return pieces
+
+
+def eigen_factors(found: NumberBlock, rho: DomainMatrix) -> list[tuple[sympy.Poly, int]]:
+    """The monic irreducible factors of rho's characteristic polynomial over the block's field,
+    with multiplicities; NoClosedForm at once where a factor has no closed form."""
+    field = found.field
+    poly = sympy.Poly([field.to_sympy(c) for c in rho.charpoly()], LAMBDA, domain=field)
+    factors = [(f.monic(), k) for f, k in poly.factor_list()[1]]
+    for f, _ in factors:  # the structure decides at once, before any eigenvector work
+        if refusal(f):
+            raise NoClosedForm(refusal(f))
+    return factors
+
+
+def number_spectrum(found: NumberBlock) -> list[sympy.Expr]:
+    """The block's Schmidt coefficients alone, without vectors: the closed forms
+    :func:`number_pieces` gives (sqrt of each nonzero eigenvalue of rho = B B^dagger, as
+    often as its multiplicity)."""
+    if found.matrix.shape[0] == 1 or found.matrix.rank() == 1:
+        return [rank_one(found)[0]]
+    rho = found.matrix.matmul(found.conjugate.transpose())
+    field = found.field
+    values: list[sympy.Expr] = []
+    for f, multiplicity in eigen_factors(found, rho):
+        if not (f.degree() == 1 and f.TC() == 0):  # the zero eigenvalue carries no coefficient
+            values += [root(at([field.zero, field.one])) for at in evaluations(found, f)] * multiplicity
+    return values
+
+
+def two_row_spectrum(rows: list[list[sympy.Expr]]) -> list[sympy.Expr] | None:
+    """The Schmidt coefficients of a block of two rows of Gaussian rationals (None for other
+    entries), in exact rational arithmetic on Python numbers, no field built.
+
+    rho = B B^dagger is 2 x 2 with w = tr rho and D = det rho rational: its
+    eigenvalues are w/2 +- sqrt(w^2/4 - D), the roots of x^2 - w x + D, written
+    as :func:`evaluations` writes them (a double root twice; D = 0 is a rank-one
+    block, one coefficient sqrt(w), as :func:`rank_one` gives).
+    """
+    parts = [[gaussian_rational(v) if not v.has(sympy.Float) else None for v in row] for row in rows]
+    if any(part is None for row in parts for part in row):
+        return None
+    (top, bottom), weights = parts, [sum(x * x + y * y for x, y in row) for row in parts]
+    # q = sum_k a_k conj(b_k) = (x + i y)(u - i v) summed, its real and imaginary parts
+    q_re = sum(x * u + y * v for (x, y), (u, v) in zip(top, bottom))
+    q_im = sum(y * u - x * v for (x, y), (u, v) in zip(top, bottom))
+    det = weights[0] * weights[1] - q_re * q_re - q_im * q_im
+    half = Fraction(weights[0] + weights[1]) / 2
+    if not det:
+        return [root(_rational(2 * half))]
+    radicand = half * half - det
+    if not radicand:
+        return [root(_rational(half))] * 2
+    radical = root(_rational(radicand))
+    return [root(_rational(half) + radical), root(_rational(half) - radical)]
+
+
+def _rational(value: Fraction) -> sympy.Rational:
+    return sympy.Rational(value.numerator, value.denominator)
 
 
 @dataclass(frozen=True)

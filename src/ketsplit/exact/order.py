@@ -26,16 +26,21 @@ def scaled(sigma: sympy.Expr, scale: sympy.Expr) -> sympy.Expr:
 def order_pieces(pieces, box=None):
     """Descending order of the coefficients when every comparison is decided.
 
-    Numbers are first sorted by the midpoints of 64-bit balls; the order is then
-    proved by the decision layer on neighbours only (n - 1 comparisons).  Where
-    a neighbour comparison disagrees, or for parameters, a full sort compares
-    pairs through the decision layer.
+    Numbers are compared by their squares (the coefficients are nonnegative,
+    and the squares are the simpler closed forms for the decision layer: the
+    eigenvalues' radicals rather than radicals of them).  They are first sorted
+    by the midpoints of 64-bit balls; the order is then proved by the decision
+    layer on neighbours only (n - 1 comparisons).  Where a neighbour comparison
+    disagrees, or for parameters, a full sort compares pairs through the
+    decision layer.
     """
     try:
         if not any(p[0].free_symbols for p in pieces):
-            guess = sorted(pieces, key=lambda p: -_midpoint(p[0]))
-            if all(compare_descending(a[0], b[0]) <= 0 for a, b in zip(guess, guess[1:])):
-                return guess, True
+            keyed = [(sympy.expand(p[0] ** 2), p) for p in pieces]
+            guess = sorted(keyed, key=lambda k: -_midpoint(k[0]))
+            if not all(compare_descending(a[0], b[0]) <= 0 for a, b in zip(guess, guess[1:])):
+                guess = sorted(keyed, key=cmp_to_key(lambda a, b: compare_descending(a[0], b[0])))
+            return [p for _, p in guess], True
         return sorted(pieces, key=cmp_to_key(lambda a, b: compare_descending(a[0], b[0], box))), True
     except ValueError:
         return pieces, False

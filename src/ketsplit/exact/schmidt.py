@@ -27,11 +27,11 @@ import sympy
 from sympy.polys.domains import EXRAW
 from sympy.polys.matrices import DomainMatrix
 
-from ..cuts import CoefficientMatrix, Cut
+from ..cuts import CoefficientMatrix, Cut, check_dense
 from ..states import State, abs_squared, simplify_masked, simplify_real
 from .eigen import eigenvalues
 from .errors import NoClosedForm
-from .numbers import number_block, number_pieces, root
+from .numbers import number_block, number_pieces, number_spectrum, root, two_row_spectrum
 from .tidy import is_zero, neat_number, tidy
 
 Vector = sympy.Matrix
@@ -215,6 +215,39 @@ def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]
         for sigma, u, w in found:
             pieces.append((sigma, embed(u, rows, matrix.shape[0]), embed(w, cols, matrix.shape[1])))
     return pieces, matrix.shape
+
+
+def schmidt_spectrum(state: State, cut: Cut) -> list[tuple[list[list[sympy.Expr]], list[sympy.Expr]]]:
+    """Per block: the block as rows (its smaller side as the rows) and its Schmidt
+    coefficients, without vectors (two rows of Gaussian rationals in rational arithmetic,
+    other blocks of numbers by :func:`ketsplit.exact.numbers.number_spectrum`)."""
+    matrix = CoefficientMatrix(state, cut)
+    groups = []
+    for rows, cols in matrix.blocks():
+        if len(rows) == len(cols) == 1:
+            value = matrix.rows[rows[0]][cols[0]]
+            groups.append(([[value]], [sigma for sigma, _, _ in single_piece(value)]))
+            continue
+        block = side_rows(matrix, rows, cols)
+        sigmas = two_row_spectrum(block) if len(block) == 2 else None
+        if sigmas is None:
+            found = number_block(sympy.Matrix(block))
+            sigmas = number_spectrum(found) if found is not None else \
+                [sigma for sigma, _, _ in decompose_block(sympy.Matrix(block))]
+        groups.append((block, sigmas))
+    return groups
+
+
+def side_rows(matrix: CoefficientMatrix, rows: list[int], cols: list[int]) -> list[list[sympy.Expr]]:
+    """The block on ``rows`` x ``cols`` as lists, its smaller side as the rows."""
+    check_dense(len(rows) * len(cols), "block of the coefficient matrix")
+    col_at = {c: k for k, c in enumerate(cols)}
+    dense = [[sympy.S.Zero] * len(cols) for _ in rows]
+    for k, i in enumerate(rows):
+        for j, value in matrix.rows.get(i, {}).items():
+            if j in col_at:
+                dense[k][col_at[j]] = value
+    return dense if len(rows) <= len(cols) else [list(column) for column in zip(*dense)]
 
 
 def single_piece(value: sympy.Expr) -> list[Piece]:

@@ -25,7 +25,7 @@ from __future__ import annotations
 import random
 
 import sympy
-from flint import acb, arb
+from flint import acb, acb_mat, arb, ctx
 
 from ..cuts import side_index
 from ..numeric.enclose import Encloser
@@ -56,6 +56,50 @@ def verify_rebuild(decomposition) -> None:
             if checked == POINTS:
                 return
     raise DecompositionError("the rebuild check found no parameter point without a pole")
+
+
+def verify_spectrum(groups: list[tuple[list[list[sympy.Expr]], list[sympy.Expr]]],
+                    norm2: sympy.Expr) -> None:
+    """Coefficients found without vectors, checked against their blocks (a state of numbers).
+
+    Each group is a block B (as rows, its smaller side as the s rows) and the coefficients
+    sigma_k of the normalised state it gave.  With G = B B^H / |psi|^2, the
+    power sums sum_k sigma_k^(2m) must equal tr(G^m) for m = 1..s: s power
+    sums fix the s eigenvalues of G, so this checks the values and the rank.
+    Balls as in :func:`check_at` (every such sum lies in [0, 1]).
+    """
+    for bits in LADDER:
+        values = spectrum_residuals(groups, norm2, bits)
+        if values is None:
+            continue
+        for value in values:
+            if not value.contains(0):
+                raise DecompositionError(f"the Schmidt coefficients are not the spectrum of their "
+                                         f"block (a power sum differs by {value})")
+        if all(_narrow(v, arb(1)) for v in values):
+            return
+    raise DecompositionError(f"the spectrum residual is not narrow at {LADDER[-1]} bits")
+
+
+def spectrum_residuals(groups, norm2: sympy.Expr, bits: int) -> list[acb] | None:
+    """tr(G^m) - sum_k sigma_k^(2m), m = 1..s, for every group; None when a value is not finite."""
+    encloser = Encloser(bits)
+    out = []
+    try:
+        scale = 1 / encloser(norm2)
+        for block, sigmas in groups:
+            entries = [[encloser(value) for value in row] for row in block]
+            squares = [encloser(sigma) ** 2 for sigma in sigmas]
+            with ctx.workprec(bits):
+                b = acb_mat(entries)
+                gram = b * b.conjugate().transpose() * scale
+                power, powers = gram, list(squares)
+                for _ in block:
+                    out.append(sum((power[k, k] for k in range(len(block))), acb(0)) - sum(powers, acb(0)))
+                    power, powers = power * gram, [p * q for p, q in zip(powers, squares)]
+    except (ZeroDivisionError, ValueError):
+        return None
+    return out if all(v.is_finite() for v in out) else None
 
 
 def check_at(point: dict, decomposition, strict: bool = True) -> bool:
