@@ -10,12 +10,13 @@ from flint import arb
 from .. import mixed
 from ..base.document import Field, Note, Report, Table
 from ..base.errors import InputError
-from ..cuts import Cut, parse_parts, reduced
+from ..cuts import Cut, parse_parts
 from ..language.statements import split_commas, trailing_parts
 from ..language.build import KetValue, kind_of
 from ..language.printer import text as language_text
 from ..mixed import Density, Number, Piece
 from ..numeric.digits import digits_cell
+from ..numeric.stored import stored
 from ..numeric.values import exact_cell
 from ..states import Parameter, State
 from .registry import BINDERS, CommandCall, command
@@ -166,11 +167,7 @@ for _word in BINDING_WORDS:
 
 def _reduced_density(call: CommandCall) -> Density:
     state, keep = call.state_and_parts()
-    matrix = sympy.ImmutableMatrix(reduced(state, keep))
-    names = tuple(state.names[k] for k in keep)
-    notes = () if state.is_normalised() else ("the state was normalised first",)
-    return Density(matrix, tuple(state.dims[k] for k in keep), names,
-                   tuple(p for p in state.params if p.symbol in matrix.free_symbols), notes)
+    return mixed.reduced_density(state, keep)
 
 
 def density_report(title: str, rho: Density) -> Report:
@@ -178,7 +175,7 @@ def density_report(title: str, rho: Density) -> Report:
     items = [Field("density matrix", rho.matrix), Field("parts", parts)]
     if rho.params:
         items.append(Field("parameters", ", ".join(p.describe() for p in rho.params)))
-    return Report(title, tuple(items), rho.notes)
+    return Report(title, tuple(items), rho.notes, value=rho)
 
 
 # -- statements ----------------------------------------------------------------------------
@@ -202,7 +199,7 @@ def run_ptranspose(call: CommandCall) -> Report:
     transposed = mixed.partial_transpose(rho, parts)
     names = "".join(rho.part_names()[p] for p in parts)
     items = (Field(f"rho^T_{names}", transposed),) + _spectrum_or_note(transposed, _digits(call))
-    return Report(f"partial transpose on {names}", items, rho.notes)
+    return Report(f"partial transpose on {names}", items, rho.notes, value=transposed)
 
 
 def _spectrum_or_note(matrix: sympy.MatrixBase, digits: int) -> tuple:
@@ -223,7 +220,7 @@ def run_negativity(call: CommandCall) -> Report:
     logs = tuple(Piece(mixed.log_negativity(p.value), p.symbol, p.lo, p.hi) for p in pieces)
     items = pieces_items("negativity", pieces, _digits(call)) + \
         pieces_items("log-negativity (base 2)", logs, _digits(call))
-    return Report(f"negativity across {cut.describe(_frame(rho))}", items, rho.notes)
+    return Report(f"negativity across {cut.describe(_frame(rho))}", items, rho.notes, value=pieces)
 
 
 @command("concurrence", "concurrence RHO [with NAME=VALUE, ...]",
@@ -236,7 +233,7 @@ def run_concurrence(call: CommandCall) -> Report:
     formation = tuple(Piece(mixed.formation(p.value), p.symbol, p.lo, p.hi) for p in pieces)
     items = pieces_items("concurrence", pieces, _digits(call)) + \
         pieces_items("entanglement of formation (ebits)", formation, _digits(call))
-    return Report("concurrence (Wootters 1998)", items, rho.notes)
+    return Report("concurrence (Wootters 1998)", items, rho.notes, value=pieces)
 
 
 @command("mixedness", "mixedness RHO [with NAME=VALUE, ...]",
@@ -245,11 +242,11 @@ def run_concurrence(call: CommandCall) -> Report:
 def run_mixedness(call: CommandCall) -> Report:
     rho = density_operand(call, call.args, call.offset)
     digits = _digits(call)
-    items: tuple = (Field("purity", number_cell(mixed.purity(rho), digits)),
-                    Field("linear entropy", number_cell(mixed.linear_entropy(rho), digits)),
-                    Field("von Neumann entropy (bits)",
-                          number_cell(mixed.von_neumann_entropy(rho, digits), digits)))
-    return Report("mixedness", _spectrum_or_note(rho.matrix, digits) + items, rho.notes)
+    found = mixed.mixedness(rho, digits)
+    items: tuple = (Field("purity", number_cell(found.purity, digits)),
+                    Field("linear entropy", number_cell(found.linear_entropy, digits)),
+                    Field("von Neumann entropy (bits)", number_cell(found.entropy, digits)))
+    return Report("mixedness", _spectrum_or_note(rho.matrix, digits) + items, rho.notes, value=found)
 
 
 def _split_pair(call: CommandCall) -> tuple[tuple[str, int], tuple[str, int]]:
@@ -271,7 +268,7 @@ def run_fidelity(call: CommandCall) -> Report:
     (a_text, a_at), (b_text, b_at) = _split_pair(call)
     a, b = operand(call, a_text, a_at), operand(call, b_text, b_at)
     value = mixed.fidelity(a, b, _digits(call))
-    return Report("fidelity", (Field("F", number_cell(value, _digits(call))),))
+    return Report("fidelity", (Field("F", number_cell(value, _digits(call))),), value=stored(value))
 
 
 def region_text(region: mixed.Region) -> str:
@@ -370,7 +367,8 @@ def run_separable(call: CommandCall) -> Report:
             f"on {a}x{b} PPT does not prove separability (PPT entangled states exist, Horodecki "
             "1997): PPT regions are labelled PPT, not separable")
     return Report(f"separability across {cut.describe(_frame(rho))}", items,
-                  rho.notes + notes + (note,))
+                  rho.notes + notes + (note,),
+                  value=found)
 
 
 def operator_and_cut(call: CommandCall) -> tuple[sympy.MatrixBase, tuple[int, ...], State, Cut]:
@@ -418,7 +416,8 @@ def run_opschmidt(call: CommandCall) -> Report:
         notes += ("certified: the operators are enclosed in balls (ketsplit.operator_schmidt "
                   "in Python gives them as python-flint acb_mat)",)
     items = (Field("operator Schmidt rank", found.rank), table)
-    return Report(f"operator Schmidt decomposition across {cut.describe(frame)}", items, notes)
+    return Report(f"operator Schmidt decomposition across {cut.describe(frame)}", items, notes,
+                  value=found)
 
 
 @command("schmidtbasis", "schmidtbasis STATE [CUT] [with NAME=VALUE, ...]",
@@ -431,4 +430,4 @@ def run_schmidtbasis(call: CommandCall) -> Report:
              Field("U_B", found.right))
     return Report(f"local unitaries to Schmidt form across {cut.describe(state)}", items,
                   ("rows beyond the Schmidt rank complete the bases (Gram-Schmidt on the "
-                   "standard basis)",))
+                   "standard basis)",), value=found)
