@@ -243,7 +243,7 @@ def nonzero_amplitudes(amplitudes: Mapping) -> dict[tuple, sympy.Basic]:
     for label, value in dict(amplitudes).items():
         if not isinstance(value, sympy.Basic):
             value = as_expr(value)
-        if not (value.is_Number and not value):
+        if not is_zero_number(value):
             found[tuple(label)] = value
     return found
 
