@@ -18,7 +18,6 @@ from .base.version import VERSION as __version__
 from .render.jsonout import SCHEMA
 from .render.results import shown
 from .base.errors import InputError, Span
-from .base.document import Field
 from .render.text import fitted_text, wrap_lines
 from .sheets.format import Sheet, SheetError, read_sheet
 
@@ -165,8 +164,7 @@ def check_status(result) -> int:
     """FAILED for a check whose verdict is not 'holds' (refuted, or undecided)."""
     if result.kind != "check":
         return OK
-    verdicts = [i.value for i in result.report.items if isinstance(i, Field) and i.label == "verdict"]
-    return OK if verdicts and all(str(v).startswith("holds") for v in verdicts) else FAILED
+    return OK if getattr(result.value, "holds", None) is True else FAILED  # the Verdict itself
 
 
 # -- run -------------------------------------------------------------------------
