@@ -41,6 +41,7 @@ from .arith.ranges import rational_inside
 from .base.errors import InputError
 from .cuts import Cut, reduced
 from .exact.eigen import NoClosedForm, eigenvalues, solve_factor
+from .exact import hermitian as gaussian
 from .numeric.digits import certain_count
 from .numeric.enclose import enclose
 from .numeric.stored import BallValue
@@ -97,7 +98,9 @@ def qubit_dims(size: int) -> tuple[int, ...] | None:
 def density(matrix: sympy.MatrixBase, dims: Sequence[int] | None = None, names: Sequence[str] = (),
             params: Sequence[Parameter] = ()) -> Density:
     """A Density from a matrix, after the checks of the module docstring."""
-    matrix = sympy.ImmutableMatrix(matrix).applyfunc(sympy.expand)
+    matrix = sympy.ImmutableMatrix(matrix)
+    parts = gaussian.gaussian_parts(matrix)   # Gaussian rationals: a + b i without sympy's expand
+    matrix = matrix.applyfunc(sympy.expand) if parts is None else gaussian.as_matrix(parts, matrix)
     if matrix.rows != matrix.cols:
         raise InputError(f"a density matrix is square; this one is {matrix.rows}x{matrix.cols}")
     dims = tuple(int(d) for d in dims) if dims else qubit_dims(matrix.rows)
@@ -105,11 +108,37 @@ def density(matrix: sympy.MatrixBase, dims: Sequence[int] | None = None, names: 
         raise InputError(f"a {matrix.rows}x{matrix.rows} matrix does not fit the parts "
                          f"{dims or '(none given)'}: declare them with 'space', e.g. space A:2 B:3")
     params = _parameters(matrix, params)
+    if parts is not None:
+        matrix, notes = _gaussian_checks(matrix, parts)
+        return Density(matrix, dims, tuple(names), params, notes)
     box = {p.symbol: p.range for p in params if p.range is not None}
     _check_hermitian(matrix, box)
     matrix, notes = _unit_trace(matrix, box)
     notes += _check_positive(matrix, box)
     return Density(matrix, dims, tuple(names), params, notes)
+
+
+def _gaussian_checks(matrix: sympy.ImmutableMatrix, parts: gaussian.Parts
+                     ) -> tuple[sympy.ImmutableMatrix, tuple[str, ...]]:
+    """The checks of :func:`density` for Gaussian-rational entries, exactly in rationals and
+    python-flint (:mod:`ketsplit.exact.hermitian`): the same verdicts, several times cheaper."""
+    wrong = gaussian.is_hermitian(parts)
+    if wrong is not None:
+        i, j = wrong
+        raise InputError(f"not a density matrix: it is not Hermitian (entry ({i + 1}, {j + 1}) "
+                         f"is not the conjugate of entry ({j + 1}, {i + 1}); exact)")
+    trace = gaussian.trace(parts)
+    notes: tuple[str, ...] = ()
+    if trace <= 0:
+        raise InputError(f"not a density matrix: its trace {trace} is not positive (exact)")
+    if trace != 1:
+        parts = gaussian.scaled(parts, 1 / trace)
+        matrix = sympy.ImmutableMatrix(matrix / gaussian.rational(trace))
+        notes = (f"the trace was {trace}: the matrix was divided by it",)
+    if gaussian.negative_eigenvalues(parts):
+        raise InputError("not a density matrix: it has a negative eigenvalue (Descartes' rule "
+                         "on its exact characteristic polynomial)")
+    return matrix, notes
 
 
 def reduced_density(state: State, keep: Sequence[int]) -> Density:
@@ -295,9 +324,15 @@ def spectrum(matrix: sympy.MatrixBase, digits: int = 30) -> Spectrum:
     Rational matrices: the exact characteristic polynomial is factored over
     QQ; factors of degree <= 2 give closed forms, higher ones certified balls
     around their (simple) roots (python-flint ``fmpq_poly.complex_roots``).
+    A Hermitian matrix of Gaussian rationals (a density matrix, its partial
+    transpose) has its polynomial from python-flint directly
+    (:mod:`ketsplit.exact.hermitian`).
     Parameters: closed forms (:mod:`ketsplit.exact.eigen`) or an error asking
     for a point.  Other constants: closed forms for 2x2, else balls from
     ``acb_mat.eig`` (factoring over a number field can take minutes on a 4x4)."""
+    parts = gaussian.gaussian_parts(matrix)
+    if parts is not None and gaussian.is_hermitian(parts) is None:
+        return _rational_spectrum(gaussian.charpoly_factors(parts), digits)
     if matrix.free_symbols:
         try:
             return Spectrum(tuple(eigenvalues(sympy.Matrix(matrix))), True)
@@ -306,32 +341,32 @@ def spectrum(matrix: sympy.MatrixBase, digits: int = 30) -> Spectrum:
                              "values with 'with p=...' for certified digits") from None
     coefficients = charpoly_coefficients(matrix)
     if all(c.is_Rational for c in coefficients):
-        return _rational_spectrum(coefficients, digits)
+        poly = flint.fmpq_poly([flint.fmpq(int(c.p), int(c.q)) for c in reversed(coefficients)])
+        return _rational_spectrum(poly.factor()[1], digits)
     if matrix.rows <= 2:  # a quadratic: closed forms in radicals
         poly = sympy.Poly(coefficients, sympy.Dummy("x"))
         return Spectrum(tuple((root, 1) for root in solve_factor(poly)), True)
     return certified_spectrum(matrix, digits)
 
 
-def _rational_spectrum(coefficients: list[sympy.Expr], digits: int) -> Spectrum:
-    x = sympy.Dummy("x")
-    poly = sympy.Poly(coefficients, x, domain="QQ")
+def _rational_spectrum(factors: list[tuple[flint.fmpq_poly, int]], digits: int) -> Spectrum:
+    """From the irreducible factors over QQ: closed forms up to degree 2, else certified balls
+    (the factors of those are kept, in x, to be shown)."""
+    x = sympy.Symbol("x")
     values: list[tuple[Number, int]] = []
-    exact = True
-    for factor, power in poly.factor_list()[1]:
+    shown = []
+    for factor, power in factors:
+        in_x = sympy.Poly([sympy.Rational(int(c.p), int(c.q)) for c in reversed(factor.coeffs())], x)
         if factor.degree() <= 2:
-            values.extend((root, power) for root in solve_factor(factor))
+            values.extend((root, power) for root in solve_factor(in_x.monic()))
             continue
-        exact = False
+        shown.append(in_x.monic().as_expr())
         values.extend((ball, power) for ball in _factor_roots(factor, digits))
-    return Spectrum(tuple(values), exact, factors=tuple(
-        f.as_expr().subs(x, sympy.Symbol("x")) for f, _ in poly.factor_list()[1] if f.degree() > 2))
+    return Spectrum(tuple(values), not shown, factors=tuple(shown))
 
 
-def _factor_roots(factor: sympy.Poly, digits: int) -> list[arb]:
+def _factor_roots(poly: flint.fmpq_poly, digits: int) -> list[arb]:
     """Certified balls around the real roots of an irreducible rational factor."""
-    coefficients = [sympy.Rational(c) for c in reversed(factor.all_coeffs())]
-    poly = flint.fmpq_poly([flint.fmpq(c.p, c.q) for c in coefficients])
     bits = int(digits * 3.33) + 32
     for _ in range(MAX_DOUBLINGS + 1):
         with flint.ctx.workprec(bits):
