@@ -156,3 +156,10 @@ def test_plot_value_names_the_files_asked_for(capsys, tmp_path):
     assert data["value"]["type"] == "drawing" and data["value"]["picture"] == str(target)
     assert data["value"]["chart"]["parameter"] == "t"
     assert data["fields"]["written"]["value"] == str(target) and target.exists()
+
+
+def test_a_checks_exit_status_comes_from_its_verdict(capsys):
+    # Pythagorean identity holds; cos(t)^2 = 1 fails at t = pi/2 (fact of the trade)
+    assert main(["-c", "real t\ncheck cos(t)^2 + sin(t)^2 = 1"]) == 0
+    assert main(["-c", "real t\ncheck cos(t)^2 = 1"]) == 1
+    capsys.readouterr()
