@@ -126,7 +126,13 @@ class CommandCall:
         return self.session.evaluate(text, offset, self.line)
 
     def state(self, text: str | None = None, offset: int | None = None) -> State:
-        """The state written in ``text`` (default: all the arguments), at the ``with`` point."""
+        """The state written in ``text`` (default: all the arguments, which may hold no cut),
+        at the ``with`` point."""
+        if text is None:
+            cut = self.split_cut()[1]
+            if cut is not None:
+                raise self.error(f"{self.name}: takes a state alone, no cut",
+                                 cut.span.column - 1, cut.span.length)
         value = self.value(text, offset)
         if not isinstance(value, KetValue):
             raise self.error(f"{self.name}: expected a state (a ket expression), found a "
@@ -181,8 +187,8 @@ class CommandCall:
         return state, parse_parts(parts, state, self.source)
 
 
-def read_call(session: "Session", name: str, statement: str, start: int, line: int,
-              options: bool = False) -> CommandCall:
+def read_call(session: "Session", name: str, statement: str, start: int, line: int
+              ) -> CommandCall:
     """The call of the command ``name`` whose words start at 0-based column ``start``: its
     words, and its ``with`` clause as a point (settings take none)."""
     found = COMMANDS.get(name)

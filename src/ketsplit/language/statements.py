@@ -6,45 +6,51 @@ names its line and column the way expression errors do.
 
     statement    := KIND declaration | 'space' space | COMMAND arguments
                   | NAME '=' BINDER arguments | NAME '=' expr | expr
-    arguments    := word* ('with' with_clause)? END   (settings commands: word* END)
+    arguments    := word* ('with' with_clause)? END   (settings and worksheets: word* END)
     with_clause  := NAME '=' expr (',' NAME '=' expr)* END
     declaration  := NAME ((',')? NAME)* ('in' '[' expr ',' expr ']')? END
     space        := (NAME ':' INTEGER | INTEGER)+ END
 
 The words of a command's arguments are the expression lexer's tokens, read by
-:func:`read_arguments`, and besides them two words of their own:
+:func:`read_arguments`, and besides them words of the statement's own:
 
-    cut          := parts '|' parts        one word after a space, its bar opening no ket
+    cut          := parts '|' parts    one word after a space, its bar opening no ket
+                                       (so 1|2> stays the term 1 |2>)
     parts        := part (',' part)* | PARTNAMES    one word: 13, 1,3, AC, A,C
-    part         := DIGITS | NAME           (ASCII letters, digits and '_')
-    option       := '--' NAME VALUE         after a space; VALUE is the next word as typed
-                                            (a file name), for the commands that take options
+    part         := DIGITS | NAME       ASCII letters, digits and '_'; which letters of AC
+                                        name parts, the state tells (cuts.parse_parts)
+    option       := '--' NAME VALUE     after a space, for the commands that take options
+                                        (plot, map); VALUE is the next word as typed
+    run          := a stretch of plain terms (|01> - 2|10> + ...), one word, read by the
+                    expression parser's own run pattern (grammar.RUN_FIRST)
 
-Each command reads its words with the rules below (the Report of the command
-says which):
+Each command reads its words with one of these rules:
 
-    state_cut    := expr cut?                            schmidt, rank, numeric, strata, ...
-    state_parts  := expr parts                           reduce (the parts: the last word)
-    figures      := expr (cut figure*  |  figure*)       without a cut, trailing words the
-                                                         command accepts as figures
-    figure       := NAME | NAME '(' expr ')'             entropy, bits, renyi(2)
-    pair         := expr ',' expr | NAME NAME            compare (then cut?), fidelity
+    state_cut    := expr cut?                       schmidt, rank, numeric, strata, negativity, ...
+    state        := expr                            class, tangle, classes (no cut)
+    state_parts  := expr parts                      reduce; ptranspose (parts optional)
+    figures      := expr (cut figure* | figure*)    figures, cuts; without a cut, the trailing
+                                                    words the command takes as figures
+    figure       := NAME | NAME '(' expr ')'        entropy, bits, renyi(2)
+    pair         := (expr ',' expr | expr expr) cut?    compare (two spaced words or a comma),
+                                                        fidelity (a comma, no cut)
     plot         := figure (',' figure)* expr (',' expr)* cut? 'over' NAME (',' NAME)* option*
-    claim        := expr ('=' | '~') expr                check
-    setting      := WORD                                 digits, method, units, budget, help
+    claim        := expr ('=' | '~') expr           check (its left side: 'schmidt' state_cut,
+                                                    'reduce' state_parts, 'rank' state_cut,
+                                                    or state_cut)
+    setting      := WORD                            digits, method, units, budget, help
     limits       := (NAME '=' NUMBER ('^' NUMBER)? ','?)*
 
 An expression's end is the first word that cannot belong to it: ``with``, a
-cut, an option, a keyword of the rule (``over``), or the trailing words the
-rule takes (a part list, figures).
+cut, an option, the keyword ``over``, or the trailing words the rule takes (a
+part list only after a word that can end an expression, figures).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..base.errors import Span
-from ..base.errors import InputError
+from ..base.errors import InputError, Span
 from .grammar import RUN_FIRST, Parser, is_name
 from .syntax import Binary, Name, Node, Number
 from .tokens import DIGITS, TOKEN, Kind, Lexer, kind_of_text
@@ -278,7 +284,7 @@ def read_arguments(statement: str, start: int, line: int, point: bool = True,
     while lexer.token:
         at, text = lexer.start, lexer.token
         if point and text == "with":
-            return Arguments(_words(statement, line, words, start, at), Span(line, at + 1, 4))
+            return Arguments(_words(statement, line, words, at), Span(line, at + 1, 4))
         cut = cut_end(statement, at) if lexer.spaced and text[0] in PART_CHARS else None
         if cut is not None:
             words.append(Word(CUT, statement[at:cut], Span(line, at + 1, cut - at), True, depth))
@@ -295,7 +301,7 @@ def read_arguments(statement: str, start: int, line: int, point: bool = True,
             words.append(Word(kind_of_text(text).value, text, lexer.span(), lexer.spaced, depth))
             depth += text in ("(", "[")
             lexer.advance()
-    return Arguments(_words(statement, line, words, start, lexer.start), None)
+    return Arguments(_words(statement, line, words, lexer.start), None)
 
 
 def _run_end(statement: str, at: int, lexer: Lexer) -> int | None:
@@ -308,9 +314,11 @@ def _run_end(statement: str, at: int, lexer: Lexer) -> int | None:
     return found.end() if found is not None and found.end() > at + lexer.width else None
 
 
-def _words(statement: str, line: int, words: list[Word], start: int, end: int) -> Words:
-    first = words[0].start if words else end
-    return Words(statement, line, tuple(words), min(first, end), end)
+def _words(statement: str, line: int, words: list[Word], end: int) -> Words:
+    """The words read, from the first to the last (``end``: where none was read)."""
+    if not words:
+        return Words(statement, line, (), end, end)
+    return Words(statement, line, tuple(words), words[0].start, words[-1].end)
 
 
 def cut_end(text: str, at: int) -> int | None:
