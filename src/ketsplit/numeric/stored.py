@@ -47,9 +47,9 @@ def stored(value):
     if isinstance(value, acb_mat):
         return BallMatrix(tuple(tuple(stored(value[i, j]) for j in range(value.ncols()))
                                 for i in range(value.nrows())))
-    if isinstance(value, (tuple, list)):
+    if type(value) in (tuple, list):  # plain ones: a subclass keeps more than its items
         return type(value)(stored(v) for v in value)
-    if isinstance(value, dict):
+    if type(value) is dict:
         return {k: stored(v) for k, v in value.items()}
     return value
 
@@ -62,9 +62,9 @@ def restored(value):
         return acb(ball(value.real), ball(value.imag))
     if isinstance(value, BallMatrix):
         return acb_mat([[restored(entry) for entry in row] for row in value.rows])
-    if isinstance(value, (tuple, list)):
+    if type(value) in (tuple, list):  # plain ones: a subclass keeps more than its items
         return type(value)(restored(v) for v in value)
-    if isinstance(value, dict):
+    if type(value) is dict:
         return {k: restored(v) for k, v in value.items()}
     return value
 
