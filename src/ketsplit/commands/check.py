@@ -170,7 +170,7 @@ def _claim(call: CommandCall, claim: str, left: Words, right_words: Words,
         claimed = _at_point(call, claimed)
         return decide(reduced_claim(state, keep, claimed, _params(call, state, claimed)), options)
     state, cut = sub.state_and_cut()
-    if claim == "schmidt" and not right.strip().startswith("["):
+    if claim == "schmidt" and bracketed(right_words) is None:
         return _form_claim(call, state, cut, right, right_offset, len(cut.left), options)
     if claim == "schmidt":
         coefficients = [_at_point(call, c) for c in _claimed_list(call, right_words)]

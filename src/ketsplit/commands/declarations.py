@@ -99,11 +99,11 @@ def assign(session: "Session", assigned: Word, statement: str, line: int) -> Rep
     if name in session.params:
         raise _error(f"{name!r} is a declared parameter; choose another name for the value", line,
                      column, len(name), statement)
-    start = statement.index("=", assigned.end) + 1
-    word = next(iter(leading_words(statement, line, 1, start)), None)
-    binder = BINDERS.get(word.text) if word is not None and word.kind == NAME else None
+    equals, *first = leading_words(statement, line, 2, assigned.end)
+    binder = BINDERS.get(first[0].text) if first and first[0].kind == NAME else None
     if binder is not None:  # NAME = reduce ...: a density matrix
-        return binder(read_call(session, word.text, statement, word.end, line), name)
+        return binder(read_call(session, first[0].text, statement, first[0].end, line), name)
+    start = equals.end
     value = session.evaluate(statement[start:], start, line)
     if isinstance(value, KetValue):
         state = session.make_state(value, Span(line, start + 1, len(statement) - start))
