@@ -123,6 +123,23 @@ def test_singlet_with_a_corner_and_white_noise():
     check_samples_against_numpy(found, matrix, (2, 2), "entangled")
 
 
+def test_tilted_phi_plus_one_threshold_over_the_whole_range():
+    # by hand: for v|Phi+><Phi+| + (1-v)(q|00><00| + (1-q) I/4) the partial transpose has the
+    # block [[a, v/2], [v/2, a]] on |01>, |10> (a = (1-v)(1-q)/4; the rest is diagonal and
+    # positive), so it is entangled iff a < v/2, i.e. v > (1-q)/(3-q) for every q: one interval
+    # column over 0 < q < 1 (the columns around a critical value where nothing changes are one)
+    v = sympy.Symbol("v", real=True)
+    phi = sympy.Matrix([1, 0, 0, 1]) / sympy.sqrt(2)
+    matrix = v * projector(phi) + (1 - v) * (q * unit_matrix(4, 0) + (1 - q) * sympy.eye(4) / 4)
+    params = [Parameter("q", "real", UNIT), Parameter("v", "real", UNIT)]
+    found = mixed.separability(mixed.density(matrix, params=params), CUT)
+    inner = [c for c in found.plane.cells if not c.on_line]
+    assert [(c.x_lo, c.x_hi, c.verdict) for c in inner] == [(0, 1, "separable"), (0, 1, "entangled")]
+    threshold = inner[0].y_hi.closed
+    assert sympy.cancel(threshold - (1 - q) / (3 - q)) == 0
+    check_samples_against_numpy(found, matrix, (2, 2), "entangled")
+
+
 # -- 2x3 and 3x3: the coefficients of the characteristic polynomial -------------------------------
 
 

@@ -125,7 +125,8 @@ def plane_strata(conditions: Sequence[sympy.Expr], verdict: Verdict, x: sympy.Sy
             cells.extend(_column(factors, judge, end, ends[k + 1], (y_lo, y_hi)))
     cells = _joined(cells)
     boundary = _boundary(cells) + _vertical_boundary(cells, factors, x)
-    return Plane(x, y, tuple(cells), tuple(dict.fromkeys(boundary)), tuple(critical))
+    return Plane(x, y, tuple(_merged_columns(cells, x)), tuple(dict.fromkeys(boundary)),
+                 tuple(critical))
 
 
 # -- projection ------------------------------------------------------------------------
@@ -311,6 +312,67 @@ def _joined(cells: list[Cell]) -> list[Cell]:
         else:
             result.append(cell)
     return result
+
+
+def _merged_columns(cells: list[Cell], x) -> list[Cell]:
+    """Two interval columns around a line, all three alike, as one interval column: the same
+    verdicts, ends and sections, and the line's ends the sections' closed forms there."""
+    columns: list[list[Cell]] = []
+    for cell in cells:
+        if columns and (columns[-1][0].x_lo, columns[-1][0].x_hi) == (cell.x_lo, cell.x_hi):
+            columns[-1].append(cell)
+        else:
+            columns.append([cell])
+    merged: list[list[Cell]] = []
+    k = 0
+    while k < len(columns):
+        column = columns[k]
+        if merged and k + 1 < len(columns) and _alike(merged[-1], columns[k + 1]) and \
+                _continues(merged[-1], column, x):
+            hi = columns[k + 1][0].x_hi
+            merged[-1] = [Cell(c.verdict, c.x_lo, hi, c.y_lo, c.y_hi, c.closed, c.sample, c.proof)
+                          for c in merged[-1]]
+            k += 2
+            continue
+        merged.append(column)
+        k += 1
+    return [c for column in merged for c in column]
+
+
+def _shape(cell: Cell) -> tuple:
+    return cell.verdict, cell.y_lo, cell.y_hi, cell.closed
+
+
+def _alike(left: list[Cell], right: list[Cell]) -> bool:
+    """Two interval columns with the same cells (sections compared as root k of f)."""
+    return not left[0].on_line and not right[0].on_line and \
+        [_shape(c) for c in left] == [_shape(c) for c in right] and \
+        all(c.verdict != UNDECIDED for c in left)
+
+
+def _continues(interval: list[Cell], line: list[Cell], x) -> bool:
+    """The line's cells are the interval's at x = c: same verdicts and closedness, and each end
+    the interval's end there (a box end, or a section's closed form, proved equal)."""
+    if len(interval) != len(line) or not line[0].on_line:
+        return False
+    c = line[0].x_lo
+    for wide, thin in zip(interval, line):
+        if (wide.verdict, wide.closed) != (thin.verdict, thin.closed):
+            return False
+        for end, value in ((wide.y_lo, thin.y_lo), (wide.y_hi, thin.y_hi)):
+            if isinstance(end, Section):
+                if end.closed is None or not _equal(end.closed.xreplace({x: c}), value):
+                    return False
+            elif end != value:
+                return False
+    return True
+
+
+def _equal(a: sympy.Expr, b: sympy.Expr) -> bool:
+    try:
+        return zero(sympy.expand(a - b))
+    except Undecidable:
+        return False
 
 
 def _boundary(cells: list[Cell]) -> tuple[sympy.Expr, ...]:
