@@ -215,3 +215,18 @@ def test_two_parameter_family_not_positive_somewhere_is_refused_at_a_point():
              for s in (p, q)}
     dense = np.array(matrix.subs(point).evalf(20).tolist(), dtype=complex)
     assert np.linalg.eigvalsh(dense).min() < 0
+
+
+def test_angle_families_are_refused_with_a_hint_not_a_traceback():
+    # a two-parameter family in cos t, sin t is not polynomial in t: an InputError naming the
+    # way out; with t fixed, the one-parameter threshold of p|psi><psi| + (1-p) I/4,
+    # psi = cos t|00> + sin t|11> at t = pi/6: entangled iff p > 1/(1 + 2 sin 2t) (by hand:
+    # the |01>,|10> block [[(1-p)/4, p sin(2t)/2], [., (1-p)/4]] of the partial transpose),
+    # 1/(1 + sqrt 3) = (sqrt 3 - 1)/2
+    session = Session()
+    session.run("real t in [0, pi/2]\nreal p in [0, 1]\nspace A:2 B:2")
+    session.run("rho = density p (cos(t)|00> + sin(t)|11>)(cos(t)<00| + sin(t)<11|) + (1 - p) id/4")
+    with pytest.raises(InputError, match="polynomial in the parameters"):
+        session.run("separable rho A|B")
+    text = session.run("separable rho A|B with t=pi/6")[-1].text()
+    assert "p in (-1/2 + sqrt(3)/2, 1]  entangled" in text

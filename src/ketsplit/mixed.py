@@ -263,7 +263,7 @@ def _plane_positive(conditions: list[sympy.Expr], box) -> bool:
     try:
         plane = plane_strata(conditions, lambda signs: "negative" if min(signs) < 0 else "",
                              *symbols, {s: box[s] for s in symbols}, Budget(STRATA_BUDGET))
-    except Undecidable:
+    except (Undecidable, sympy.PolynomialError):   # not polynomial in the parameters (cos t)
         return False
     for cell in plane.cells:
         if cell.verdict == "negative":
@@ -778,6 +778,10 @@ def _plane(rho: Density, coefficients: Sequence[sympy.Expr], sides: tuple[int, i
         return plane_strata(conditions, verdict, x, y, box, Budget(budget))
     except Undecidable as why:
         raise InputError(f"separability: {why}; fix one parameter with 'with'") from None
+    except sympy.PolynomialError:
+        raise InputError("separability of a two-parameter family is decided for matrices "
+                         "polynomial in the parameters (not cos t, exp t, ...); fix one parameter "
+                         "with 'with' for its thresholds in the other") from None
 
 
 def _factor_conditions(coefficients: Sequence[sympy.Expr], symbols) -> list[sympy.Expr]:
