@@ -16,7 +16,7 @@ import pytest
 import sympy
 
 import ketsplit
-from ketsplit.states import State, free_symbols, is_gaussian_rational, is_zero_number
+from ketsplit.states import State, free_symbols, is_gaussian_rational, is_zero_number, scaled_number
 
 t, u = sympy.symbols("t u", real=True)
 z = sympy.Symbol("z", complex=True)
@@ -112,3 +112,39 @@ def test_ket_parameters_are_its_symbols_with_their_declarations():
 def test_a_ket_whose_amplitudes_cancel_is_refused():
     with pytest.raises(ketsplit.InputError, match="the state is zero"):
         ketsplit.ket("(1+i)|01> - (1+i)|01>")
+
+
+def test_the_squared_norm_of_numbers_is_sympys():
+    # reference: sympy's sum of v * conjugate(v), expanded; with and without a non-Gaussian amplitude
+    values = gaussian_rationals(200, 4)
+    labels = [(k // 16, k % 16) for k in range(len(values))]
+    state = State((16, 16), dict(zip(labels, values)))
+    expected = sympy.expand(sum(v * sympy.conjugate(v) for v in values))
+    assert state.norm_squared() == expected and expected.is_Rational
+    mixed = State((16, 16), {**dict(zip(labels, values)), (15, 15): sympy.sqrt(2) * sympy.I})
+    assert mixed.norm_squared() == expected + 2
+
+
+def test_scaling_a_number_by_a_norm_writes_what_expand_writes():
+    # reference: sympy.expand(v * scale), compared structurally, for Gaussian rationals and the
+    # scales 1/sqrt(norm^2) takes (a rational, a rational times one square root) and others
+    rng = random.Random(5)
+    scales = [1 / sympy.sqrt(sympy.Rational(rng.randint(1, 10 ** 12), rng.randint(1, 999)))
+              for _ in range(40)]
+    scales += [1 / sympy.sqrt(2), sympy.sqrt(3), -sympy.sqrt(6) / 4, sympy.Rational(2, 3),
+               1 / sympy.sqrt(12), sympy.pi / 2, sympy.sqrt(2) * sympy.sqrt(5) / 7]
+    specials = [sympy.I, -sympy.I, 1 + sympy.I, sympy.Rational(1, 2) - sympy.I / 3, 7 * sympy.I]
+    for scale in scales:
+        for value in gaussian_rationals(30, rng.randint(0, 10 ** 6)) + specials:
+            assert scaled_number(value, scale) == sympy.expand(value * scale), (value, scale)
+    for value in (sympy.sqrt(2) + sympy.I, sympy.exp(sympy.I * sympy.pi / 7)):
+        assert scaled_number(value, scales[0]) == sympy.expand(value * scales[0])
+
+
+def test_normalising_a_state_of_numbers_divides_by_its_norm():
+    # reference: every amplitude times 1/sqrt(norm^2), expanded by sympy
+    state = ketsplit.ket("(3+4i)|00> + 2|01> - 5i|10> + (1-i)/2|11>")
+    scale = 1 / sympy.sqrt(sympy.Rational(25 + 4 + 25) + sympy.Rational(1, 2))
+    normal = state.normalised()
+    assert dict(normal.amplitudes) == {k: sympy.expand(v * scale) for k, v in state.amplitudes.items()}
+    assert normal.norm_squared() == 1 and normal.is_normalised()
