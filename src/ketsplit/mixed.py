@@ -46,7 +46,7 @@ from .numeric.digits import certain_count
 from .numeric.enclose import enclose
 from .numeric.stored import BallValue
 from .states import Parameter, State
-from .strata.budget import Budget
+from .strata.budget import Budget, BudgetExceeded
 from .strata.proved import Undecidable
 from .strata.separability import UNDECIDED, Plane, plane_strata
 
@@ -774,8 +774,11 @@ def _plane(rho: Density, coefficients: Sequence[sympy.Expr], sides: tuple[int, i
     for symbol, (lo, hi) in box.items():
         if compare(lo, hi).value != -1:
             raise InputError(f"the range of {symbol} is one point: give it with 'with {symbol}=...'")
+    clock = Budget(budget)
     try:
-        return plane_strata(conditions, verdict, x, y, box, Budget(budget))
+        return plane_strata(conditions, verdict, x, y, box, clock)
+    except BudgetExceeded:
+        raise clock.stopped("cutting the box of the two parameters into cells") from None
     except Undecidable as why:
         raise InputError(f"separability: {why}; fix one parameter with 'with'") from None
     except sympy.PolynomialError:
