@@ -20,7 +20,7 @@ import sympy
 from flint import ctx, fmpz_poly
 
 from .cuts import Cut, parse_cut, side_label
-from .exact.order import order_pieces, scaled
+from .exact.order import order_pieces, scaled, square
 from .exact.schmidt import nonzero_entries, schmidt_pieces, schmidt_spectrum
 from .exact.selfcheck import DecompositionError as DecompositionError  # re-exported
 from .exact.selfcheck import verify_rebuild, verify_spectrum
@@ -75,8 +75,7 @@ class Decomposition:
         if self.certified is not None:
             with ctx.workprec(self.certified.bits):
                 return [c * c for c in self.coefficients]
-        return [sympy.expand(c ** 2) if c.is_number else sympy.simplify(c ** 2)
-                for c in self.coefficients]
+        return [square(c) if c.is_number else sympy.simplify(c ** 2) for c in self.coefficients]
 
     def vector_terms(self, vector: sympy.Matrix, side: str) -> list[tuple[sympy.Expr, str]]:
         """(amplitude, label) pairs of a Schmidt vector on the left or right side."""
@@ -174,8 +173,9 @@ def schmidt(state: State, cut: Cut | str | None = None, vectors: bool = True) ->
     else:
         pieces, _ = schmidt_pieces(state, cut)
     if normal is not state:  # decompose as typed, then scale: keeps symbolic forms short
-        scale = 1 / sympy.sqrt(state.norm_squared())
-        pieces = [(scaled(sigma, scale), u, w) for sigma, u, w in pieces]
+        scale, done = 1 / sympy.sqrt(state.norm_squared()), {}
+        pieces = [(done[sigma] if sigma in done else done.setdefault(sigma, scaled(sigma, scale)), u, w)
+                  for sigma, u, w in pieces]  # equal coefficients (a sparse state's) scaled once
     box = box_of(state)
     if box:  # the declared ranges prove signs: |cos t| is cos t on [0, pi/2]
         pieces = [(drop_abs(sigma, box), u.applyfunc(lambda v: drop_abs(v, box)),
@@ -184,7 +184,7 @@ def schmidt(state: State, cut: Cut | str | None = None, vectors: bool = True) ->
         found = iter(p[0] for p in pieces)
         verify_spectrum([(block, [next(found) for _ in sigmas]) for block, sigmas in groups],
                         state.norm_squared())
-    pieces, ordered = order_pieces(pieces, box)
+    pieces, ordered = order_pieces(pieces, box, squares=spectrum_only)
     notes = []
     if normal is not state:
         notes.append(f"the state was normalised (its squared norm was {language_text(state.norm_squared())})")

@@ -21,23 +21,25 @@ psi = sum_k sigma_k |u_k>|w_k>.
 
 from __future__ import annotations
 
+from fractions import Fraction
 from itertools import combinations
 
 import sympy
 from sympy.polys.domains import EXRAW
 from sympy.polys.matrices import DomainMatrix
+from sympy.polys.matrices.sdm import SDM
 
 from ..cuts import CoefficientMatrix, Cut, check_dense
+from ..numeric.blocks import gaussian_rational
 from ..states import State, abs_squared, simplify_masked, simplify_real
 from .eigen import eigenvalues
 from .errors import NoClosedForm
 from .numbers import number_block, number_pieces, number_spectrum, root, two_row_spectrum
-from .tidy import is_zero, neat_number, tidy
+from .tidy import expanded, is_zero, neat_number, tidy
 
 Vector = sympy.Matrix
 DENSE_VECTOR_SIZE = 256  # side spaces larger than this hold Schmidt vectors sparsely
 Piece = tuple[sympy.Expr, Vector, Vector]  # (sigma, left vector, right vector) of one block
-ONE = sympy.ImmutableMatrix([[1]])
 
 
 def decompose_block(block: sympy.Matrix) -> list[Piece]:
@@ -207,13 +209,24 @@ def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]
     """All pieces of the normalised state, vectors embedded in the full side spaces."""
     matrix = CoefficientMatrix(state, cut)
     pieces: list[Piece] = []
+    left, right = matrix.shape
     for rows, cols in matrix.blocks():
         if len(rows) == len(cols) == 1:  # one amplitude a: sigma |a|, phase a/|a| (most sparse blocks)
-            found = single_piece(matrix.rows[rows[0]][cols[0]])
-        else:
-            found = decompose_block(matrix.block_matrix(rows, cols))
-        for sigma, u, w in found:
-            pieces.append((sigma, embed(u, rows, matrix.shape[0]), embed(w, cols, matrix.shape[1])))
+            sigma, phase = single_piece(matrix.rows[rows[0]][cols[0]])
+            pieces.append((sigma, column({rows[0]: sympy.S.One}, left), column({cols[0]: phase}, right)))
+            continue
+        line = line_piece([matrix.rows[i][j] for i in rows for j in cols]) if 1 in (len(rows), len(cols)) \
+            else None
+        if line is not None:  # one row or one column: rank one, its unit vector read off
+            sigma, unit = line
+            if len(rows) == 1:
+                u, w = {rows[0]: sympy.S.One}, dict(zip(cols, unit))
+            else:
+                u, w = dict(zip(rows, unit)), {cols[0]: sympy.S.One}
+            pieces.append((sigma, column(u, left), column(w, right)))
+            continue
+        for sigma, u, w in decompose_block(matrix.block_matrix(rows, cols)):
+            pieces.append((sigma, embed(u, rows, left), embed(w, cols, right)))
     return pieces, matrix.shape
 
 
@@ -226,7 +239,7 @@ def schmidt_spectrum(state: State, cut: Cut) -> list[tuple[list[list[sympy.Expr]
     for rows, cols in matrix.blocks():
         if len(rows) == len(cols) == 1:
             value = matrix.rows[rows[0]][cols[0]]
-            groups.append(([[value]], [sigma for sigma, _, _ in single_piece(value)]))
+            groups.append(([[value]], [single_piece(value)[0]]))
             continue
         block = side_rows(matrix, rows, cols)
         sigmas = two_row_spectrum(block) if len(block) == 2 else None
@@ -250,29 +263,51 @@ def side_rows(matrix: CoefficientMatrix, rows: list[int], cols: list[int]) -> li
     return dense if len(rows) <= len(cols) else [list(column) for column in zip(*dense)]
 
 
-def single_piece(value: sympy.Expr) -> list[Piece]:
-    """The piece of a 1 x 1 block: |a| as sympy writes it, and the phase a/|a|."""
+def line_piece(values: list[sympy.Expr]) -> tuple[sympy.Expr, list[sympy.Expr]] | None:
+    """A block of one row or one column of Gaussian rationals (its entries ``values``, all
+    nonzero): sigma = sqrt(sum |a|^2) and the line's unit vector a / sigma, the other side's
+    vector being 1, as :func:`ketsplit.exact.numbers.rank_one` writes them; None for other
+    entries (they take :func:`decompose_block`)."""
+    parts = [gaussian_rational(v) if not v.has(sympy.Float) else None for v in values]
+    if None in parts:
+        return None
+    weight = sum((Fraction(x) * x + Fraction(y) * y for x, y in parts), Fraction(0))
+    sigma = root(sympy.Rational(weight.numerator, weight.denominator))
+    return sigma, [expanded(v / sigma) for v in values]
+
+
+def single_piece(value: sympy.Expr) -> tuple[sympy.Expr, sympy.Expr]:
+    """(sigma, phase) of a 1 x 1 block a: |a| as sympy writes it, and a/|a| (the left vector
+    is then 1)."""
     if value.is_Rational:
-        return [(abs(value), ONE, sympy.Matrix([[sympy.sign(value)]]))]
+        return abs(value), sympy.S.One if value.p > 0 else sympy.S.NegativeOne
     size = sympy.Abs(value)
     if size.has(sympy.Abs):  # sympy cannot write |a| without Abs: the general route
-        return decompose_block(sympy.Matrix([[value]]))
+        (sigma, u, w), = decompose_block(sympy.Matrix([[value]]))
+        return sigma, w[0] * u[0]  # one piece, u w = a / sigma: its phase on the right
     phase = value / size
-    return [(size, ONE, sympy.Matrix([[phase if phase.is_Rational else tidy(phase)]]))]
+    return size, phase if phase.is_Rational else tidy(phase)
 
 
 def embed(vector: Vector, positions: list[int], size: int) -> Vector:
     """The block's vector placed in the whole side space (sparse when that space is large)."""
-    entries = {positions[k]: {0: value} for (k, _), value in vector.todok().items() if value != 0}
-    matrix = DomainMatrix(entries, (size, 1), EXRAW)  # sympy expressions as they are
+    return column({positions[k]: value for (k, _), value in vector.iter_items() if value != 0}, size)
+
+
+def column(entries: dict[int, sympy.Expr], size: int) -> Vector:
+    """A column of ``size`` rows holding ``entries`` (index: value), zero elsewhere; sparse
+    when the space is large.  Built from its representation: a sympy Matrix made from a list
+    costs ten times more, the most of a sparse state's pieces."""
+    matrix = DomainMatrix.from_rep(SDM({i: {0: value} for i, value in entries.items()}, (size, 1), EXRAW))
     if size > DENSE_VECTOR_SIZE:
         return sympy.SparseMatrix._fromrep(matrix)
     return sympy.Matrix._fromrep(matrix.to_dense())
 
 
 def nonzero_entries(vector: Vector) -> list[tuple[int, sympy.Expr]]:
-    """(index, value) of the nonzero entries, without walking a large vector entry by entry."""
-    return sorted((i, v) for (i, _), v in vector.todok().items() if v != 0)
+    """(index, value) of the nonzero entries, without walking a large vector entry by entry
+    (``iter_items`` reads the representation: ``todok`` would convert it, ten times slower)."""
+    return sorted((i, v) for (i, _), v in vector.iter_items() if v != 0)
 
 
 def inner(a: Vector, b: Vector) -> sympy.Expr:

@@ -76,7 +76,7 @@ def verify_spectrum(groups: list[tuple[list[list[sympy.Expr]], list[sympy.Expr]]
             if not value.contains(0):
                 raise DecompositionError(f"the Schmidt coefficients are not the spectrum of their "
                                          f"block (a power sum differs by {value})")
-        if all(_narrow(v, arb(1)) for v in values):
+        if all(_narrow(v, NARROW) for v in values):
             return
     raise DecompositionError(f"the spectrum residual is not narrow at {LADDER[-1]} bits")
 
@@ -120,7 +120,8 @@ def check_at(point: dict, decomposition, strict: bool = True) -> bool:
             if not value.contains(0):
                 raise DecompositionError(f"the Schmidt pieces do not rebuild the state at "
                                          f"{_text(point)} (a residual lies in {value})")
-        if all(_narrow(v, size) for v in values):
+        bound = NARROW * size
+        if all(_narrow(v, bound) for v in values):
             return True
     if not finite and not strict:
         return False
@@ -137,14 +138,17 @@ def residual_balls(point: dict, decomposition, bits: int) -> tuple[list[acb], ar
     """
     state, cut = decomposition.state, decomposition.cut
     encloser = Encloser(bits)
+    ball = encloser.ball  # the values are sympy numbers already: one precision context for all
     try:
-        for symbol, value in point.items():
-            encloser.memo[symbol] = encloser(value)
-        amplitudes = {(side_index(label, cut.left, state.dims), side_index(label, cut.right, state.dims)):
-                      encloser(amp) for label, amp in state.amplitudes.items()}
-        pieces = [(encloser(sigma), [(i, encloser(v)) for i, v in nonzero_entries(u)],
-                   [(j, encloser(v)) for j, v in nonzero_entries(w)])
-                  for sigma, u, w in zip(decomposition.coefficients, decomposition.left, decomposition.right)]
+        with ctx.workprec(bits):
+            for symbol, value in point.items():
+                encloser.memo[symbol] = ball(value)
+            amplitudes = {(side_index(label, cut.left, state.dims), side_index(label, cut.right, state.dims)):
+                          ball(amp) for label, amp in state.amplitudes.items()}
+            pieces = [(ball(sigma), [(i, ball(v)) for i, v in nonzero_entries(u)],
+                       [(j, ball(v)) for j, v in nonzero_entries(w)])
+                      for sigma, u, w in zip(decomposition.coefficients, decomposition.left,
+                                             decomposition.right)]
     except (ZeroDivisionError, ValueError):
         return None
     residual = {key: -value for key, value in amplitudes.items()}
@@ -177,8 +181,9 @@ def gram_balls(vectors: list[list[tuple[int, acb]]]) -> list[acb]:
     return out
 
 
-def _narrow(value: acb, size: arb) -> bool:
-    return bool(value.real.rad() <= NARROW * size) and bool(value.imag.rad() <= NARROW * size)
+def _narrow(value: acb, bound: arb) -> bool:
+    """Both parts' radii at most ``bound`` (NARROW times the size of the entries)."""
+    return bool(value.real.rad() <= bound) and bool(value.imag.rad() <= bound)
 
 
 def random_point(state: State, rng: random.Random) -> dict[sympy.Symbol, sympy.Expr]:
