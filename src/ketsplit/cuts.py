@@ -150,8 +150,13 @@ class CoefficientMatrix:
             matrix[i, j] = value
         return matrix
 
-    def blocks(self) -> list[tuple[list[int], list[int]]]:
-        """Connected pieces of the bipartite graph of nonzero entries: (rows, columns)."""
+    def blocks(self) -> tuple[tuple[list[int], list[int]], ...]:
+        """Connected pieces of the bipartite graph of nonzero entries: (rows, columns), found
+        once per matrix (the planner and the route that answers both ask)."""
+        return self._blocks
+
+    @cached_property
+    def _blocks(self) -> tuple[tuple[list[int], list[int]], ...]:
         parent: dict[tuple[str, int], tuple[str, int]] = {}
 
         def find(node):
@@ -169,7 +174,7 @@ class CoefficientMatrix:
             rows, cols = groups.setdefault(find(("r", i)), (set(), set()))
             rows.add(i)
             cols.add(j)
-        return sorted(((sorted(r), sorted(c)) for r, c in groups.values()), key=lambda rc: rc[0])
+        return tuple(sorted(((sorted(r), sorted(c)) for r, c in groups.values()), key=lambda rc: rc[0]))
 
     def block_matrix(self, rows: list[int], cols: list[int]) -> sympy.Matrix:
         """The dense block on ``rows`` x ``cols``, read from the entries of those rows only."""
@@ -197,7 +202,12 @@ def check_dense(entries: int, what: str) -> None:
 
 
 def coefficient_matrix(state: State, cut: Cut) -> CoefficientMatrix:
-    return CoefficientMatrix(state, cut)
+    """The state's coefficient matrix across ``cut``, made once per state and cut (kept in the
+    state's cache: the planner, the exact and the certified route share it)."""
+    key = ("coefficient matrix", cut)
+    if key not in state._cache:
+        state._cache[key] = CoefficientMatrix(state, cut)
+    return state._cache[key]
 
 
 def reduced(state: State, keep: tuple[int, ...] | str) -> sympy.Matrix:

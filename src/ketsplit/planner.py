@@ -34,7 +34,7 @@ from typing import Literal
 
 import flint
 
-from .cuts import CoefficientMatrix, Cut
+from .cuts import CoefficientMatrix, Cut, coefficient_matrix
 from .exact.numbers import field_degree_bound
 from .numeric.blocks import gaussian_rational
 from .states import State
@@ -71,7 +71,7 @@ def plan(state: State, cut: Cut, method: str = "auto") -> Plan:
         return Plan("symmetric", "a permutation-symmetric state keeps its Dicke basis")
     if state.symbols:
         return Plan("exact", "the state has free parameters: closed forms in them")
-    return _plan_numbers(CoefficientMatrix(state, cut))
+    return _plan_numbers(coefficient_matrix(state, cut))
 
 
 def _plan_numbers(matrix: CoefficientMatrix) -> Plan:

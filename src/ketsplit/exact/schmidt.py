@@ -29,7 +29,7 @@ from sympy.polys.domains import EXRAW
 from sympy.polys.matrices import DomainMatrix
 from sympy.polys.matrices.sdm import SDM
 
-from ..cuts import CoefficientMatrix, Cut, check_dense
+from ..cuts import CoefficientMatrix, Cut, check_dense, coefficient_matrix
 from ..numeric.blocks import gaussian_rational
 from ..states import State, abs_squared, simplify_masked, simplify_real
 from .eigen import eigenvalues
@@ -207,7 +207,7 @@ def orthonormalise(vectors: list[Vector]) -> list[Vector]:
 
 def schmidt_pieces(state: State, cut: Cut) -> tuple[list[Piece], tuple[int, int]]:
     """All pieces of the normalised state, vectors embedded in the full side spaces."""
-    matrix = CoefficientMatrix(state, cut)
+    matrix = coefficient_matrix(state, cut)
     pieces: list[Piece] = []
     left, right = matrix.shape
     for rows, cols in matrix.blocks():
@@ -234,7 +234,7 @@ def schmidt_spectrum(state: State, cut: Cut) -> list[tuple[list[list[sympy.Expr]
     """Per block: the block as rows (its smaller side as the rows) and its Schmidt
     coefficients, without vectors (two rows of Gaussian rationals in rational arithmetic,
     other blocks of numbers by :func:`ketsplit.exact.numbers.number_spectrum`)."""
-    matrix = CoefficientMatrix(state, cut)
+    matrix = coefficient_matrix(state, cut)
     groups = []
     for rows, cols in matrix.blocks():
         if len(rows) == len(cols) == 1:

@@ -22,7 +22,7 @@ from typing import Mapping
 import mpmath
 from flint import arb, ctx
 
-from ..cuts import CoefficientMatrix, Cut, parse_cut
+from ..cuts import CoefficientMatrix, Cut, coefficient_matrix, parse_cut
 from ..base.errors import LimitError
 from ..states import State
 from ..symmetric import SymmetricState, dicke_split
@@ -59,7 +59,7 @@ def certified_decomposition(state: State, cut: Cut | str | None = None, digits: 
         state = at_point(state, at)  # a parameter left without a value is met when enclosing
     if not isinstance(cut, Cut):
         cut = parse_cut(cut, state)
-    matrix = CoefficientMatrix(state, cut)
+    matrix = coefficient_matrix(state, cut)
     blocks = split_blocks(matrix)
     for block in blocks:
         block.check_size()
