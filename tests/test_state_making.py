@@ -16,6 +16,8 @@ import pytest
 import sympy
 
 import ketsplit
+from ketsplit.language import numbers
+from ketsplit.language.values import times
 from ketsplit.states import State, free_symbols, is_gaussian_rational, is_zero_number, scaled_number
 
 t, u = sympy.symbols("t u", real=True)
@@ -148,3 +150,30 @@ def test_normalising_a_state_of_numbers_divides_by_its_norm():
     normal = state.normalised()
     assert dict(normal.amplitudes) == {k: sympy.expand(v * scale) for k, v in state.amplitudes.items()}
     assert normal.norm_squared() == 1 and normal.is_normalised()
+
+
+def test_a_number_times_a_square_root_is_sympys_product():
+    # reference: sympy's own product to_sympy(g) * f, compared structurally, for Gaussian
+    # rationals g (zero parts, denominators, +-1) and factors c sqrt(m) as sympy writes them
+    rng = random.Random(11)
+    factors = [1 / sympy.sqrt(3), sympy.sqrt(2) / 2, sympy.sqrt(2), -sympy.sqrt(6) / 4,
+               -1 / sympy.sqrt(5), 3 * sympy.sqrt(7), sympy.pi / 3, sympy.Rational(2, 5), t]
+    factors += [1 / sympy.sqrt(sympy.Rational(rng.randint(1, 10 ** 9), rng.randint(1, 999)))
+                for _ in range(20)]
+    for factor in factors:
+        for _ in range(60):
+            size = rng.choice([1, 2, 3, 10 ** rng.randint(0, 8)])
+            g = numbers.reduced(rng.choice([0, 1, -1, rng.randint(-size, size)]),
+                                rng.choice([0, 1, -1, rng.randint(-size, size)]),
+                                rng.choice([1, 2, 3, rng.randint(1, size)]))
+            expected = numbers.to_sympy(g) * factor
+            assert times(g, factor) == expected == times(factor, g), (g, factor)
+
+
+def test_a_sum_times_a_square_root_reads_as_sympy_computes_it():
+    # reference: sympy's arithmetic on the same coefficients
+    state = ketsplit.ket("1/sqrt(3) ((2+i)|00> - 3i|01> + 5|10> + (1-i)/4|11>)")
+    root = 1 / sympy.sqrt(3)
+    i = sympy.I
+    assert dict(state.amplitudes) == {(0, 0): (2 + i) * root, (0, 1): -3 * i * root,
+                                      (1, 0): 5 * root, (1, 1): (1 - i) / 4 * root}

@@ -16,10 +16,10 @@ from typing import Iterable, Mapping
 
 import sympy
 from sympy.core.add import Add, _addsort
-from sympy.core.mul import Mul, _mulsort
 
 from .language.build import KetValue
 from .language.coerce import as_expr
+from .language.numbers import is_square_root, monomial
 from .base.errors import InputError
 from .language.printer import text as language_text
 
@@ -346,30 +346,20 @@ def scaled_number(value: sympy.Expr, scale: sympy.Expr) -> sympy.Expr:
     """``expand(value * scale)`` for a number ``value``, the same expression.
 
     A Gaussian rational p + q i times c sqrt(m) (what 1/sqrt of a rational norm
-    is) is written directly: the terms p c sqrt(m) and q c sqrt(m) i, ordered by
-    sympy's own sorts of factors and terms, as its Mul and Add would make them
-    (tests/test_state_making.py compares with expand).  expand's walk costs about
-    a millisecond an amplitude, which normalising a state of 2^14 numbers felt."""
+    is) is written directly: the terms p c sqrt(m) and q c sqrt(m) i, made as
+    sympy's Mul and Add would make them (tests/test_state_making.py compares
+    with expand).  expand's walk costs about a millisecond an amplitude, which
+    normalising a state of 2^14 numbers felt."""
     parts = gaussian_parts(value)
     if parts is None:
         return sympy.expand(value * scale)
     coefficient, root = scale.as_coeff_Mul()
-    if not (root.is_Pow and root.exp is sympy.S.Half and root.base.is_Integer and root.base > 1):
+    if not is_square_root(root):
         return parts[0] * scale + parts[1] * scale * sympy.I
-    terms = [_monomial(part * coefficient, factors)
+    terms = [monomial(part * coefficient, factors)
              for part, factors in zip(parts, ((root,), (root, sympy.I))) if part]
     _addsort(terms)
     return Add._from_args(tuple(terms), True)
-
-
-def _monomial(coefficient: sympy.Rational, factors: tuple[sympy.Expr, ...]) -> sympy.Expr:
-    """coefficient * factors as sympy's Mul writes it: factors in its order, a coefficient
-    of 1 left out."""
-    args = list(factors)
-    _mulsort(args)
-    if coefficient is not sympy.S.One:
-        args.insert(0, coefficient)
-    return Mul._from_args(tuple(args), True)
 
 
 def rebuild_value(cls: type, values: dict):

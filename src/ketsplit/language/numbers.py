@@ -16,7 +16,7 @@ from typing import NamedTuple
 
 import sympy
 from sympy.core.add import Add
-from sympy.core.mul import Mul
+from sympy.core.mul import Mul, _mulsort
 
 
 class Gaussian(NamedTuple):
@@ -134,3 +134,38 @@ def to_sympy(a: Gaussian) -> sympy.Expr:
     total = _NEW_BASIC(Add, real, imaginary)
     total.is_commutative = True
     return total
+
+
+def times_square_root(a: Gaussian, factor: sympy.Expr) -> sympy.Expr | None:
+    """``to_sympy(a) * factor`` when ``factor`` is c sqrt(m) (c rational, m an integer > 1,
+    as 1/sqrt(3) or sqrt(2)/2 are written), made directly; None for any other factor.
+
+    sympy's Mul would flatten and sort the product again for every term of a
+    long sum (tens of microseconds each); its result has one of three shapes,
+    (c re) sqrt(m), (c im) I sqrt(m) or c sqrt(m) (re + im I), written here
+    with sympy's own order of factors (tests/test_state_making.py compares)."""
+    coefficient, root = factor.as_coeff_Mul()
+    if not (coefficient.is_Rational and is_square_root(root)):
+        return None
+    if not a.im:
+        return monomial(to_sympy(a) * coefficient, (root,))
+    if not a.re:
+        return monomial(to_sympy(Gaussian(a.im, 0, a.den)) * coefficient, (_I, root))
+    return monomial(coefficient, (root, to_sympy(a)))
+
+
+def is_square_root(value: sympy.Expr) -> bool:
+    """Whether ``value`` is sqrt(m) for an integer m > 1 (sympy keeps m free of squares)."""
+    return value.is_Pow and value.exp is sympy.S.Half and value.base.is_Integer and value.base > 1
+
+
+def monomial(coefficient: sympy.Rational, factors: tuple[sympy.Expr, ...]) -> sympy.Expr:
+    """coefficient * factors as sympy's Mul writes it (factors commuting, none a number, no
+    two of one base): the factors in its order, after a coefficient other than 1."""
+    if not coefficient:
+        return sympy.S.Zero
+    args = list(factors)
+    _mulsort(args)
+    if coefficient is not _ONE:
+        args.insert(0, coefficient)
+    return Mul._from_args(tuple(args), True)

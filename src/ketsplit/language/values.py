@@ -53,15 +53,18 @@ def plus(a: Scalar, b: Scalar) -> Scalar:
 
 
 def times(a: Scalar, b: Scalar) -> Scalar:
-    """a b; a factor that is exactly 1 (a basis ket's coefficient) leaves the other as it is."""
     if type(a) is Gaussian:
-        if type(b) is Gaussian:
-            return numbers.multiply(a, b)
-        if a == numbers.ONE:
-            return b
-    elif type(b) is Gaussian and b == numbers.ONE:
-        return a
-    return to_sympy(a) * to_sympy(b)
+        return numbers.multiply(a, b) if type(b) is Gaussian else gaussian_times(a, b)
+    return gaussian_times(b, a) if type(b) is Gaussian else a * b
+
+
+def gaussian_times(a: Gaussian, b: sympy.Expr) -> sympy.Expr:
+    """a b for a sympy ``b``: b itself when a is exactly 1 (a basis ket's coefficient), made
+    directly when b is c sqrt(m) (1/sqrt(3) over a long sum), else sympy's product."""
+    if a == numbers.ONE:
+        return b
+    product = numbers.times_square_root(a, b)
+    return product if product is not None else numbers.to_sympy(a) * b
 
 
 def reciprocal(a: Scalar) -> Scalar:
