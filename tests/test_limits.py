@@ -12,13 +12,14 @@ from __future__ import annotations
 import os
 import subprocess
 import sys
+import threading
 import time
 from pathlib import Path
 
 import pytest
 
 import ketsplit
-from ketsplit import InputError, LimitError, Session, limits
+from ketsplit import InputError, LimitError, Session, limits, timebudget
 
 
 @pytest.fixture(autouse=True)
@@ -275,3 +276,111 @@ def test_every_budget_a_message_mentions_can_be_set_by_a_statement():
     assert "strata_budget" in session.run("help")[0].text()
     with pytest.raises(InputError, match="expected seconds"):
         session.run("strata_budget 60*x")
+
+
+# -- the memory ceiling (issue 16) ----------------------------------------------------------------
+
+# 160,000 basis kets: several hundred bytes each in dicts and sympy numbers (measured here: a
+# million of them take about 400 MB), far more than 16 MiB, far fewer than the limit terms
+GROWING = "x = sum(a=0..399, sum(b=0..399, (a + b)|a,b>))"
+
+
+def test_a_statement_over_its_memory_ceiling_is_stopped_and_changes_nothing():
+    session = Session()
+    session.run("x = |00> + |11>; limits memory=16")
+    before = dict(session.bindings)
+    with pytest.raises(LimitError) as info:
+        session.run(GROWING)
+    assert_names(info.value, "memory")
+    assert "of memory" in info.value.message and info.value.span.line == 1
+    assert session.bindings == before
+    assert session.run("rank x")[0].report.items[0].value == 2
+
+
+def test_memory_zero_switches_the_ceiling_off():
+    session = Session()
+    session.run("limits memory=0")
+    with timebudget.memory_watched(session.limits.memory) as watched:
+        assert watched is False
+
+
+def test_the_api_has_the_same_memory_ceiling():
+    with limits.limits_set(memory=16), pytest.raises(LimitError) as info:
+        ketsplit.ket(GROWING.removeprefix("x = "))
+    assert "limit memory = 16" in info.value.message
+
+
+def test_an_inner_watch_leaves_the_ceiling_to_the_outer_one_and_threads_run_unwatched():
+    seen = []
+    with timebudget.memory_watched(64) as outer:
+        with timebudget.memory_watched(1) as inner:
+            seen.append((outer, inner))
+        worker = threading.Thread(target=lambda: seen.append(
+            timebudget.memory_watched(64).__enter__()))
+        worker.start()
+        worker.join()
+    assert seen == [(True, False), False]
+
+
+def test_a_swallowed_stop_is_raised_again_until_the_block_ends():
+    caught = 0
+    with pytest.raises(timebudget.StatementOverMemory):
+        with timebudget.memory_watched(8):
+            hoard = []
+            while True:  # a careless bare except swallows the first stop, not the next
+                try:
+                    hoard.append(bytearray(1 << 20))
+                    hoard[-1][::4096] = b"x" * 256  # touch the pages: they become resident
+                except BaseException:
+                    caught += 1
+                    if caught > 1:
+                        raise
+    assert caught == 2
+
+
+PEAK = """
+import time
+import ketsplit
+from ketsplit import InputError
+started = time.monotonic()
+try:
+    {call}
+    outcome = "value"
+except InputError as err:
+    outcome = type(err).__name__ + ": " + err.message
+# the peak of this program's own memory map (ru_maxrss would count the parent's at the fork)
+status = open("/proc/self/status").read()
+peak = int(status.split("VmHWM:")[1].split()[0]) * 1024
+print(outcome)
+print(peak, time.monotonic() - started)
+"""
+
+
+def peak_of(call: str) -> tuple[str, int]:
+    """(outcome, peak resident bytes) of ``call`` in a fresh interpreter."""
+    done = subprocess.run([sys.executable, "-c", PEAK.format(call=call)], capture_output=True,
+                          text=True, timeout=280)
+    outcome, numbers = done.stdout.strip().splitlines()[-2:]
+    return outcome, int(numbers.split()[0])
+
+
+@pytest.mark.skipif(sys.platform != "linux", reason="VmHWM in /proc/self/status, as on Linux")
+@pytest.mark.parametrize("call, limit", [
+    # issue 16: grew to 1.4 GB until the 600 s time limit; now refused after its first term
+    ('ketsplit.Session().run("x = sum(a=0..9999, sum(b=0..9999, |a,b>))")', "terms"),
+    # issue 16: 39 s and 0.8 GB before the refusal; C(24, 12) = 2704156 kets are counted first
+    ('ketsplit.Session().run("dicke(24,12)|1>")', "terms"),
+])
+def test_the_statements_that_exhausted_memory_are_refused_within_the_ceiling(call, limit):
+    outcome, peak = peak_of(call)
+    assert outcome.startswith("LimitError") and f"limit {limit} = " in outcome, outcome
+    assert peak < limits.Limits().memory << 20
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(sys.platform != "linux", reason="VmHWM in /proc/self/status, as on Linux")
+def test_a_long_sum_in_the_api_stays_within_the_ceiling():
+    # issue 16: ran past 120 s with no time limit in the API
+    outcome, peak = peak_of('ketsplit.ket("sum(n=0..99999, t^(n/100)|0>) + |1>")')
+    assert outcome == "value" or "limit seconds" in outcome, outcome
+    assert peak < limits.Limits().memory << 20

@@ -36,7 +36,6 @@ from .render.files import write_requested
 from .render.results import ShownResult, shown
 from .sheets import statements as _file_statements  # noqa: F401  (registers save and open)
 from .states import State
-from .timebudget import time_limited
 
 Function = TypeVar("Function", bound=Callable)
 
@@ -55,11 +54,10 @@ class Session(_session.Session):
 
 
 def bounded(function: Function) -> Function:
-    """``function`` under the time limit ``seconds``, like a statement of the shell."""
+    """``function`` under the time limit and the memory ceiling, like a statement of the shell."""
     @functools.wraps(function)
     def within_limit(*args, **kwargs):
-        seconds = limits.current().seconds
-        with time_limited(seconds, lambda: limits.over_time(seconds)):
+        with limits.enforced():
             return function(*args, **kwargs)
     return within_limit
 
@@ -157,10 +155,20 @@ def session_for(*, real=(), positive=(), complex=(), integer=(), ranges=None, di
 
 
 def _bound(session: Session, value) -> sympy.Expr:
+    """A range bound: a real constant, given as a number or in state-language text."""
     if isinstance(value, str):
-        return session.evaluate(value)
-    return sympy.nsimplify(value) if isinstance(value, float) else sympy.Integer(value) \
-        if isinstance(value, int) else value
+        found = session.evaluate(value)
+    elif isinstance(value, float) and math.isfinite(value):
+        found = sympy.nsimplify(value)
+    elif isinstance(value, int) and not isinstance(value, bool):
+        found = sympy.Integer(value)
+    elif isinstance(value, sympy.Expr):
+        found = value
+    else:
+        found = None
+    if not isinstance(found, sympy.Expr) or not found.is_number or not found.is_real:
+        raise InputError(f"a range bound must be a real constant, found {value!r}")
+    return found
 
 
 @bounded

@@ -27,6 +27,11 @@ min_digits         5           smallest precision accepted by ``digits``
 max_digits         10000       largest precision accepted by ``digits``
 seconds            600         wall-clock seconds one statement may run before it
                                is stopped (0 switches the limit off)
+memory             1024        MiB of resident memory one statement may add to the
+                               process before it is stopped (0 switches the limit
+                               off); sampled by ketsplit.timebudget every 10 ms of
+                               CPU time in the main thread, beside the size limits
+                               above, which refuse large objects before they exist
 =================  ==========  ==================================================
 
 How to change them (each Session holds its own; new Sessions start from the defaults):
@@ -51,6 +56,7 @@ from dataclasses import asdict, dataclass, fields, replace
 from typing import Iterator
 
 from .base.errors import LimitError, Span
+from .timebudget import statement_limited
 
 ENVIRONMENT = "KETSPLIT_LIMITS"
 
@@ -72,6 +78,7 @@ class Limits:
     min_digits: int = 5
     max_digits: int = 10_000
     seconds: float = 600.0
+    memory: int = 1024
 
     def __post_init__(self) -> None:
         for item in fields(self):
@@ -103,6 +110,7 @@ MEANINGS = {  # one line each, for the 'limits' table
     "min_digits": "smallest precision for 'digits'",
     "max_digits": "largest precision for 'digits'",
     "seconds": "seconds one statement may run (0: no limit)",
+    "memory": "MiB of memory one statement may add (0: no limit)",
 }
 
 
@@ -174,6 +182,23 @@ def over_time(seconds: float, span: Span | None = None, source: str | None = Non
     """The error of a computation stopped by the time limit (statements and the Python API)."""
     return LimitError(f"stopped after {seconds:g} s: the computation ran longer than "
                       f"{how_to_change('seconds')}; it had no effect", span, source)
+
+
+def over_memory(used: int, span: Span | None = None, source: str | None = None) -> LimitError:
+    """The error of a computation stopped by the memory ceiling (statements and the API)."""
+    return LimitError(f"stopped after taking {used >> 20} MiB of memory: the computation needed "
+                      f"more than {how_to_change('memory')}; it had no effect", span, source)
+
+
+@contextmanager
+def enforced(span: Span | None = None, source: str | None = None) -> Iterator[None]:
+    """Run a block (a statement, an API call) under the time limit and the memory ceiling
+    in force, each stopping it with its LimitError."""
+    found = current()
+    with statement_limited(found.seconds, found.memory,
+                           lambda: over_time(found.seconds, span, source),
+                           lambda used: over_memory(used, span, source)):
+        yield
 
 
 def refuse(what: str, name: str, span: Span | None = None, source: str | None = None) -> LimitError:

@@ -20,7 +20,6 @@ from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue
 from . import limits
 from .base.errors import InputError, LimitError, Span
 from .language.tokens import Kind, tokenize
-from .timebudget import time_limited
 from .base.document import Report
 from .commands import COMMANDS, dispatch
 from .commands.registry import Result
@@ -114,10 +113,8 @@ class Session:
 
     def execute(self, statement: str, line: int = 1) -> Result:
         """Run one statement; on an InputError the session is unchanged."""
-        seconds = self.limits.seconds
         try:
-            with limits.using(self.limits), time_limited(
-                    seconds, lambda: limits.over_time(seconds, Span(line, 1, len(statement)), statement)):
+            with limits.using(self.limits), limits.enforced(Span(line, 1, len(statement)), statement):
                 return dispatch(self, statement, line)
         except InputError as err:
             raise relocate(err, statement, line) from None
