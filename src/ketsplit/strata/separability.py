@@ -101,7 +101,7 @@ class Plane:
     y: sympy.Symbol
     cells: tuple[Cell, ...]
     boundary: tuple[sympy.Expr, ...]   # the curves f = 0 between cells of different verdicts
-    critical: tuple[sympy.Expr, ...]   # the critical values of x inside its range
+    critical: tuple[sympy.Expr, ...]   # the values of x inside its range where columns meet
 
     @property
     def verdicts(self) -> set[str]:
@@ -125,8 +125,9 @@ def plane_strata(conditions: Sequence[sympy.Expr], verdict: Verdict, x: sympy.Sy
             cells.extend(_column(factors, judge, end, ends[k + 1], (y_lo, y_hi)))
     cells = _joined(cells)
     boundary = _boundary(cells) + _vertical_boundary(cells, factors, x)
-    return Plane(x, y, tuple(_merged_columns(cells, x)), tuple(dict.fromkeys(boundary)),
-                 tuple(critical))
+    cells = _merged_columns(cells, x)
+    kept = tuple(v for v in critical if any(c.on_line and c.x_lo == v for c in cells))
+    return Plane(x, y, tuple(cells), tuple(dict.fromkeys(boundary)), kept)
 
 
 # -- projection ------------------------------------------------------------------------
