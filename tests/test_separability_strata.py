@@ -157,12 +157,7 @@ def test_two_by_three_family_samples_against_numpy():
     matrix = maximally_entangled_family(2, 3)
     found = mixed.separability(mixed.density(matrix, (2, 3), params=PARAMS), CUT)
     assert found.decisive
-    assert {c.verdict for c in found.plane.cells} <= {"separable", "entangled", UNDECIDED}
-    decided = [c for c in found.plane.cells if c.verdict != UNDECIDED]
-    assert all(c.on_line for c in found.plane.cells if c.verdict == UNDECIDED)
-    for cell in decided:
-        smallest = numpy_min_eigenvalue(matrix, (2, 3), cell.sample)
-        assert (smallest < -1e-12) == (cell.verdict == "entangled"), cell
+    check_samples_against_numpy(found, matrix, (2, 3), "entangled")
     quarter = [c for c in found.plane.cells if c.on_line and c.x_lo == sympy.Rational(1, 4)]
     assert quarter[0].y_lo == 0 and quarter[0].verdict == "separable"
 
@@ -230,3 +225,19 @@ def test_angle_families_are_refused_with_a_hint_not_a_traceback():
         session.run("separable rho A|B")
     text = session.run("separable rho A|B with t=pi/6")[-1].text()
     assert "p in (-1/2 + sqrt(3)/2, 1]  entangled" in text
+
+
+def test_two_entangled_states_on_two_by_three_every_cell_decided():
+    # p|psi><psi| + q|phi><phi| + (1-p-q) I/6, psi ~ |00> + |11>, phi ~ |01> + 2|12>: the
+    # boundary curves cross at algebraic points (cubic critical values), decided exactly there
+    # (the crossing's coordinates lie in one field QQ(c)); reference for every sample: numpy
+    def normalised(v: sympy.Matrix) -> sympy.Matrix:
+        return v / sympy.sqrt((v.H * v)[0])
+    psi = normalised(sympy.Matrix([1, 0, 0, 0, 1, 0]))
+    phi = normalised(sympy.Matrix([0, 1, 0, 0, 0, 2]))
+    matrix = p * projector(psi) + q * projector(phi) + (1 - p - q) * sympy.eye(6) / 6
+    half = (sympy.Integer(0), sympy.Rational(1, 2))
+    params = [Parameter("p", "real", half), Parameter("q", "real", half)]
+    found = mixed.separability(mixed.density(matrix, (2, 3), params=params), CUT)
+    assert any(c.x_lo.has(sympy.CRootOf) for c in found.plane.cells if c.on_line)
+    check_samples_against_numpy(found, matrix, (2, 3), "entangled")

@@ -206,19 +206,29 @@ class _Judge:
 
 
 def _vanishes(c: sympy.Expr, point: Point) -> bool:
-    """c is proved zero at a point with at most one irrational coordinate v: c at the other
-    coordinates is a polynomial h in that one, and h(v) = 0 iff the minimal polynomial of v
-    divides h (exact division over QQ); False when not proved so."""
-    irrational = [s for s, v in point.items() if not v.is_Rational]
-    if len(irrational) > 1:
-        return False
+    """c is proved zero at an exact point whose coordinates lie in QQ(g) for one algebraic
+    number g (a CRootOf or a square root; a root found over a critical line is written so):
+    with g a variable z, c is a rational function N/D of z and c = 0 there iff the minimal
+    polynomial of g divides N (exact division over QQ).  False when not proved so."""
     value = sympy.expand(c.xreplace(point))
-    if not irrational or value == 0:
-        return value == 0
-    (symbol,) = irrational
-    rest = sympy.expand(c.xreplace({s: v for s, v in point.items() if s != symbol}))
-    minimal = sympy.minimal_polynomial(point[symbol], symbol)
-    return sympy.rem(rest, minimal, symbol) == 0
+    if value == 0:
+        return True
+    generators = set().union(*(_generators(v) for v in point.values()))
+    if len(generators) != 1:
+        return False
+    (generator,) = generators
+    z = sympy.Dummy("z")
+    numerator, _ = sympy.fraction(sympy.together(c.xreplace(
+        {s: v.xreplace({generator: z}) for s, v in point.items()})))
+    if numerator.has(generator) or not numerator.is_polynomial(z):
+        return False
+    return sympy.rem(sympy.expand(numerator), sympy.minimal_polynomial(generator, z), z) == 0
+
+
+def _generators(value: sympy.Expr) -> set[sympy.Expr]:
+    """The algebraic atoms of an exact number: its CRootOfs and its square roots."""
+    return set(value.atoms(sympy.CRootOf)) | {a for a in value.atoms(sympy.Pow)
+                                               if a.exp == sympy.Rational(1, 2)}
 
 
 def _point_text(point: Point) -> str:
