@@ -209,9 +209,12 @@ def certain_text(ball: arb, digits: int) -> str:
     A ball that contains zero has no certain digit: its text is an upper
     bound on the absolute value instead, such as ``|x| < 3e-85``.
     """
+    return _text(ball, certain_decimal(ball, digits))
+
+
+def _text(ball: arb, found: Rounded | None) -> str:
     if ball.is_exact() and ball.is_zero():
         return "0"
-    found = certain_decimal(ball, digits)
     return found.text() if found is not None else zero_bound_text(ball)
 
 
@@ -222,5 +225,7 @@ def certain_count(ball: arb, digits: int) -> int:
 
 
 def digits_cell(ball: arb, digits: int, exact=None) -> Digits:
-    """A report cell: the certain digits of ``ball``, beside its exact value when known."""
-    return Digits(certain_text(ball, digits), certain_count(ball, digits), exact)
+    """A report cell: the certain digits of ``ball`` (found once), beside its exact value
+    when known."""
+    found = certain_decimal(ball, digits)
+    return Digits(_text(ball, found), len(found.digits) if found is not None else 0, exact)
