@@ -12,7 +12,6 @@ from ..language.build import Builder, KetValue, is_scalar, kind_of
 from ..base.errors import InputError, Span
 from ..language.statements import (NAME, Declaration, Word, leading_words, parse_declaration,
                                    parse_space)
-from ..language.printer import ket_text
 from ..base.document import Field, Kets, Note, Report
 from ..language.printer import label_text
 from ..language.printer import text as language_text

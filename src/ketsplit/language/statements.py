@@ -217,10 +217,6 @@ class Expression:
     start: int
     line: int
 
-    @property
-    def span(self) -> Span:
-        return Span(self.line, self.start + 1, max(1, len(self.text)))
-
 
 @dataclass(frozen=True)
 class Words:
