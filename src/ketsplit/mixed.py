@@ -342,7 +342,7 @@ def spectrum(matrix: sympy.MatrixBase, digits: int = 30) -> Spectrum:
     coefficients = charpoly_coefficients(matrix)
     if all(c.is_Rational for c in coefficients):
         poly = flint.fmpq_poly([flint.fmpq(int(c.p), int(c.q)) for c in reversed(coefficients)])
-        return _rational_spectrum(poly.factor()[1], digits)
+        return _rational_spectrum([(f / f.coeffs()[-1], e) for f, e in poly.factor()[1]], digits)
     if matrix.rows <= 2:  # a quadratic: closed forms in radicals
         poly = sympy.Poly(coefficients, sympy.Dummy("x"))
         return Spectrum(tuple((root, 1) for root in solve_factor(poly)), True)
@@ -350,17 +350,17 @@ def spectrum(matrix: sympy.MatrixBase, digits: int = 30) -> Spectrum:
 
 
 def _rational_spectrum(factors: list[tuple[flint.fmpq_poly, int]], digits: int) -> Spectrum:
-    """From the irreducible factors over QQ: closed forms up to degree 2, else certified balls
-    (the factors of those are kept, in x, to be shown)."""
+    """From the monic irreducible factors over QQ: closed forms up to degree 2, else certified
+    balls (the factors of those are kept, in x, to be shown)."""
     x = sympy.Symbol("x")
     values: list[tuple[Number, int]] = []
     shown = []
     for factor, power in factors:
         in_x = sympy.Poly([sympy.Rational(int(c.p), int(c.q)) for c in reversed(factor.coeffs())], x)
         if factor.degree() <= 2:
-            values.extend((root, power) for root in solve_factor(in_x.monic()))
+            values.extend((root, power) for root in solve_factor(in_x))
             continue
-        shown.append(in_x.monic().as_expr())
+        shown.append(in_x.as_expr())
         values.extend((ball, power) for ball in _factor_roots(factor, digits))
     return Spectrum(tuple(values), not shown, factors=tuple(shown))
 
