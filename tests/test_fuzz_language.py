@@ -16,17 +16,14 @@ About 450 examples in all by default, deterministic.  For a long random run:
 
 from __future__ import annotations
 
-import json
 import os
-import signal
-import tempfile
-from contextlib import contextmanager
 
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from ketsplit import InputError, Session, limits
+from fuzzing import in_sandbox, outcome, scratch_directory
+from ketsplit import InputError, Session
 from ketsplit.language.grammar import parse_expression
 
 MANY = int(os.environ.get("KETSPLIT_FUZZ_EXAMPLES", "0"))
@@ -41,64 +38,12 @@ def examples(count: int) -> settings:
 
 LONG = settings(max_examples=MANY or 2000, deadline=None, derandomize=False, database=None,
                 suppress_health_check=QUIET)
-STATEMENT_SECONDS = 3     # the limit 'seconds' while fuzzing
-WATCHDOG_SECONDS = 20     # past this the limit itself failed: the test fails
-
-
-class Hang(BaseException):
-    """The watchdog fired: an input ran far past the statement time limit."""
-
-
-@contextmanager
-def watchdog(seconds: float, text: str):
-    """Fail (not merely stop) when a run outlives ``seconds``, the statement limit included."""
-    def fire(signum, frame):
-        raise Hang(f"no answer after {seconds} s for {text!r}")
-    previous = signal.signal(signal.SIGALRM, fire)
-    signal.setitimer(signal.ITIMER_REAL, seconds)
-    try:
-        yield
-    finally:
-        signal.setitimer(signal.ITIMER_REAL, 0)
-        signal.signal(signal.SIGALRM, previous)
 
 
 @pytest.fixture(scope="module", autouse=True)
 def sandbox():
-    """Fuzzed 'save x' or 'plot ... --to f' write only into a scratch directory (the strategies
-    leave out paths that could lead elsewhere, see in_sandbox); the limits come back after."""
-    here = os.getcwd()
-    with tempfile.TemporaryDirectory() as scratch, limits.limits_set(seconds=STATEMENT_SECONDS):
-        os.chdir(scratch)
-        try:
-            yield
-        finally:
-            os.chdir(here)
-
-
-def outcome(text: str, prelude: str = "") -> str:
-    """Run ``prelude`` then ``text`` in a fresh Session; render every result three ways.
-
-    Returns "ok" or "input error"; any other exception propagates and fails the test.
-    """
-    session = Session()
-    with limits.limits_set(seconds=120):  # the prelude is valid: no load may make it time out
-        session.run(prelude)
-    with watchdog(WATCHDOG_SECONDS, text):
-        try:
-            results = session.run(text)
-        except InputError as err:
-            str(err)  # the message with its caret must itself render
-            assert err.span is not None, f"no line and column for {text!r}: {err.message}"
-            return "input error"
-        # the outer watchdog fires for a result that takes long to render: never a hang
-        for result in results:
-            result.text()
-            result.text(pretty=True)
-            result.latex()
-            json.dumps(result.to_json())
-    return "ok"
-
+    with scratch_directory():
+        yield
 
 # -- character soup ------------------------------------------------------------------------------
 
@@ -171,13 +116,6 @@ huge = st.tuples(st.sampled_from(["x", "2", "(1+x)", "10", "|0>", "1/3"]),
                  st.sampled_from(["^", "^-", "^(", "e"]),
                  st.sampled_from(["999", "1001", "99999", "10^10", "1/2", "9" * 30, "9" * 5000])
                  ).map(lambda p: p[0] + p[1] + p[2] + (")" if p[1] == "^(" else ""))
-
-
-def in_sandbox(text: str) -> bool:
-    """False for a statement that might write a file outside the scratch directory (the tests
-    may run as root): a path with '/', '~' or '..' anywhere near 'save', 'plot' or '--to'."""
-    writes = any(word in text for word in ("save", "plot", "--to"))
-    return not (writes and any(mark in text for mark in ("/", "~", "..", "\\")))
 
 
 COMMANDS = ["", "schmidt ", "reduce ", "rank ", "figures ", "numeric ", "cuts ", "strata ",
