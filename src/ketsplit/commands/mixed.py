@@ -78,6 +78,12 @@ def _at_point(call: CommandCall, rho: Density) -> Density:
                          rho.dims, rho.names, rho.params)
 
 
+def _density_alone(call: CommandCall) -> Density:
+    """``expr``: all the words as one density matrix, matrix or state."""
+    expression = call.alone()
+    return density_operand(call, expression.text, expression.start)
+
+
 def density_operand(call: CommandCall, text: str, offset: int) -> Density:
     found = operand(call, text, offset)
     return mixed.pure_density(found) if isinstance(found, State) else found
@@ -155,8 +161,7 @@ BINDING_WORDS = ("reduce", "density")
 def bound_value(call: CommandCall, name: str) -> Report:
     """``NAME = reduce STATE PARTS`` or ``NAME = density EXPR``: bind a density matrix
     (registered in BINDERS for those two words; ``call`` holds the words after the word)."""
-    rho = _reduced_density(call) if call.name == "reduce" else density_operand(
-        call, call.args, call.offset)
+    rho = _reduced_density(call) if call.name == "reduce" else _density_alone(call)
     call.session.bindings[name] = rho
     return density_report(f"{name} =", rho)
 
@@ -186,7 +191,7 @@ def density_report(title: str, rho: Density) -> Report:
          "NAME = density EXPR binds it, NAME = reduce STATE PARTS binds a reduced state",
          "density [[1, 0, 0, 1], [0, 0, 0, 0], [0, 0, 0, 0], [1, 0, 0, 1]]/2", topic=MIXED_TOPIC)
 def run_density(call: CommandCall) -> Report:
-    rho = density_operand(call, call.args, call.offset)
+    rho = _density_alone(call)
     return density_report("density matrix", rho).with_items(Field("purity", mixed.purity(rho)))
 
 
@@ -228,7 +233,7 @@ def run_negativity(call: CommandCall) -> Report:
          "concurrence [[1, 0, 0, 1], [0, 1, 0, 0], [0, 0, 1, 0], [1, 0, 0, 1]]/4",
          topic=MIXED_TOPIC)
 def run_concurrence(call: CommandCall) -> Report:
-    rho = density_operand(call, call.args, call.offset)
+    rho = _density_alone(call)
     pieces = mixed.concurrence(rho, _digits(call))
     formation = tuple(Piece(mixed.formation(p.value), p.symbol, p.lo, p.hi) for p in pieces)
     items = pieces_items("concurrence", pieces, _digits(call)) + \
@@ -240,7 +245,7 @@ def run_concurrence(call: CommandCall) -> Report:
          "spectrum, purity, linear entropy and von Neumann entropy (bits) of a density matrix",
          "mixedness [[3, 1], [1, 1]]/4", topic=MIXED_TOPIC)
 def run_mixedness(call: CommandCall) -> Report:
-    rho = density_operand(call, call.args, call.offset)
+    rho = _density_alone(call)
     digits = _digits(call)
     found = mixed.mixedness(rho, digits)
     items: tuple = (Field("purity", number_cell(found.purity, digits)),

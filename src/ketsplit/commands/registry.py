@@ -125,14 +125,20 @@ class CommandCall:
             raise self.error(f"{self.name}: expected an expression", offset)
         return self.session.evaluate(text, offset, self.line)
 
+    def alone(self) -> Expression:
+        """``expr``: all the words as one expression; a cut among them is an error."""
+        body, cut = self.split_cut()
+        if cut is not None:
+            raise self.error(f"{self.name}: takes a state or matrix alone, no cut",
+                             cut.span.column - 1, cut.span.length)
+        return body.expression()
+
     def state(self, text: str | None = None, offset: int | None = None) -> State:
         """The state written in ``text`` (default: all the arguments, which may hold no cut),
         at the ``with`` point."""
         if text is None:
-            cut = self.split_cut()[1]
-            if cut is not None:
-                raise self.error(f"{self.name}: takes a state alone, no cut",
-                                 cut.span.column - 1, cut.span.length)
+            expression = self.alone()
+            text, offset = expression.text, expression.start
         value = self.value(text, offset)
         if not isinstance(value, KetValue):
             raise self.error(f"{self.name}: expected a state (a ket expression), found a "
