@@ -65,7 +65,8 @@ def check_samples_against_numpy(found: mixed.Separability, matrix, dims, negativ
 def test_noisy_werner_boundary_is_the_hand_derived_determinant():
     # by hand: rho^{T_B} is block diagonal, [[a + b, -p/2], [-p/2, a]] on |00>, |11> and
     # (a + p/2) I on |01>, |10>, with a = (1-p)(1-q)/4, b = (1-p) q; so
-    # det = (a + p/2)^2 (a (a + b) - p^2/4), and a (a + b) - p^2/4 = ((1-p)^2 (1-q)(1+3q) - 4p^2)/16.
+    # det = (a + p/2)^2 (a (a + b) - p^2/4), and
+    # a (a + b) - p^2/4 = ((1-p)^2 (1-q)(1+3q) - 4p^2)/16.
     # Two qubits are entangled iff det(rho^{T_B}) < 0 (Augusiak, Demianowicz & Horodecki 2008).
     found = mixed.separability(mixed.density(noisy_werner(), params=PARAMS), CUT)
     hand = (1 - p) ** 2 * (1 - q) * (1 + 3 * q) - 4 * p ** 2
@@ -84,8 +85,8 @@ def test_noisy_werner_samples_against_numpy():
 
 
 def test_noisy_werner_thresholds_in_q_are_the_closed_forms():
-    # by hand from the determinant above: for fixed p < 1/2 the boundary is the quadratic
-    # (1-q)(1+3q) = 4p^2/(1-p)^2 in q, with roots q = (1 +- 2 sqrt(1 - 2p - 2p^2)/(1-p))/3
+    # by hand from the determinant above: for fixed p < (sqrt 3 - 1)/2 the boundary is the
+    # quadratic (1-q)(1+3q) = 4p^2/(1-p)^2 in q, with roots q = (1 +- 2 sqrt(1 - 2p - 2p^2)/(1-p))/3
     found = mixed.separability(mixed.density(noisy_werner(), params=PARAMS), CUT)
     root = 2 * sympy.sqrt(1 - 2 * p - 2 * p ** 2) / (1 - p)
     hand = {(1 + root) / 3, (1 - root) / 3}
@@ -134,7 +135,8 @@ def test_tilted_phi_plus_one_threshold_over_the_whole_range():
     params = [Parameter("q", "real", UNIT), Parameter("v", "real", UNIT)]
     found = mixed.separability(mixed.density(matrix, params=params), CUT)
     inner = [c for c in found.plane.cells if not c.on_line]
-    assert [(c.x_lo, c.x_hi, c.verdict) for c in inner] == [(0, 1, "separable"), (0, 1, "entangled")]
+    assert [(c.x_lo, c.x_hi, c.verdict) for c in inner] == [(0, 1, "separable"),
+                                                            (0, 1, "entangled")]
     threshold = inner[0].y_hi.closed
     assert sympy.cancel(threshold - (1 - q) / (3 - q)) == 0
     check_samples_against_numpy(found, matrix, (2, 2), "entangled")
@@ -212,14 +214,34 @@ def test_two_parameter_family_not_positive_somewhere_is_refused_at_a_point():
     assert np.linalg.eigvalsh(dense).min() < 0
 
 
-def test_angle_families_are_refused_with_a_hint_not_a_traceback():
-    # a two-parameter family in cos t, sin t is not polynomial in t: an InputError naming the
-    # way out; with t fixed, the one-parameter threshold of p|psi><psi| + (1-p) I/4,
-    # psi = cos t|00> + sin t|11> at t = pi/6: entangled iff p > 1/(1 + 2 sin 2t) (by hand:
-    # the |01>,|10> block [[(1-p)/4, p sin(2t)/2], [., (1-p)/4]] of the partial transpose),
-    # 1/(1 + sqrt 3) = (sqrt 3 - 1)/2
+def test_angle_family_through_the_half_angle_tangent():
+    # p|psi><psi| + (1-p) I/4, psi = cos t|00> + sin t|11>: by hand, the |01>,|10> block
+    # [[(1-p)/4, p sin(2t)/2], [p sin(2t)/2, (1-p)/4]] of the partial transpose gives
+    # entangled iff p > 1/(1 + 2 sin 2t).  The cells come in t (read through u = tan(t/2));
+    # the threshold in p is checked against that formula (sympy.N at 40 digits, reference) and
+    # every sample against numpy.
+    t = sympy.Symbol("t", real=True)
+    psi = sympy.Matrix([sympy.cos(t), 0, 0, sympy.sin(t)])
+    matrix = p * projector(psi) + (1 - p) * sympy.eye(4) / 4
+    params = [Parameter("p", "real", UNIT), Parameter("t", "real", (0, sympy.pi / 2))]
+    found = mixed.separability(mixed.density(matrix, params=params), CUT)
+    assert found.plane.x == t  # the parameter of low degree (p) second: closed-form thresholds
+    inner = [c for c in found.plane.cells if not c.on_line]
+    assert [(c.x_lo, c.x_hi, c.verdict) for c in inner] == [(0, sympy.pi / 2, "separable"),
+                                                            (0, sympy.pi / 2, "entangled")]
+    threshold = inner[0].y_hi.closed
+    for value in (sympy.pi / 7, sympy.pi / 4, sympy.Rational(1, 3)):
+        hand = 1 / (1 + 2 * sympy.sin(2 * value))
+        assert abs(sympy.N(threshold.subs(t, value) - hand, 40)) < 1e-35
+    check_samples_against_numpy(found, matrix, (2, 2), "entangled")
+
+
+def test_angles_without_algebraic_half_angle_tangents_are_refused_with_a_hint():
+    # t in [0, 1]: tan(1/2) is not algebraic, so the box has no exact chart in tan(t/2); the
+    # answer is an InputError naming the way out, and with t fixed the one-parameter threshold
+    # 1/(1 + 2 sin 2t) at t = pi/6 is 1/(1 + sqrt 3) = (sqrt 3 - 1)/2 (by hand, as above)
     session = Session()
-    session.run("real t in [0, pi/2]\nreal p in [0, 1]\nspace A:2 B:2")
+    session.run("real t in [0, 1]\nreal p in [0, 1]\nspace A:2 B:2")
     session.run("rho = density p (cos(t)|00> + sin(t)|11>)(cos(t)<00| + sin(t)<11|) + (1 - p) id/4")
     with pytest.raises(InputError, match="polynomial in the parameters"):
         session.run("separable rho A|B")

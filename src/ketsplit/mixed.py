@@ -783,8 +783,10 @@ def _plane(rho: Density, coefficients: Sequence[sympy.Expr], sides: tuple[int, i
         raise InputError(f"separability: {why}; fix one parameter with 'with'") from None
     except sympy.PolynomialError:
         raise InputError("separability of a two-parameter family is decided for matrices "
-                         "polynomial in the parameters (not cos t, exp t, ...); fix one parameter "
-                         "with 'with' for its thresholds in the other") from None
+                         "polynomial in the parameters, or in cos and sin of an angle whose range "
+                         "lies in (-pi, pi) with ends like pi/3 (tan(end/2) algebraic), not in "
+                         "exp t or cos of t in [0, 1]; fix one parameter with 'with' for its "
+                         "thresholds in the other") from None
 
 
 def _factor_conditions(coefficients: Sequence[sympy.Expr], symbols) -> list[sympy.Expr]:

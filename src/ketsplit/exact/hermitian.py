@@ -133,7 +133,8 @@ def trace(parts: Parts) -> fmpq:
 
 
 def scaled(parts: Parts, factor: fmpq) -> Parts:
-    return tuple([[v * factor for v in row] for row in part] for part in parts)  # type: ignore[return-value]
+    re, im = parts
+    return [[v * factor for v in row] for row in re], [[v * factor for v in row] for row in im]
 
 
 def charpoly_factors(parts: Parts) -> list[tuple[flint.fmpq_poly, int]]:

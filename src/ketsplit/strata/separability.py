@@ -47,6 +47,7 @@ from ..arith.decide import drop_abs, sign
 from ..arith.ranges import rational_inside
 from ..language.coerce import as_expr
 from .budget import Budget
+from .halfangle import HalfAngle
 from .proved import Undecidable, inside, order, zero
 from .solve import common_factor, real_roots
 
@@ -111,8 +112,23 @@ class Plane:
 def plane_strata(conditions: Sequence[sympy.Expr], verdict: Verdict, x: sympy.Symbol,
                  y: sympy.Symbol, box, budget: Budget) -> Plane:
     """The cells of ``box`` (x and y to (lo, hi), rational or algebraic ends, lo < hi) on which
-    every condition has one sign, each with its verdict."""
+    every condition has one sign, each with its verdict.  An angle met in cos and sin is read
+    through tan(angle/2) (:mod:`.halfangle`) and the cells given back in the angle."""
+    for symbol in (x, y):
+        chart = HalfAngle.of(conditions, symbol, box[symbol])
+        if chart is not None:
+            rational = [chart.condition(c) for c in conditions]
+            u_box = {**box, chart.u: chart.bounds(box[symbol])}
+            u_x, u_y = (chart.u, y) if symbol == x else (x, chart.u)
+            return _in_angle(plane_strata(rational, verdict, u_x, u_y, u_box, budget), chart)
+    return _plane(conditions, verdict, x, y, box, budget)
+
+
+def _plane(conditions: Sequence[sympy.Expr], verdict: Verdict, x: sympy.Symbol,
+           y: sympy.Symbol, box, budget: Budget) -> Plane:
     factors = _factors(conditions, x, y)
+    if _degree(factors, y) > CLOSED_DEGREE >= _degree(factors, x):
+        x, y = y, x   # thresholds in closed form: the parameter of low degree goes second
     (x_lo, x_hi), (y_lo, y_hi) = ((as_expr(lo), as_expr(hi)) for lo, hi in (box[x], box[y]))
     critical = _critical_values(factors, x, y, (x_lo, x_hi), (y_lo, y_hi), budget)
     ends = [x_lo, *critical, x_hi]
@@ -128,6 +144,32 @@ def plane_strata(conditions: Sequence[sympy.Expr], verdict: Verdict, x: sympy.Sy
     cells = _merged_columns(cells, x)
     kept = tuple(v for v in critical if any(c.on_line and c.x_lo == v for c in cells))
     return Plane(x, y, tuple(cells), tuple(dict.fromkeys(boundary)), kept)
+
+
+def _in_angle(plane: Plane, chart: HalfAngle) -> Plane:
+    """A plane found in u = tan(t/2) given back in t = 2 atan(u) (increasing: the cells, their
+    order and their ends' inclusion stay)."""
+    on_x = plane.x == chart.u
+
+    def bound(b: Bound) -> Bound:
+        if isinstance(b, Section):
+            closed = None if b.closed is None else (
+                chart.function(b.closed) if on_x else chart.value(b.closed))
+            return Section(chart.function(b.poly), b.index, closed)
+        return b if on_x else chart.value(b)
+
+    def point(sample: Point) -> Point:
+        return {chart.angle if s == chart.u else s: chart.value(v) if s == chart.u else v
+                for s, v in sample.items()}
+
+    def x_end(v: sympy.Expr) -> sympy.Expr:
+        return chart.value(v) if on_x else v
+
+    cells = tuple(Cell(c.verdict, x_end(c.x_lo), x_end(c.x_hi), bound(c.y_lo), bound(c.y_hi),
+                       c.closed, point(c.sample), c.proof) for c in plane.cells)
+    return Plane(chart.angle if on_x else plane.x, plane.y if on_x else chart.angle, cells,
+                 tuple(chart.function(f) for f in plane.boundary),
+                 tuple(x_end(v) for v in plane.critical))
 
 
 # -- projection ------------------------------------------------------------------------
@@ -150,6 +192,10 @@ def _normal(factor: sympy.Poly) -> sympy.Poly:
     """Integer coefficients without a common divisor, positive leading one: one name per curve."""
     primitive = factor.clear_denoms(convert=True)[1].primitive()[1]
     return -primitive if primitive.LC() < 0 else primitive
+
+
+def _degree(factors: list[sympy.Poly], symbol: sympy.Symbol) -> int:
+    return max((f.degree(symbol) for f in factors), default=0)
 
 
 def _critical_values(factors: list[sympy.Poly], x, y, x_range, y_range, budget: Budget
@@ -206,20 +252,23 @@ class _Judge:
 
 
 def _vanishes(c: sympy.Expr, point: Point) -> bool:
-    """c is proved zero at an exact point whose coordinates lie in QQ(g) for one algebraic
-    number g (a CRootOf or a square root; a root found over a critical line is written so):
-    with g a variable z, c is a rational function N/D of z and c = 0 there iff the minimal
-    polynomial of g divides N (exact division over QQ).  False when not proved so."""
-    value = sympy.expand(c.xreplace(point))
+    """c is proved zero at an exact point (:func:`_zero_in_one_field`)."""
+    return _zero_in_one_field(sympy.expand(c.xreplace(point)))
+
+
+def _zero_in_one_field(value: sympy.Expr) -> bool:
+    """An exact number in QQ(g) for one algebraic g (a CRootOf or a square root; the points
+    over critical values are written so) is proved zero: with g a variable z it is a rational
+    function N/D of z, zero iff the minimal polynomial of g divides N (exact division over QQ).
+    False when not proved so."""
     if value == 0:
         return True
-    generators = set().union(*(_generators(v) for v in point.values()))
+    generators = _generators(value)
     if len(generators) != 1:
         return False
     (generator,) = generators
     z = sympy.Dummy("z")
-    numerator, _ = sympy.fraction(sympy.together(c.xreplace(
-        {s: v.xreplace({generator: z}) for s, v in point.items()})))
+    numerator, _ = sympy.fraction(sympy.together(value.xreplace({generator: z})))
     if numerator.has(generator) or not numerator.is_polynomial(z):
         return False
     return sympy.rem(sympy.expand(numerator), sympy.minimal_polynomial(generator, z), z) == 0
@@ -253,7 +302,8 @@ def _column(factors: list[sympy.Poly], judge: _Judge, lo, hi, y_range) -> list[C
     cells = []
     for k, mark in enumerate(marks):
         verdict, proof = judge.at({x: x0, y: mark})
-        cells.append(Cell(verdict, lo, hi, bounds[k], bounds[k], (True, True), {x: x0, y: mark}, proof))
+        cells.append(Cell(verdict, lo, hi, bounds[k], bounds[k], (True, True), {x: x0, y: mark},
+                          proof))
         if k + 1 < len(marks):
             middle = rational_inside(mark, marks[k + 1])
             verdict, proof = judge.at({x: x0, y: middle})
@@ -262,7 +312,8 @@ def _column(factors: list[sympy.Poly], judge: _Judge, lo, hi, y_range) -> list[C
     return cells
 
 
-def _fiber_roots(factors: list[sympy.Poly], x, y, x0, y_range) -> list[tuple[sympy.Expr, sympy.Poly]]:
+def _fiber_roots(factors: list[sympy.Poly], x, y, x0, y_range
+                 ) -> list[tuple[sympy.Expr, sympy.Poly]]:
     """The distinct roots strictly inside the range of y of the factors at x = x0, ascending,
     each with one factor it is a root of."""
     found: list[tuple[sympy.Expr, sympy.Poly]] = []
@@ -380,6 +431,8 @@ def _continues(interval: list[Cell], line: list[Cell], x) -> bool:
 
 
 def _equal(a: sympy.Expr, b: sympy.Expr) -> bool:
+    if _zero_in_one_field(sympy.expand(a - b)):
+        return True
     try:
         return zero(sympy.expand(a - b))
     except Undecidable:
