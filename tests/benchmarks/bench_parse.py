@@ -11,7 +11,8 @@ amplitudes within 10 times that pass, and the whole ``ketsplit.ket(text)``
 (parse, build, make the State: dimensions, zero amplitudes, parameters) within
 10 times as well.  Also reported, not asserted: a sum the plain-term run does
 not cover (each coefficient divided by sqrt(3)), which takes the node-by-node
-route.
+route, and the plain run times one scalar, 1/sqrt(3) (...), which multiplies
+every term.
 
 Times are CPU seconds (process time), best of five.
 """
@@ -83,4 +84,17 @@ def test_parse_terms_outside_the_plain_run():
         reference = best(lambda: TOKENS.findall(text))
         ours = best(lambda: evaluate(text, session), 2)
     print(f"\nnode by node, {1 << QUBITS} terms divided by sqrt(3): {ours:.3f} s; one regex pass "
+          f"{reference:.3f} s; ratio {ours / reference:.1f} (reported only)")
+
+
+def test_one_scalar_times_the_whole_run():
+    text, expected = written_state("({a}{b:+d}i)|{label}>")
+    scaled = "1/sqrt(3) (" + text + ")"
+    session = ketsplit.Session()
+    with limits.limits_set(input_length=len(scaled)):
+        value, _ = evaluate(scaled, session)
+        assert value.terms == {k: v / sympy.sqrt(3) for k, v in expected.items()}
+        reference = best(lambda: TOKENS.findall(scaled))
+        ours = best(lambda: evaluate(scaled, session), 3)
+    print(f"\n1/sqrt(3) times the {1 << QUBITS}-term run: {ours:.3f} s; one regex pass "
           f"{reference:.3f} s; ratio {ours / reference:.1f} (reported only)")
