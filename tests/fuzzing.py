@@ -129,8 +129,8 @@ FUZZ_LOG = os.environ.get("KETSPLIT_FUZZ_LOG")  # a long run writes its failures
 @contextmanager
 def logged(text: str):
     """In a long run with KETSPLIT_FUZZ_LOG set, record a failure (with its traceback) in that
-    file and go on, so that one run finds every failure instead of shrinking the first one;
-    without it, a failure fails the test."""
+    file and go on, so that one run finds every failure instead of shrinking the first one,
+    and add a mark per input to FILE.count; without it, a failure fails the test."""
     if not FUZZ_LOG:
         yield
         return
@@ -139,3 +139,6 @@ def logged(text: str):
     except (Exception, Hang) as failure:
         with open(FUZZ_LOG, "a", encoding="utf-8") as log:
             log.write(f"=== {text!r}\n{''.join(traceback.format_exception(failure))[-3000:]}\n")
+    finally:
+        with open(FUZZ_LOG + ".count", "a", encoding="utf-8") as count:
+            count.write(".")  # one mark per input: the run's size, whatever its outcome
