@@ -77,24 +77,22 @@ def test_parse_16384_terms_against_one_regex_pass():
 
 def test_parse_terms_outside_the_plain_run():
     text, expected = written_state("({a}{b:+d}i)/sqrt(3)|{label}>")
-    session = ketsplit.Session()
-    with limits.limits_set(input_length=len(text)):
-        value, _ = evaluate(text, session)
-        assert value.terms == {k: v / sympy.sqrt(3) for k, v in expected.items()}
-        reference = best(lambda: TOKENS.findall(text))
-        ours = best(lambda: evaluate(text, session), 2)
-    print(f"\nnode by node, {1 << QUBITS} terms divided by sqrt(3): {ours:.3f} s; one regex pass "
-          f"{reference:.3f} s; ratio {ours / reference:.1f} (reported only)")
+    report_divided_by_root_3(text, expected, f"node by node, {1 << QUBITS} terms divided by sqrt(3)")
 
 
 def test_one_scalar_times_the_whole_run():
     text, expected = written_state("({a}{b:+d}i)|{label}>")
-    scaled = "1/sqrt(3) (" + text + ")"
+    report_divided_by_root_3("1/sqrt(3) (" + text + ")", expected,
+                             f"1/sqrt(3) times the {1 << QUBITS}-term run")
+
+
+def report_divided_by_root_3(text: str, written: dict, what: str) -> None:
+    """Check that ``text`` reads as the ``written`` amplitudes over sqrt(3); print its ratio."""
     session = ketsplit.Session()
-    with limits.limits_set(input_length=len(scaled)):
-        value, _ = evaluate(scaled, session)
-        assert value.terms == {k: v / sympy.sqrt(3) for k, v in expected.items()}
-        reference = best(lambda: TOKENS.findall(scaled))
-        ours = best(lambda: evaluate(scaled, session), 3)
-    print(f"\n1/sqrt(3) times the {1 << QUBITS}-term run: {ours:.3f} s; one regex pass "
-          f"{reference:.3f} s; ratio {ours / reference:.1f} (reported only)")
+    with limits.limits_set(input_length=len(text)):
+        value, _ = evaluate(text, session)
+        assert value.terms == {k: v / sympy.sqrt(3) for k, v in written.items()}
+        reference = best(lambda: TOKENS.findall(text))
+        ours = best(lambda: evaluate(text, session), 2)
+    print(f"\n{what}: {ours:.3f} s; one regex pass {reference:.3f} s; "
+          f"ratio {ours / reference:.1f} (reported only)")
