@@ -198,6 +198,10 @@ def split_statements(text: str) -> Iterator[tuple[str, int]]:
     outside brackets; comments and blank statements are dropped."""
     for number, raw in enumerate(text.splitlines() or [text], start=1):
         code = strip_comment(raw)
+        if ";" not in code:   # the common case, and a long state's line: no scan
+            if code.strip():
+                yield code, number
+            continue
         depth, start = 0, 0
         for k, ch in enumerate(code):
             if ch in "([":
