@@ -7,9 +7,9 @@ or raise the precision or a budget above the reader's ceiling (see
 writes nothing and stays inside the limits the reader chose.
 
 Recorded results come from the file too: reading them back as values, and
-proving them equal to this run's, happens under the statement time limit,
-line by line; a recorded value that cannot be read or proved equal in that
-time is a difference, never a pass.
+proving them equal to this run's, happens under the statement time limit and
+memory ceiling, line by line; a recorded value that cannot be read or proved
+equal within them is a difference, never a pass.
 """
 
 from __future__ import annotations
@@ -28,11 +28,10 @@ from ..base.version import VERSION as __version__
 from ..arith import decide
 from ..language.build import KetValue
 from ..language.statements import first_name
-from ..base.errors import InputError, Span
+from ..base.errors import InputError, LimitError, Span
 from ..render.jsonout import values_line
 from ..render.text import to_text
 from ..session import UNRECORDED, Entry, Result, Session, Settings, split_statements
-from ..timebudget import time_limited
 from .format import Record, Sheet, SheetLine, format_sheet
 from .header import raised
 from .matching import first_difference, value_difference
@@ -184,15 +183,15 @@ def differences(outcomes: list[Outcome], session: Session) -> list[Difference]:
 
 def compared(entry: SheetLine, fresh: tuple[Record, ...], equal: ValueEquality
              ) -> Difference | None:
-    """The line's difference, if any; the comparison runs under the statement time limit
-    (it reads values from the file), and a comparison stopped by it is a difference."""
+    """The line's difference, if any; the comparison runs under the statement time limit and
+    memory ceiling (it reads values from the file), and a comparison stopped is a difference."""
     try:
-        with time_limited(limits.current().seconds, TimeUp):
+        with limits.enforced():
             found = records_difference(entry.records, fresh, equal)
-    except TimeUp:
+    except LimitError as stopped:
         return Difference(entry.line, entry.source, entry.records, fresh, None,
-                          "the recorded values could not be compared with this run's within "
-                          f"{limits.how_to_change('seconds')}")
+                          "the recorded values could not be compared with this run's: "
+                          f"{stopped.message}")
     if found is None:
         return None
     first, reason = found
@@ -229,10 +228,6 @@ def recorded_values(record: Record):
         return json.loads(record.values)
     except ValueError:
         return {"unreadable recorded values": record.values}
-
-
-class TimeUp(Exception):
-    """Comparing one line's recorded values ran past the statement time limit."""
 
 
 BETWEEN = "\0"  # stands between two results of one line, so that none can merge with the next
