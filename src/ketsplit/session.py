@@ -8,7 +8,6 @@ exactly as it was.
 
 from __future__ import annotations
 
-import re
 import sys
 from dataclasses import dataclass, field, replace
 from typing import Iterable, Iterator
@@ -19,7 +18,6 @@ from .language.build import CONSTANTS, KET_FUNCTIONS, SCALAR_FUNCTIONS, KetValue
     kind_of
 from . import limits
 from .base.errors import InputError, LimitError, Span
-from .language.tokens import Kind, tokenize
 from .base.document import Report
 from .commands import COMMANDS, dispatch
 from .commands.registry import Result
@@ -220,17 +218,6 @@ def strip_comment(line: str) -> str:
     """The line without its ``#`` comment (a '#' cannot occur inside a ket)."""
     cut = line.find("#")
     return line if cut < 0 else line[:cut]
-
-
-WORD = re.compile(r"\S+")
-
-
-def words_with_offsets(text: str, offset: int = 0) -> list[tuple[str, int]]:
-    return [(m.group(), m.start() + offset) for m in WORD.finditer(text)]
-
-
-def first_token_kind(text: str) -> Kind:
-    return tokenize(text)[0].kind
 
 
 __all__ = ["Session", "Settings", "Result", "Space", "kind_of"]

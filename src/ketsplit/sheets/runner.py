@@ -17,7 +17,6 @@ from __future__ import annotations
 import dataclasses
 import datetime
 import json
-import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -27,7 +26,8 @@ from .. import limits
 from ..base.version import VERSION as __version__
 from ..arith import decide
 from ..language.build import KetValue
-from ..language.statements import first_name
+from ..commands.registry import COMMANDS
+from ..language.statements import OPTION, Word, first_name, read_arguments
 from ..base.errors import InputError, LimitError, Span
 from ..render.jsonout import values_line
 from ..render.text import to_text
@@ -37,7 +37,7 @@ from .header import raised
 from .matching import first_difference, value_difference
 from .visible import visible
 
-FILE_OPTION = re.compile(r"\s--(?:to|data)\s")  # the options by which a statement names a file to write
+FILE_OPTIONS = ("to", "data")   # the options by which a statement names a file to write
 
 
 @dataclass(frozen=True)
@@ -149,7 +149,7 @@ def refusal(entry: SheetLine) -> InputError | None:
     for statement, _ in split_statements(entry.source):
         word = first_name(statement)
         name = word.text if word else ""
-        option = FILE_OPTION.search(statement)
+        option = file_option(statement, word)
         if name in UNRECORDED:
             return refused(entry, f"a worksheet cannot run {name!r}: worksheets hold computations "
                                   "only", word.start, len(name))
@@ -158,9 +158,22 @@ def refusal(entry: SheetLine) -> InputError | None:
                                   "the shell before opening it", word.start, len(name))
         if option:
             return refused(entry, "a worksheet cannot write files: run this line without "
-                                  f"'{option.group().strip()}'", option.start() + 1,
-                           len(option.group().strip()))
+                                  f"'--{option.text}'", option.start, option.span.length)
     return None
+
+
+def file_option(statement: str, command: Word | None) -> Word | None:
+    """The first ``--to``/``--data`` option of a command that takes options, as the
+    statement grammar reads it (None when the arguments do not read: the statement's
+    own run reports that)."""
+    found = COMMANDS.get(command.text) if command else None
+    if found is None or not found.options:
+        return None
+    try:
+        words = read_arguments(statement, command.end, command.span.line, True, True).words
+    except InputError:
+        return None
+    return next((w for w in words.items if w.kind == OPTION and w.text in FILE_OPTIONS), None)
 
 
 def refused(entry: SheetLine, message: str, column: int, length: int) -> InputError:
