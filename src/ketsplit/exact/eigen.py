@@ -40,7 +40,10 @@ def eigenvalues(rho: sympy.Matrix) -> list[tuple[sympy.Expr, int]]:
     # factor over every symbol: with LAMBDA alone as generator, sympy can return a
     # symbolic polynomial whole as the "content" and no factors at all
     found: list[tuple[sympy.Expr, int]] = []
-    for factor, power in sympy.factor_list(poly.as_expr())[1]:
+    # coefficients that are fractions in the parameters (a mixture weighted by p): the roots
+    # are those of the numerator, which factor_list takes (it refuses the fraction)
+    numerator = sympy.fraction(sympy.together(poly.as_expr()))[0]
+    for factor, power in sympy.factor_list(numerator)[1]:
         if factor.has(LAMBDA):
             found.extend((root, power) for root in solve_factor(sympy.Poly(factor, LAMBDA)))
     if sum(power for _, power in found) != poly.degree():
