@@ -239,7 +239,17 @@ def reduced(state: State, keep: tuple[int, ...] | str) -> sympy.Matrix:
     rho = sympy.zeros(size, size)
     for (i, j), products in sums.items():
         if i <= j:
-            value = simplify_real(sympy.Add(*products)) if i == j else sympy.simplify(sympy.Add(*products))
+            value = simplify_real(sympy.Add(*products)) if i == j else simplified(sympy.Add(*products))
             rho[i, j] = value
             rho[j, i] = sympy.conjugate(value) if i != j else value
     return rho
+
+
+def simplified(value: sympy.Expr) -> sympy.Expr:
+    """``sympy.simplify(value)``, or the value only expanded where simplify fails inside:
+    its radsimp asks mpmath for exp(-exp(30)) to astronomical precision (a MemoryError or
+    OverflowError at once, not a memory shortage).  Exact either way."""
+    try:
+        return sympy.simplify(value)
+    except (MemoryError, OverflowError):
+        return sympy.expand(value)
