@@ -226,3 +226,21 @@ def test_a_changed_recorded_value_fails_verify(tmp_path, capsys):
     path.write_text(path.read_text(encoding="utf-8").replace("0.96", "0.97"), encoding="utf-8")
     assert main(["verify", str(path)]) == 1
     assert "differ" in capsys.readouterr().out
+
+
+# -- found by the grammar-aware fuzzer -------------------------------------------------------------
+
+def test_a_mixture_weighted_by_a_parameter_has_exact_eigenvalues():
+    # was: PolynomialError (the characteristic polynomial's coefficients are fractions in p);
+    # diag(1, p)/(1 + p) has eigenvalues 1/(1 + p) and p/(1 + p) (read off the diagonal)
+    session = Session()
+    session.run("real p in [0, 1]")
+    [result] = session.run("mixedness |00><00| + p |01><01|")
+    text = result.text()
+    assert "p/(1 + p)" in text and "1/(1 + p)" in text
+
+
+def test_reducing_a_state_with_a_doubly_exponential_amplitude():
+    # was: MemoryError inside sympy's simplify (radsimp asked mpmath for exp(-exp(30)))
+    [result] = ran("rho3 = reduce |00> - |01> - exp(-exp(30))|10> - |10> 1")
+    assert "exp(30)" in result.text()
