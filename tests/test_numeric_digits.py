@@ -112,3 +112,23 @@ def test_scaled_texts_agree_with_exact_fractions():
             assert text == expected
             compared += 1
     assert compared == 12000
+
+
+def test_complex_digits_agree_with_mpmath_and_mark_zero_parts():
+    # reference library: mpmath's exp(i pi/5) at 80 digits, each part rounded to 20 digits
+    from flint import acb
+    from ketsplit.numeric.digits import complex_digits
+    with ctx.workprec(300):
+        z = (acb(0, 1) * arb.pi() / 5).exp()
+    with mpmath.workdps(80):
+        w = mpmath.exp(1j * mpmath.pi / 5)
+        real, imag = (mpmath.nstr(part, 20, strip_zeros=False) for part in (w.real, w.imag))
+    assert complex_digits(z, 20) == (f"{real} + {imag} i", 20)
+    assert complex_digits(acb(-2), 5) == ("-2.0000", 5)        # an exact zero part is left out
+    assert complex_digits(acb(0, -1), 5) == ("-1.0000 i", 5)
+    assert complex_digits(acb(0), 5) == ("0", 0)
+    # a real part whose ball holds zero: a bound, and the count is the imaginary part's
+    text, count = complex_digits(acb(ball("0", "1e-30"), arb(3)), 5)
+    bound, rest = text.split(")", 1)
+    assert bound.startswith("(|x| < ") and rest == " + 3.0000 i" and count == 5
+    assert 1e-30 <= float(bound[len("(|x| < "):]) <= 2e-30   # an upper bound on the radius, rounded up

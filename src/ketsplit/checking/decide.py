@@ -36,7 +36,7 @@ import sympy
 from ..language.coerce import as_expr
 from ..states import Parameter
 from ..numeric.budget import OverBudget, time_budget
-from ..numeric.digits import certain_decimal, zero_bound_text
+from ..numeric.digits import complex_digits
 from ..numeric.schmidt import start_bits
 from ..arith.decide import is_zero
 from . import randomized
@@ -275,20 +275,6 @@ def _refine(difference: Difference, point: Point, where: str, prec: int, digits:
 
 
 def complex_text(z: flint.acb, digits: int) -> Shown | None:
-    """Certain digits of a complex ball, or None when no part is certainly nonzero.
-
-    A part exactly zero is left out; a part whose ball holds zero is shown as a bound.
-    """
-    pieces, counts = [], []
-    for part, unit in ((z.real, ""), (z.imag, " i")):
-        if part.is_exact() and part.is_zero():
-            continue
-        rounded = certain_decimal(part, digits)
-        if rounded is None:
-            pieces.append(f"({zero_bound_text(part)}){unit}")
-        else:
-            pieces.append(rounded.text() + unit)
-            counts.append(len(rounded.digits))
-    if not counts:
-        return None
-    return Shown(" + ".join(pieces).replace("+ -", "- "), min(counts))
+    """Certain digits of a complex ball, or None when no part is certainly nonzero."""
+    text, count = complex_digits(z, digits)
+    return Shown(text, count) if count else None

@@ -15,10 +15,10 @@ from ..base.document import Between, Field, Kets, Note, Report, Table
 from dataclasses import replace
 
 from ..exact.schmidt import nonzero_entries
-from ..numeric.digits import certain_count
+from ..numeric.digits import certain_count, complex_digits
 from ..numeric.values import certified_ball, exact_cell
 from ..language.printer import text as language_text
-from .numeric import certified_report, complex_text
+from .numeric import certified_report
 from .registry import COMMANDS, CommandCall, command
 from .topics import TOPICS, more_topics, topic_report
 
@@ -84,7 +84,7 @@ def _certified_entry(value: sympy.Expr, digits: int) -> str:
     ball = certified_ball(value, digits, lambda b: all(
         part.is_exact() and part.is_zero() or certain_count(part, digits) == digits
         for part in (b.real, b.imag)))
-    return complex_text(ball, digits)
+    return complex_digits(ball, digits)[0]
 
 
 def descending_text(coefficients) -> str:

@@ -6,7 +6,7 @@ from dataclasses import replace
 
 from ..cuts import Cut, join_names, side_label
 from ..numeric.certified import SchmidtVector
-from ..numeric.digits import certain_text, digits_cell
+from ..numeric.digits import digits_cell
 from ..numeric.schmidt import CertifiedSchmidt, certified_schmidt
 from ..planner import METHODS
 from ..language.printer import label_text
@@ -64,11 +64,6 @@ def vector_text(vector: SchmidtVector, parts: tuple[int, ...], state: State, dig
             label = labels[(parts, index)] = label_text(side_label(index, parts, state.dims))
         pieces.append(f"({joined(real, imag)}){label}")
     return " + ".join(pieces)
-
-
-def complex_text(value, digits: int) -> str:
-    exact_real = value.imag.is_exact() and value.imag.is_zero()
-    return joined(certain_text(value.real, digits), None if exact_real else certain_text(value.imag, digits))
 
 
 def joined(real: str, imag: str | None) -> str:

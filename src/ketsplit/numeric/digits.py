@@ -22,7 +22,7 @@ import math
 from fractions import Fraction
 from typing import NamedTuple, Sequence
 
-from flint import arb, fmpz
+from flint import acb, arb, fmpz
 
 from ..base.document import Digits
 
@@ -216,6 +216,27 @@ def _text(ball: arb, found: Rounded | None) -> str:
     if ball.is_exact() and ball.is_zero():
         return "0"
     return found.text() if found is not None else zero_bound_text(ball)
+
+
+def complex_digits(z: acb, digits: int) -> tuple[str, int]:
+    """A complex ball as ``re + im i`` with certain digits only, and the fewest certain
+    digits among its shown parts (0 when no part has one).
+
+    A part that is exactly zero is left out (``0`` when both are); a part whose ball
+    holds zero is shown as a bound in brackets, ``(|x| < 3e-85) i``.
+    """
+    pieces, counts = [], []
+    for part, unit in ((z.real, ""), (z.imag, " i")):
+        if part.is_exact() and part.is_zero():
+            continue
+        found = certain_decimal(part, digits)
+        if found is None:
+            pieces.append(f"({zero_bound_text(part)}){unit}")
+        else:
+            pieces.append(found.text() + unit)
+            counts.append(len(found.digits))
+    text = " + ".join(pieces).replace("+ -", "- ") if pieces else "0"
+    return text, min(counts) if counts else 0
 
 
 def certain_count(ball: arb, digits: int) -> int:
