@@ -38,7 +38,7 @@ class HalfAngle:
             return None
         if any(sympy.tan(end / 2).has(sympy.tan) for end in bounds):
             return None
-        return HalfAngle(symbol, sympy.Symbol(f"tan({symbol.name}/2)", real=True))
+        return HalfAngle(symbol, sympy.Dummy("u", real=True))   # a Dummy: never a user's u
 
     def bounds(self, bounds) -> tuple[sympy.Expr, sympy.Expr]:
         return tuple(sympy.radsimp(sympy.tan(end / 2)) for end in bounds)  # type: ignore[return-value]
@@ -60,3 +60,7 @@ class HalfAngle:
     def function(self, f: sympy.Expr) -> sympy.Expr:
         """An expression in u as one in the angle."""
         return f.xreplace({self.u: sympy.tan(self.angle / 2)})
+
+    def text(self, proof: str) -> str:
+        """A proof written in u, in words of the angle."""
+        return proof.replace(f"{self.u} = ", f"tan({self.angle}/2) = ")

@@ -166,7 +166,7 @@ def _in_angle(plane: Plane, chart: HalfAngle) -> Plane:
         return chart.value(v) if on_x else v
 
     cells = tuple(Cell(c.verdict, x_end(c.x_lo), x_end(c.x_hi), bound(c.y_lo), bound(c.y_hi),
-                       c.closed, point(c.sample), c.proof) for c in plane.cells)
+                       c.closed, point(c.sample), chart.text(c.proof)) for c in plane.cells)
     return Plane(chart.angle if on_x else plane.x, plane.y if on_x else chart.angle, cells,
                  tuple(chart.function(f) for f in plane.boundary),
                  tuple(x_end(v) for v in plane.critical))
