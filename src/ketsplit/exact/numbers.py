@@ -123,7 +123,11 @@ def number_block(block: sympy.Matrix) -> NumberBlock | None:
     if not (domain.is_ZZ or domain.is_QQ or domain.is_ZZ_I or domain.is_QQ_I or domain.is_AlgebraicField):
         return None
     field = domain.get_field()
-    return _block(block.shape, [field.convert_from(e, domain) for e in elements], field, values)
+    try:  # sympy's field isomorphism runs PSLQ, which fails on entries like 10^(-300) sqrt(2)
+        converted = [field.convert_from(e, domain) for e in elements]
+    except (BasePolynomialError, CoercionFailed, NotImplementedError, ValueError):
+        return None
+    return _block(block.shape, converted, field, values)
 
 
 def _block(shape: tuple[int, int], elements: list, field, values: list) -> NumberBlock:
