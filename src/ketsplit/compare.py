@@ -37,15 +37,14 @@ from flint import arb, ctx
 
 from .arith.decide import Decided, compare as compare_values, is_nonnegative, is_zero
 from .cuts import Cut, parse_cut, reduced, side_dimension
-from .decomposition import schmidt, symmetric_spectrum
+from .decomposition import decompose
 from .symmetric import SymmetricState, dicke_reduced
 from .language.coerce import as_expr
-from .exact.eigen import characteristic_polynomial, eigenvalues
-from .exact.errors import NoClosedForm
+from .exact.eigen import characteristic_polynomial
 from .exact.signs import box_of
 from .base.errors import InputError
+from .numeric.schmidt import CertifiedSchmidt
 from .numeric.stored import BallValue
-from .planner import plan
 from .states import State
 
 Value = sympy.Expr | arb       # exact, or a certified ball
@@ -85,28 +84,18 @@ class Spectrum:
 def spectrum(state: State, cut: Cut | str | None, digits: int = 30) -> Spectrum:
     """The squared Schmidt coefficients of ``state`` across ``cut``, sorted where decidable.
 
-    They are the nonzero eigenvalues of the smaller reduced state (no Schmidt
-    vectors are needed); a symmetric state reads them off its Dicke weights.  A
-    constant state without a closed-form spectrum gets certified balls.
+    They come from the one route (``decompose`` without vectors): closed forms where
+    the planner finds them, else certified balls.
     """
     box = box_of(state)
-    if not state.symbols and plan(state, cut if isinstance(cut, Cut) else parse_cut(cut, state)
-                                  ).route == "certified":  # the planner's route, from the structure
-        return certified_spectrum(state, cut, digits)
-    try:
-        return ordered_spectrum(squared_coefficients(state, cut, box), box)
-    except NoClosedForm as why:
-        if state.symbols:
-            names = sorted(s.name for s in state.symbols)
-            raise InputError(f"{why}; compare at a point for certified numbers, as in "
-                             f"'with {names[0]}=...'") from None
-        return certified_spectrum(state, cut, digits)
+    found = decompose(state, cut, digits=digits, vectors=False)
+    if found.certified is not None:
+        return certified_spectrum(found.certified, state, cut)
+    return ordered_spectrum(tuple(v for v in found.squared if is_zero(v, box).value is not True), box)
 
 
-def certified_spectrum(state: State, cut: Cut | str | None, digits: int) -> Spectrum:
+def certified_spectrum(found: CertifiedSchmidt, state: State, cut: Cut | str | None) -> Spectrum:
     """Certified balls of the squared coefficients (descending, as the balls prove it)."""
-    from .numeric.schmidt import certified_schmidt
-    found = certified_schmidt(state, cut, digits)
     with ctx.workprec(found.bits):
         squares = tuple(c * c for c in found.coefficients)
         separated = all(a > b for a, b in zip(squares, squares[1:]))
@@ -174,21 +163,6 @@ def same_charpoly(x: Spectrum, y: Spectrum) -> Decided[bool]:
         if found.value is not True:
             return Decided(found.value, f"the characteristic polynomials: {found.proof}", found.hint)
     return Decided(True, "the characteristic polynomials of the reduced states agree exactly")
-
-
-def squared_coefficients(state: State, cut: Cut | str | None, box: Box) -> Vector:
-    """Symmetric states from their Dicke weights; states with parameters by the exact Schmidt
-    route (it splits the state into blocks first); constant states from the eigenvalues of the
-    smaller reduced state alone, since exact Schmidt vectors can cost far more than the values
-    (a qutrit Fourier rotation of |00> + 2|11> + 3|22>)."""
-    if isinstance(state, SymmetricState):
-        return tuple(symmetric_spectrum(state, cut))
-    if state.symbols:
-        return tuple(schmidt(state, cut).squared)
-    if not isinstance(cut, Cut):
-        cut = parse_cut(cut, state)
-    values = [value for value, count in eigenvalues(smaller_reduced(state, cut)) for _ in range(count)]
-    return tuple(v for v in values if is_zero(v, box).value is not True)
 
 
 def ordered_spectrum(values: Vector, box: Box) -> Spectrum:
