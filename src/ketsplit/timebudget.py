@@ -133,10 +133,9 @@ def can_watch() -> bool:
 
 
 @contextmanager
-def memory_watched(mib: float, exception: Callable[[float, int], BaseException]
-                   = StatementOverMemory) -> Iterator[bool]:
-    """Raise ``exception(mib, used)`` in the block once it has added more than ``mib`` MiB
-    of resident memory to the process.
+def memory_watched(mib: float) -> Iterator[bool]:
+    """Raise :class:`StatementOverMemory` in the block once it has added more than ``mib``
+    MiB of resident memory to the process.
 
     Yields whether the watchdog runs (not for ``mib <= 0``, outside the main
     thread, or inside a watched block, whose ceiling then holds).  After a
@@ -147,14 +146,14 @@ def memory_watched(mib: float, exception: Callable[[float, int], BaseException]
     if mib <= 0 or not can_watch() or _watching.is_set():
         yield False
         return
-    ceiling = resident_bytes() + int(mib * MIB)
-    start = ceiling - int(mib * MIB)
+    start = resident_bytes()
+    ceiling = start + int(mib * MIB)
 
     def sample(signum, frame) -> None:
         used = resident_bytes()
         if used > ceiling:
             signal.setitimer(signal.ITIMER_PROF, RESAMPLE, RESAMPLE)
-            raise exception(mib, used - start)
+            raise StatementOverMemory(mib, used - start)
 
     previous = signal.signal(signal.SIGPROF, sample)
     _watching.set()
