@@ -263,3 +263,13 @@ def test_two_entangled_states_on_two_by_three_every_cell_decided():
     found = mixed.separability(mixed.density(matrix, (2, 3), params=params), CUT)
     assert any(c.x_lo.has(sympy.CRootOf) for c in found.plane.cells if c.on_line)
     check_samples_against_numpy(found, matrix, (2, 3), "entangled")
+
+
+def test_python_api_takes_the_budget_its_message_names():
+    # the budget message says "budget= in Python": ketsplit.separability must take it
+    import ketsplit
+    from ketsplit.strata.budget import BudgetExceeded
+    rho = mixed.density(noisy_werner(), params=PARAMS)
+    with pytest.raises(BudgetExceeded, match="budget= in Python"):
+        ketsplit.separability(rho, "1|2", budget=1e-9)
+    assert ketsplit.separability(rho, "1|2", budget=60).plane.cells

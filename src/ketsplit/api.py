@@ -349,9 +349,13 @@ def concurrence(rho: _mixed.Density, *, digits: int = 30) -> tuple[_mixed.Piece,
 
 
 @bounded
-def separability(rho: _mixed.Density, cut: str | cuts.Cut | None = None) -> _mixed.Separability:
-    """Regions of the declared range where rho is separable / entangled (2x2, 2x3) or PPT."""
-    return _mixed.separability(rho, _density_cut(rho, cut))
+def separability(rho: _mixed.Density, cut: str | cuts.Cut | None = None,
+                 budget: float = _mixed.STRATA_BUDGET) -> _mixed.Separability:
+    """Regions of the declared range where rho is separable / entangled (2x2, 2x3) or PPT.
+
+    Two parameters give the cells of their box (``.plane``: cells, boundary curves,
+    thresholds); ``budget`` is the seconds of exact algebra they may take."""
+    return _mixed.separability(rho, _density_cut(rho, cut), budget)
 
 
 @bounded
