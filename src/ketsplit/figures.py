@@ -19,7 +19,7 @@ from flint import arb, ctx
 
 from .language.coerce import as_expr
 from .cuts import Cut, reduced, side_dimension
-from .decomposition import Decomposition, decompose, symmetric_schmidt
+from .decomposition import Decomposition, decompose
 from .exact.signs import box_of, drop_abs
 from .base.errors import InputError
 from .exact.numbers import field_degree_bound
@@ -494,7 +494,7 @@ def symmetric_overview(state: SymmetricState, unit: str = "bits"):
                  f"of {n} parts)")
     summaries = []
     for cut in cut_classes(n):
-        found = symmetric_schmidt(state, cut, vectors=False)
+        found = decompose(state, cut, vectors=False)  # certified where no closed form is readable
         summaries.append(CutSummary(cut, found.rank, cut_entropy(found, unit)))
     product = summaries[0].rank == 1
     groups = tuple((p,) for p in range(n)) if product else (tuple(range(n)),)
