@@ -244,3 +244,10 @@ def test_reducing_a_state_with_a_doubly_exponential_amplitude():
     # was: MemoryError inside sympy's simplify (radsimp asked mpmath for exp(-exp(30)))
     [result] = ran("rho3 = reduce |00> - |01> - exp(-exp(30))|10> - |10> 1")
     assert "exp(30)" in result.text()
+
+
+def test_the_class_overview_of_a_large_symmetric_state_takes_certified_numbers():
+    # was: NoClosedForm escaping from the cuts overview of a symmetric state (it called the
+    # exact route directly; the one route gives certified numbers where no closed form reads)
+    [result] = ran("class dicke(28, 8) + i dicke(28, 9)")
+    assert "28 parts" in result.text()
