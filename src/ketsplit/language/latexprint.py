@@ -81,13 +81,23 @@ def _coefficient(value: sympy.Expr) -> str:
 def kets_latex(terms: Iterable[tuple[object, str]]) -> str:
     """``c_1 |l_1> + c_2 |l_2> ...`` from (coefficient, label) pairs; '0' when empty."""
     out = ""
+    written: dict = {}  # a long state repeats a few coefficients: each is typeset once
     for k, (coefficient, label) in enumerate(terms):
-        coefficient = as_expr(coefficient)
-        negative = coefficient.could_extract_minus_sign()
-        magnitude = -coefficient if negative else coefficient
-        body = ("" if magnitude == 1 else _coefficient(magnitude) + " ") + ket_latex(label)
+        found = written.get(coefficient)
+        if found is None:
+            found = written[coefficient] = _signed_latex(coefficient)
+        negative, prefix = found
+        body = prefix + ket_latex(label)
         out += ("-" if negative else "") + body if k == 0 else (" - " if negative else " + ") + body
     return out or "0"
+
+
+def _signed_latex(coefficient) -> tuple[bool, str]:
+    """(negative, what is typeset before the ket) of one coefficient."""
+    coefficient = as_expr(coefficient)
+    negative = coefficient.could_extract_minus_sign()
+    magnitude = -coefficient if negative else coefficient
+    return negative, "" if magnitude == 1 else _coefficient(magnitude) + " "
 
 
 SHOWN_TERMS = 40   # a notebook shows at most this many kets of a state, then how many more

@@ -57,21 +57,28 @@ def _needs_brackets(coefficient: sympy.Expr) -> bool:
     return isinstance(coefficient, sympy.Add)
 
 
+def _signed(coefficient: sympy.Expr) -> tuple[str, str]:
+    """(sign, what is written before the ket) of one coefficient."""
+    coefficient = as_expr(coefficient)
+    sign = "+"
+    if coefficient.could_extract_minus_sign():
+        sign, coefficient = "-", -coefficient
+    if coefficient == 1:
+        return sign, ""
+    if _needs_brackets(coefficient):
+        return sign, f"({text(coefficient)})"
+    return sign, f"{text(coefficient)} "
+
+
 def terms_text(terms: Iterable[tuple[sympy.Expr, str]]) -> str:
     """``c1|l1> + c2|l2>`` from (coefficient, ket text) pairs; '0' when there are none."""
-    pieces: list[str] = []
+    pieces: list[tuple[str, str]] = []
+    written: dict = {}  # a long state repeats a few coefficients (a Dicke state one per weight)
     for coefficient, ket in terms:
-        coefficient = as_expr(coefficient)
-        sign = "+"
-        if coefficient.could_extract_minus_sign():
-            sign, coefficient = "-", -coefficient
-        if coefficient == 1:
-            body = ket
-        elif _needs_brackets(coefficient):
-            body = f"({text(coefficient)}){ket}"
-        else:
-            body = f"{text(coefficient)} {ket}"
-        pieces.append((sign, body))
+        found = written.get(coefficient)
+        if found is None:
+            found = written[coefficient] = _signed(coefficient)
+        pieces.append((found[0], found[1] + ket))
     if not pieces:
         return "0"
     first_sign, first = pieces[0]
