@@ -74,23 +74,32 @@ def sequence_picture(cells) -> prettyForm:
 def kets_picture(kets: Kets) -> prettyForm:
     """``c₁ |l₁⟩ + c₂ |l₂⟩``: each coefficient drawn in 2-D, brackets around sums."""
     pieces: list[prettyForm] = []
+    drawn: dict = {}  # a long state repeats a few coefficients: each is drawn once
     for coefficient, label in kets.terms:
-        coefficient = as_expr(coefficient)
-        negative = coefficient.could_extract_minus_sign()
-        magnitude = -coefficient if negative else coefficient
+        found = drawn.get(coefficient)
+        if found is None:
+            found = drawn[coefficient] = signed_picture(coefficient)
+        negative, body = found
         if pieces:
             pieces.append(prettyForm(" - " if negative else " + "))
         elif negative:
             pieces.append(prettyForm("-"))
         ket = prettyForm(f"|{label}⟩")
-        if magnitude == 1:
-            pieces.append(ket)
-            continue
-        body = expression(magnitude)
-        if isinstance(magnitude, sympy.Add):
-            body = prettyForm(*body.parens())
-        pieces.extend((body, prettyForm(" "), ket))
+        pieces.extend((ket,) if body is None else (body, prettyForm(" "), ket))
     return beside(*pieces) if pieces else prettyForm("0")
+
+
+def signed_picture(coefficient) -> tuple[bool, prettyForm | None]:
+    """(negative, the picture of its magnitude, None for 1) of one coefficient."""
+    coefficient = as_expr(coefficient)
+    negative = coefficient.could_extract_minus_sign()
+    magnitude = -coefficient if negative else coefficient
+    if magnitude == 1:
+        return negative, None
+    body = expression(magnitude)
+    if isinstance(magnitude, sympy.Add):
+        body = prettyForm(*body.parens())
+    return negative, body
 
 
 def text(cell) -> str:
