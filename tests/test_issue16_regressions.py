@@ -251,3 +251,16 @@ def test_the_class_overview_of_a_large_symmetric_state_takes_certified_numbers()
     # exact route directly; the one route gives certified numbers where no closed form reads)
     [result] = ran("class dicke(28, 8) + i dicke(28, 9)")
     assert "28 parts" in result.text()
+
+
+def test_a_long_state_prints_each_distinct_coefficient_once(monkeypatch):
+    # found by the grammar fuzzer: 25,480 kets of a Dicke state tensored with a family took
+    # 23 s to show four ways, each coefficient printed anew; the state below has 2 x 924
+    # kets (C(12, 6) = 924) and two distinct coefficients
+    from ketsplit.language import printer
+    state = ketsplit.ket("(|0> + 2|1>) ⊗ dicke(12, 6)")
+    calls = []
+    original = printer.text
+    monkeypatch.setattr(printer, "text", lambda expr: calls.append(expr) or original(expr))
+    written = printer.ket_text(state)
+    assert written.count("|") == 2 * 924 and len(calls) == 2
