@@ -34,7 +34,7 @@ from flint import acb_mat, arb, ctx
 
 from .arith.decide import Decided, compare, drop_abs, is_zero, sign
 from .base.errors import InputError
-from .cuts import Cut, join_names, reduced
+from .cuts import Cut, join_names, reduced, simplified
 from .decomposition import decompose
 from .exact.signs import box_of
 from .figures import overview
@@ -274,7 +274,7 @@ def two_qubit_concurrence(rho: sympy.Matrix, rank_bound: int | None = None,
     e2 = sympy.expand((trace ** 2 - (r * r).trace()) / 2)
     if rank_bound is not None and rank_bound <= 2 or small_rank(r, box):
         if not e2.free_symbols:
-            return Term("C^2", sympy.radsimp(trace - 2 * sympy.sqrt(e2)))
+            return Term("C^2", simplified(trace - 2 * sympy.sqrt(e2), sympy.radsimp))
         return Term("C^2", sympy.factor(trace) - 2 * sympy.sqrt(sympy.factor(e2)))
     if rho.free_symbols:
         return Term("C^2", None, None, "rank of the two-qubit state above 2 for a family: "

@@ -245,11 +245,11 @@ def reduced(state: State, keep: tuple[int, ...] | str) -> sympy.Matrix:
     return rho
 
 
-def simplified(value: sympy.Expr) -> sympy.Expr:
-    """``sympy.simplify(value)``, or the value only expanded where simplify fails inside:
-    its radsimp asks mpmath for exp(-exp(30)) to astronomical precision (a MemoryError or
-    OverflowError at once, not a memory shortage).  Exact either way."""
+def simplified(value: sympy.Expr, how=sympy.simplify) -> sympy.Expr:
+    """``how(value)`` (sympy's simplify or radsimp), or the value only expanded where it
+    fails inside: radsimp asks mpmath for exp(-exp(30)) to astronomical precision (a
+    MemoryError or OverflowError at once, not a memory shortage).  Exact either way."""
     try:
-        return sympy.simplify(value)
+        return how(value)
     except (MemoryError, OverflowError):
         return sympy.expand(value)
