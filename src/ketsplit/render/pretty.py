@@ -16,6 +16,9 @@ from ..language.coerce import as_expr
 from ..base.document import Digits, Kets, Table
 
 _PRINTER = PrettyPrinter({"use_unicode": True, "wrap_line": False})
+# the terms as stored, for sums whose usual ordering fails: it evaluates each term as a complex
+# number, and mpmath runs out of memory on cosh(exp(exp(30)))
+_UNORDERED = PrettyPrinter({"use_unicode": True, "wrap_line": False, "order": "none"})
 
 PLAIN, LOWERED = "0123456789aehijklmnoprstuvx+-", "₀₁₂₃₄₅₆₇₈₉ₐₑₕᵢⱼₖₗₘₙₒₚᵣₛₜᵤᵥₓ₊₋"
 SUBSCRIPTS = str.maketrans(PLAIN, LOWERED)
@@ -53,7 +56,11 @@ def picture(cell) -> prettyForm:
 
 
 def expression(expr) -> prettyForm:
-    return _PRINTER._print(expr if isinstance(expr, sympy.MatrixBase) else as_expr(expr))
+    value = expr if isinstance(expr, sympy.MatrixBase) else as_expr(expr)
+    try:
+        return _PRINTER._print(value)
+    except (MemoryError, OverflowError):
+        return _UNORDERED._print(value)
 
 
 def beside(*pictures) -> prettyForm:
