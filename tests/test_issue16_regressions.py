@@ -283,3 +283,18 @@ def test_amplitudes_near_ten_to_minus_two_hundred_with_radicals(text):
                    "than 1024 bits, too few for amplitudes of 10^-300 (DecompositionError)")
 def test_a_radical_amplitude_of_ten_to_minus_three_hundred():
     ran("schmidt |00> + 1e-300 sqrt(2)|11> + |01>")
+
+
+def test_the_concurrence_of_a_doubly_exponentially_small_amplitude():
+    # was: MemoryError inside sympy's radsimp (classes.two_qubit_concurrence)
+    try:
+        ran("tangle exp(-exp(30))^(1/2)|011> + |110> + |000> + |100>")
+    except InputError as err:
+        assert err.line == 1 and "internal error" not in err.message
+
+
+@pytest.mark.xfail(strict=True, reason="states.abs_squared: sympy evaluates cosh(exp(exp(30))) "
+                   "with mpmath, which runs out of memory (MemoryError); the pretty printer's "
+                   "own ordering of such terms falls back to their stored order (render/pretty)")
+def test_a_doubly_exponentially_large_amplitude():
+    ran("(-cosh(exp(exp(30))))|0,0> - |01> - |00>")
