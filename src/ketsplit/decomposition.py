@@ -29,7 +29,9 @@ from .language.printer import label_text
 from .language.printer import text as language_text
 from .exact.eigen import NoClosedForm
 from .base.errors import InputError
+from .numeric.digits import certain_text
 from .numeric.schmidt import CertifiedSchmidt, certified_decomposition as certified_pieces
+from .numeric.values import certified_real
 from .planner import plan
 from .states import State, abs_squared
 from .symmetric import SymmetricState, dicke_split
@@ -187,7 +189,7 @@ def schmidt(state: State, cut: Cut | str | None = None, vectors: bool = True) ->
     pieces, ordered = order_pieces(pieces, box, squares=spectrum_only)
     notes = []
     if normal is not state:
-        notes.append(f"the state was normalised (its squared norm was {language_text(state.norm_squared())})")
+        notes.append(normalised_note(state.norm_squared()))
     if not ordered:
         notes.append("the order of the coefficients depends on the parameters")
     vectors_of = (lambda k: []) if spectrum_only else (lambda k: [p[k] for p in pieces])
@@ -214,11 +216,27 @@ def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
         return certified_decomposition(state, cut, digits, chosen.reason, chosen.factors, vectors)
     try:
         found = schmidt(state, cut, vectors)
-    except NoClosedForm as why:
+    except (NoClosedForm, OverflowError) as failure:
+        # OverflowError: sympy 1.14 on flint ground types takes math.log of huge integers
+        # when it looks for square factors under a radical (amplitudes near 10^-200)
+        why = str(failure) if isinstance(failure, NoClosedForm) else \
+            f"sympy's arithmetic overflows on these closed forms ({failure})"
         if method == "exact" or state.symbols:
-            raise no_closed_form(state, str(why)) from None
+            raise no_closed_form(state, why) from None
         return certified_decomposition(state, cut, digits, f"no closed form ({why})", (), vectors)
     return replace(found, route=chosen.route, reason=chosen.reason)
+
+
+LONG_NORM = 120   # characters: a longer exact squared norm is noted by its certain digits
+
+
+def normalised_note(norm2: sympy.Expr) -> str:
+    """The note that the state was normalised, with its squared norm: exact, or its 20
+    certain digits when the exact number is long (10^-300 amplitudes give 600-digit ones)."""
+    written = language_text(norm2)
+    if len(written) > LONG_NORM and norm2.is_number:
+        written = f"{certain_text(certified_real(norm2, 20), 20)} to 20 certain digits"
+    return f"the state was normalised (its squared norm was {written})"
 
 
 def no_closed_form(state: State, why: str) -> InputError:
@@ -283,7 +301,7 @@ def monomial_schmidt(split: State):
     left = [unit_vector(i, split.dims[0]) for i, _ in order]
     right = [unit_vector(j, split.dims[1]) * (split.amplitudes[(i, j)] / sympy.sqrt(squares[(i, j)]))
              for i, j in order]
-    notes = () if total == 1 else (f"the state was normalised (its squared norm was {total})",)
+    notes = () if total == 1 else (normalised_note(total),)
     decomposition = Decomposition(normal, Cut((0,), (1,)), [sympy.sqrt(squares[k] / total) for k in order],
                                   left, right, True, True, notes)
     verify_rebuild(decomposition)

@@ -67,9 +67,11 @@ def vector_text(vector: SchmidtVector, parts: tuple[int, ...], state: State, dig
 
 
 def joined(real: str, imag: str | None) -> str:
-    """'re + im i' from the texts of the parts (the real part alone when imag is None)."""
+    """'re + im i' from the texts of the parts (the real part alone when imag is None); a
+    part with no certain digit, a bound '|x| < 2e-39', is bracketed, as complex_digits does."""
     if imag is None:
         return real
+    real, imag = (f"({part})" if part.startswith("|x|") else part for part in (real, imag))
     sign, imag = ("-", imag[1:]) if imag.startswith("-") else ("+", imag)
     return f"{real} {sign} {imag} i"
 

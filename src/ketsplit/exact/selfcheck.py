@@ -32,7 +32,8 @@ from ..numeric.enclose import Encloser
 from ..states import State
 from .schmidt import nonzero_entries
 
-LADDER = (96, 256, 1024)     # bits of the balls tried in turn
+LADDER = (96, 256, 1024)     # bits of the balls tried in turn (longer for a wide range of sizes)
+MOST_BITS = 1 << 16          # the ladder's ceiling, however wide the range
 NARROW = arb(2) ** -40       # a ball holding zero must be this narrow, relative to the entries
 POINTS = 2                   # random points for a state with parameters
 TRIES = 12                   # points tried to find POINTS without a pole
@@ -46,7 +47,7 @@ def verify_rebuild(decomposition) -> None:
     """The residual of ``decomposition`` (state, cut, coefficients, left, right) is zero."""
     state = decomposition.state
     if not state.symbols:
-        check_at({}, decomposition)
+        check_at({}, decomposition, ladder=ladder_for(state.amplitudes.values()))
         return
     rng = random.Random(20261202)
     checked = 0
@@ -102,7 +103,30 @@ def spectrum_residuals(groups, norm2: sympy.Expr, bits: int) -> list[acb] | None
     return out if all(v.is_finite() for v in out) else None
 
 
-def check_at(point: dict, decomposition, strict: bool = True) -> bool:
+def ladder_for(amplitudes) -> tuple[int, ...]:
+    """The precisions to try for a state of numbers: LADDER, then doubling up to four times
+    the span in bits between its largest and smallest amplitudes (closed forms of a state
+    with amplitudes 1 and 10^-300 cancel about 1000 bits before their small pieces show),
+    at most MOST_BITS.  The span is read from 64-bit balls: it only sets a precision."""
+    exponents = []
+    encloser = Encloser(64)
+    for amplitude in amplitudes:
+        try:
+            size = abs(encloser(amplitude)).upper()
+        except (ZeroDivisionError, ValueError):
+            continue
+        if size.is_finite() and size > 0:
+            exponents.append(size.mid().man_exp()[1] + size.mid().man_exp()[0].bit_length())
+    span = max(exponents) - min(exponents) if exponents else 0
+    ladder, bits = list(LADDER), LADDER[-1]
+    while bits < min(4 * span, MOST_BITS):
+        bits *= 2
+        ladder.append(bits)
+    return tuple(ladder)
+
+
+def check_at(point: dict, decomposition, strict: bool = True, ladder: tuple[int, ...] = LADDER
+             ) -> bool:
     """Every residual at ``point`` is a ball holding zero, narrow relative to the entries.
 
     Raises DecompositionError on a ball that excludes zero.  A ball that is not
@@ -110,7 +134,7 @@ def check_at(point: dict, decomposition, strict: bool = True) -> bool:
     caller tries another point) and is an error otherwise.
     """
     finite = False
-    for bits in LADDER:
+    for bits in ladder:
         balls = residual_balls(point, decomposition, bits)
         if balls is None:
             continue  # a pole, or a cancellation this precision cannot resolve yet
@@ -125,7 +149,7 @@ def check_at(point: dict, decomposition, strict: bool = True) -> bool:
             return True
     if not finite and not strict:
         return False
-    raise DecompositionError(f"the rebuild residual is not narrow at {LADDER[-1]} bits at {_text(point)}")
+    raise DecompositionError(f"the rebuild residual is not narrow at {ladder[-1]} bits at {_text(point)}")
 
 
 def residual_balls(point: dict, decomposition, bits: int) -> tuple[list[acb], arb] | None:
