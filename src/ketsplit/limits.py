@@ -195,10 +195,22 @@ def enforced(span: Span | None = None, source: str | None = None) -> Iterator[No
     """Run a block (a statement, an API call) under the time limit and the memory ceiling
     in force, each stopping it with its LimitError."""
     found = current()
-    with statement_limited(found.seconds, found.memory,
-                           lambda: over_time(found.seconds, span, source),
-                           lambda used: over_memory(used, span, source)):
-        yield
+    try:
+        with statement_limited(found.seconds, found.memory,
+                               lambda: over_time(found.seconds, span, source),
+                               lambda used: over_memory(used, span, source)):
+            yield
+    except MemoryError:  # an allocation refused at once, before the ceiling could see it grow
+        raise out_of_memory(span, source) from None
+
+
+def out_of_memory(span: Span | None = None, source: str | None = None) -> LimitError:
+    """The error of an allocation the machine refused: sympy and mpmath ask for the digits
+    of numbers such as exp(exp(30)) (about 10^13 of them) when they compare or simplify."""
+    return LimitError("stopped: a value in this statement needs more memory than the machine "
+                      "has (a number such as exp(exp(30)) has about 10^13 digits, and comparing "
+                      "or simplifying it asks for them); write such numbers in a smaller form or "
+                      "give the parameter a value; it had no effect", span, source)
 
 
 def refuse(what: str, name: str, span: Span | None = None, source: str | None = None) -> LimitError:
