@@ -59,7 +59,13 @@ def expr_latex(value) -> str:
     """An expression or matrix in LaTeX."""
     if isinstance(value, sympy.MatrixBase):
         return matrix_latex(value)
-    return sympy.latex(as_expr(value))
+    value = as_expr(value)
+    try:
+        return sympy.latex(value)
+    except (MemoryError, OverflowError):
+        # sympy orders a sum's terms by evaluating them, and mpmath runs out of memory on
+        # cosh(exp(exp(30))): such a sum is written with its terms as stored
+        return sympy.latex(value, order="none")
 
 
 def matrix_latex(matrix: sympy.MatrixBase) -> str:
