@@ -320,3 +320,18 @@ def test_doubly_exponential_amplitudes_give_a_result_or_a_limit_error(text):
     else:
         for result in results:
             result.text(), result.text(pretty=True), result.latex(), json.dumps(result.to_json())
+
+
+def test_a_closed_form_that_cannot_be_checked_goes_to_certified_numbers():
+    # found by the grammar fuzzer: beside sinh(10^999) the closed forms' power-sum check stays
+    # wide up to its ceiling; that is no proof of an error, so the one route gives certified
+    # numbers and says why. Rank 3 by hand: across 1|23 the rows are s|01>, |10> - |11>, |11>
+    from ketsplit.decomposition import decompose
+    state = ketsplit.ket("((-1))|111> + ((sinh(10^999)))|001> + |211> + |110>")
+    found = decompose(state, "1|23", vectors=False)
+    assert found.route == "certified" and "could not be checked" in found.reason
+    assert found.rank == 3
+    try:   # the cuts statement: a result or an InputError at line 1, never an internal error
+        ran("cuts ((-1))|111> + ((sinh(10^999)))|001> + |211> + |110>")
+    except InputError as err:
+        assert err.span is not None and err.span.line == 1

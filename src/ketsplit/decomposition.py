@@ -23,7 +23,7 @@ from .cuts import Cut, parse_cut, side_label
 from .exact.order import order_pieces, scaled, square
 from .exact.schmidt import nonzero_entries, schmidt_pieces, schmidt_spectrum
 from .exact.selfcheck import DecompositionError as DecompositionError  # re-exported
-from .exact.selfcheck import verify_rebuild, verify_spectrum
+from .exact.selfcheck import Unchecked, verify_rebuild, verify_spectrum
 from .exact.signs import box_of, drop_abs
 from .language.printer import label_text
 from .language.printer import text as language_text
@@ -216,11 +216,13 @@ def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
         return certified_decomposition(state, cut, digits, chosen.reason, chosen.factors, vectors)
     try:
         found = schmidt(state, cut, vectors)
-    except (NoClosedForm, OverflowError) as failure:
+    except (NoClosedForm, OverflowError, Unchecked) as failure:
         # OverflowError: sympy 1.14 on flint ground types takes math.log of huge integers
-        # when it looks for square factors under a radical (amplitudes near 10^-200)
-        why = str(failure) if isinstance(failure, NoClosedForm) else \
-            f"sympy's arithmetic overflows on these closed forms ({failure})"
+        # when it looks for square factors under a radical (amplitudes near 10^-200);
+        # Unchecked: the closed forms' own check stayed inconclusive (sinh(10^999) beside 1)
+        why = {OverflowError: f"sympy's arithmetic overflows on these closed forms ({failure})",
+               Unchecked: f"the closed forms could not be checked ({failure})"
+               }.get(type(failure), str(failure))
         if method == "exact" or state.symbols:
             raise no_closed_form(state, why) from None
         return certified_decomposition(state, cut, digits, f"no closed form ({why})", (), vectors)

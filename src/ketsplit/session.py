@@ -117,7 +117,9 @@ class Session:
         except InputError as err:
             raise relocate(err, statement, line) from None
         except RecursionError:
-            raise InputError("the statement is nested too deeply to evaluate",
+            raise InputError("the statement is nested too deeply, or holds a number too large "
+                             "(such as sinh(10^999)), to evaluate: sympy's recursion ran out; "
+                             "write it in a flatter or smaller form",
                              Span(line, 1, len(statement)), statement) from None
         except ValueError as err:  # CPython refuses to print integers of more than 4300 digits
             if "integer string conversion" not in str(err):
