@@ -58,6 +58,12 @@ def examples(count: int) -> settings:
                     suppress_health_check=QUIET)
 
 
+def long_timeout(share: float) -> int:
+    """The test's own time limit in a long run: a second per input (each statement also has
+    its own limit); pytest's 300 s stands for the default run."""
+    return max(300, int((MANY or 2000) * share))
+
+
 def long_run(share: float) -> settings:
     """``share`` of KETSPLIT_FUZZ_EXAMPLES (default 2000) for a slow test."""
     return settings(max_examples=max(1, int((MANY or 2000) * share)), deadline=None,
@@ -372,6 +378,7 @@ def test_several_statements_on_one_line(text):
 
 
 @pytest.mark.slow
+@pytest.mark.timeout(long_timeout(1.0))
 @long_run(1.0)
 @given(slipped(statements).filter(in_sandbox), st.sampled_from(["", PRELUDE]))
 def test_many_statements(text, prelude):
@@ -474,6 +481,7 @@ def test_damaged_worksheets_written_by_ketsplit(program, data, action):
 
 
 @pytest.mark.slow
+@pytest.mark.timeout(long_timeout(0.15))
 @long_run(0.15)
 @given(SAFE_PROGRAM, st.data(), ACTIONS)
 def test_many_damaged_worksheets(program, data, action):
