@@ -335,3 +335,9 @@ def test_a_closed_form_that_cannot_be_checked_goes_to_certified_numbers():
         ran("cuts ((-1))|111> + ((sinh(10^999)))|001> + |211> + |110>")
     except InputError as err:
         assert err.span is not None and err.span.line == 1
+
+
+def test_a_number_where_on_expects_an_operator():
+    # found by the 20,000-input grammar fuzz: i(2) is the number 2i, not an operator
+    err = refused("x = on(i(2), 1) (2 dicke(8, 5))")
+    assert (err.span.line, err.span.column) == (1, 5) and "expected an operator" in err.message

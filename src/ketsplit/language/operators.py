@@ -114,6 +114,9 @@ def identity(dims: tuple[int, ...]) -> OperatorValue:
 def as_operator(value) -> OperatorValue:
     if isinstance(value, OperatorValue):
         return value
+    if not isinstance(value, sympy.MatrixBase):   # on(2 i, 1): a number, a ket, a bra
+        raise OperatorError("expected an operator (a matrix such as [[0, 1], [1, 0]], id(d), "
+                            "or an outer product |0><1|) here")
     if not value.is_square:
         raise OperatorError(f"a {value.rows}x{value.cols} matrix is not an operator (not square)")
     return OperatorValue(sympy.Matrix(value), None)
