@@ -229,14 +229,14 @@ def decompose(state: State, cut: Cut | str | None = None, method: str = "auto",
     return replace(found, route=chosen.route, reason=chosen.reason)
 
 
-LONG_NORM = 120   # characters: a longer exact squared norm is noted by its certain digits
+LONG_CLOSED_FORM = 120  # characters: a longer constant closed form is shown by certified digits
 
 
 def normalised_note(norm2: sympy.Expr) -> str:
     """The note that the state was normalised, with its squared norm: exact, or its 20
     certain digits when the exact number is long (10^-300 amplitudes give 600-digit ones)."""
     written = language_text(norm2)
-    if len(written) > LONG_NORM and norm2.is_number:
+    if len(written) > LONG_CLOSED_FORM and norm2.is_number:
         written = f"{certain_text(certified_real(norm2, 20), 20)} to 20 certain digits"
     return f"the state was normalised (its squared norm was {written})"
 

@@ -9,7 +9,7 @@ import sympy
 
 from .. import decomposition
 from ..cuts import Cut
-from ..decomposition import Decomposition
+from ..decomposition import LONG_CLOSED_FORM, Decomposition
 from ..states import State
 from ..base.document import Between, Field, Kets, Note, Report, Table
 from dataclasses import replace
@@ -23,7 +23,6 @@ from .registry import COMMANDS, CommandCall, command
 from .topics import TOPICS, more_topics, topic_report
 
 
-LONG_CLOSED_FORM = 120  # characters; longer constant closed forms are shown by certified digits
 
 
 def decomposition_report(d: Decomposition, name: str, digits: int | None = None) -> Report:

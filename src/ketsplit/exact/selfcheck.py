@@ -28,6 +28,7 @@ import sympy
 from flint import acb, acb_mat, arb, ctx
 
 from ..cuts import side_index
+from ..numeric.digits import binary_exponent
 from ..numeric.enclose import Encloser
 from ..states import State
 from .schmidt import nonzero_entries
@@ -118,7 +119,7 @@ def ladder_for(amplitudes) -> tuple[int, ...]:
     for amplitude in amplitudes:
         size = _size(amplitude)
         if size is not None:
-            exponents.append(size.mid().man_exp()[1] + size.mid().man_exp()[0].bit_length())
+            exponents.append(binary_exponent(size))
     span = max(exponents) - min(exponents) if exponents else 0
     ladder, bits = list(LADDER), LADDER[-1]
     while bits < min(4 * span, MOST_BITS):

@@ -27,6 +27,7 @@ from sympy.polys.constructor import construct_domain
 from sympy.polys.matrices import DomainMatrix
 
 from ..base.errors import LimitError
+from .digits import binary_exponent
 from .enclose import Encloser, enclose
 from .certified import Ball, SchmidtVector
 from .hermitian import Eigen, IntMatrix, eigen, python_ints, single
@@ -201,8 +202,7 @@ class Block:
         top = max((abs(z).upper() for z in values.values()), key=lambda v: v.mid())
         if not top.is_finite():
             raise ArithmeticError("an entry is not enclosed at this precision")
-        q = ball.bits + FIXED_GUARD_BITS - (int(top.mid().man_exp()[1]) + top.mid().man_exp()[0].bit_length()
-                                              if top > 0 else 0)
+        q = ball.bits + FIXED_GUARD_BITS - (binary_exponent(top) if top > 0 else 0)
         rows, cols = self._shape()
         re, im = [[0] * cols for _ in range(rows)], [[0] * cols for _ in range(rows)]
         error = arb(0)

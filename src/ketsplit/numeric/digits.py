@@ -218,6 +218,12 @@ def _text(ball: arb, found: Rounded | None) -> str:
     return found.text() if found is not None else zero_bound_text(ball)
 
 
+def binary_exponent(ball: arb) -> int:
+    """e with 2^(e-1) <= |mid| < 2^e for a ball with a nonzero finite midpoint: its size in bits."""
+    mantissa, exponent = ball.mid().man_exp()
+    return int(exponent) + int(abs(mantissa)).bit_length()
+
+
 def complex_digits(z: acb, digits: int) -> tuple[str, int]:
     """A complex ball as ``re + im i`` with certain digits only, and the fewest certain
     digits among its shown parts (0 when no part has one).
